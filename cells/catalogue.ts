@@ -1,0 +1,214 @@
+/**
+ * The catalogue: how a pure `lib/` function becomes a notebook formula. A formula declares
+ * its parameters (with units and accepted ranges), what it returns, its sources in the
+ * registry (`shared/sources.ts`) and whether its result can feed the making or fitting of a
+ * lens (then the engine shows the cautions). The formula reference in the README is
+ * generated from these declarations.
+ *
+ * @example
+ * ```ts
+ * import { defineFormula } from "./catalogue.ts";
+ * const half = defineFormula({
+ *   name: "halfPower",
+ *   group: "example",
+ *   summary: "Half of a power.",
+ *   params: [{ name: "power", type: "quantity", unit: "D", doc: "a power" }],
+ *   returns: { type: "quantity", unit: "D", doc: "half of it" },
+ *   sources: ["common-practice"],
+ *   example: "halfPower(2 D)",
+ *   fn: (p) => (p as number) / 2,
+ * });
+ * half.name; // "halfPower"
+ * ```
+ *
+ * @module
+ */
+
+import { hasSource } from "../shared/sources.ts";
+
+/** Built-in parameter and return types; value types registered in `types.ts` add more. */
+export type BuiltinType =
+  | "quantity"
+  | "number"
+  | "integer"
+  | "text"
+  | "boolean"
+  | "any"
+  | "list"
+  | "column"
+  | "table";
+
+/** One declared parameter of a formula. */
+export interface ParamSpec {
+  /** Name shown in the reference and in error messages. */
+  readonly name: string;
+  /** A built-in type or the name of a registered value type (e.g. `"rx"`). */
+  readonly type: BuiltinType | string;
+  /**
+   * For `quantity`: the unit the `lib` function expects. A notebook value in any
+   * compatible unit is converted; a bare number is read in this unit.
+   */
+  readonly unit?: string;
+  /** Inclusive accepted range, in `unit`. */
+  readonly range?: readonly [number, number];
+  /** May be left out; `fn` then receives `default` (or `undefined`). */
+  readonly optional?: boolean;
+  /** Value used when the argument is left out (already in `unit`). */
+  readonly default?: unknown;
+  /** One line: what the parameter is. */
+  readonly doc: string;
+}
+
+/** What a formula returns. */
+export interface ReturnSpec {
+  /** A built-in type or a registered value type. */
+  readonly type: BuiltinType | string;
+  /** For `quantity`: the unit of the number `fn` returns. */
+  readonly unit?: string;
+  /** One line: what the result is. */
+  readonly doc: string;
+}
+
+/** The declaration of one formula. */
+export interface FormulaSpec {
+  /** Name in the formula language (camelCase, our own). */
+  readonly name: string;
+  /** Catalogue section, e.g. "prescription", "acuity". */
+  readonly group: string;
+  /** One sentence for the reference. */
+  readonly summary: string;
+  /** Declared parameters, in call order. */
+  readonly params: readonly ParamSpec[];
+  /** The last parameter may repeat. */
+  readonly variadic?: boolean;
+  /** Declared result. */
+  readonly returns: ReturnSpec;
+  /** Ids in the sources registry. */
+  readonly sources: readonly string[];
+  /** True when the result could be used to make or fit a lens. */
+  readonly caution?: boolean;
+  /** A notebook expression that calls the formula; the docs test runs it. */
+  readonly example: string;
+  /** The implementation: receives converted arguments, returns the declared result. */
+  readonly fn: (...args: unknown[]) => unknown;
+}
+
+/** A named reference constant exposed to notebooks. */
+export interface ConstantSpec {
+  /** Name in the formula language. */
+  readonly name: string;
+  /** The number, in `unit`. */
+  readonly value: number;
+  /** Unit ("" for a pure number). */
+  readonly unit: string;
+  /** Id in the sources registry. */
+  readonly source: string;
+  /** One line: what it is. */
+  readonly summary: string;
+}
+
+/** A catalogue declaration that does not hold together (unknown source id, bad name, …). */
+export class CatalogueError extends Error {
+  /** @param message what is wrong with the declaration. */
+  constructor(message: string) {
+    super(message);
+    this.name = "CatalogueError";
+  }
+}
+
+const NAME = /^[a-z][A-Za-z0-9]*$/;
+
+function checkSources(owner: string, ids: readonly string[]): void {
+  for (const id of ids) {
+    if (!hasSource(id)) {
+      throw new CatalogueError(`${owner} cites unknown source "${id}" (shared/sources.ts)`);
+    }
+  }
+}
+
+/**
+ * Declare a formula. Checks the name and that every source id is registered; returns the
+ * declaration unchanged so modules can export it.
+ *
+ * @example
+ * ```ts
+ * import { defineFormula } from "./catalogue.ts";
+ * defineFormula({
+ *   name: "twice", group: "example", summary: "Double a number.",
+ *   params: [{ name: "x", type: "number", doc: "a number" }],
+ *   returns: { type: "number", doc: "2x" }, sources: ["common-practice"],
+ *   example: "twice(2)", fn: (x) => 2 * (x as number),
+ * }).params.length; // 1
+ * ```
+ * @throws {CatalogueError} on a malformed declaration.
+ */
+export function defineFormula(spec: FormulaSpec): FormulaSpec {
+  if (!NAME.test(spec.name)) {
+    throw new CatalogueError(`formula name "${spec.name}" must be camelCase letters and digits`);
+  }
+  if (spec.sources.length === 0) {
+    throw new CatalogueError(`formula ${spec.name} must cite at least one source`);
+  }
+  checkSources(`formula ${spec.name}`, spec.sources);
+  for (const p of spec.params) {
+    if (p.type === "quantity" && !p.unit) {
+      throw new CatalogueError(`formula ${spec.name}: quantity parameter ${p.name} needs a unit`);
+    }
+  }
+  return spec;
+}
+
+/**
+ * Declare a reference constant.
+ *
+ * @example
+ * ```ts
+ * import { defineConstant } from "./catalogue.ts";
+ * defineConstant({ name: "eyePower", value: 60, unit: "D", source: "emsley-reduced-eye", summary: "reduced eye" }).unit; // "D"
+ * ```
+ * @throws {CatalogueError} on an unknown source id or a bad name.
+ */
+export function defineConstant(spec: ConstantSpec): ConstantSpec {
+  if (!NAME.test(spec.name)) {
+    throw new CatalogueError(`constant name "${spec.name}" must be camelCase letters and digits`);
+  }
+  checkSources(`constant ${spec.name}`, [spec.source]);
+  return spec;
+}
+
+/** A whole catalogue: formulas and constants by name. */
+export interface Catalogue {
+  /** Formulas by name. */
+  readonly formulas: ReadonlyMap<string, FormulaSpec>;
+  /** Constants by name. */
+  readonly constants: ReadonlyMap<string, ConstantSpec>;
+}
+
+/**
+ * Assemble a catalogue from modules' declarations, refusing duplicate names.
+ *
+ * @example
+ * ```ts
+ * import { buildCatalogue } from "./catalogue.ts";
+ * buildCatalogue([], []).formulas.size; // 0
+ * ```
+ * @throws {CatalogueError} when two declarations share a name.
+ */
+export function buildCatalogue(
+  formulas: readonly FormulaSpec[],
+  constants: readonly ConstantSpec[],
+): Catalogue {
+  const f = new Map<string, FormulaSpec>();
+  const c = new Map<string, ConstantSpec>();
+  for (const spec of formulas) {
+    if (f.has(spec.name)) throw new CatalogueError(`formula ${spec.name} is declared twice`);
+    f.set(spec.name, spec);
+  }
+  for (const spec of constants) {
+    if (c.has(spec.name) || f.has(spec.name)) {
+      throw new CatalogueError(`constant ${spec.name} clashes with another declaration`);
+    }
+    c.set(spec.name, spec);
+  }
+  return { formulas: f, constants: c };
+}

@@ -1,0 +1,413 @@
+/**
+ * The formula language: mathjs's expression syntax with Lentil's units (diopter `D`, prism
+ * dioptre `prism`, shown as Δ), constants and formulas added, and every function that could
+ * redefine the language disabled, following mathjs's security guidance. Each call to a
+ * catalogue formula converts and range-checks its arguments as the formula declares.
+ *
+ * @example
+ * ```ts
+ * import { getLanguage } from "./language.ts";
+ * const lang = getLanguage();
+ * const v = lang.compile(lang.parse("2 D + 0.5 D")).evaluate({});
+ * lang.describe(v).display; // "+2.50 D"
+ * ```
+ *
+ * @module
+ */
+
+import { all, create, type MathJsInstance, type MathNode, type Unit } from "mathjs";
+import type { Catalogue, FormulaSpec, ParamSpec } from "./catalogue.ts";
+import { Column, isTable, tableInfo } from "./table.ts";
+import { DEFAULT_DISPLAY, type DisplayOptions, getValueType, typeOfValue } from "./types.ts";
+import { formatNumber, formatQuantity } from "./display.ts";
+import { CATALOGUE } from "./mod.ts";
+
+/** A formula call whose arguments do not fit its declaration. */
+export class FormulaArgumentError extends TypeError {
+  /** @param formula formula name; @param message what was wrong. */
+  constructor(readonly formula: string, message: string) {
+    super(`${formula}: ${message}`);
+    this.name = "FormulaArgumentError";
+  }
+}
+
+/** An expression that does not parse; `offset` is zero-based within the expression. */
+export class ExpressionSyntaxError extends SyntaxError {
+  /** @param message the reason; @param offset where in the expression. */
+  constructor(message: string, readonly offset: number) {
+    super(message);
+    this.name = "ExpressionSyntaxError";
+  }
+}
+
+/** How a value is shown and serialised. */
+export interface Described {
+  /** Text as the trade writes it, unit included. */
+  readonly display: string;
+  /** Plain JSON value (a number in `unit` for quantities). */
+  readonly value: unknown;
+  /** Unit of `value` ("" when none). */
+  readonly unit: string;
+}
+
+/** Functions that user formulas may not call: they could redefine the language or evaluate text. */
+export const DISABLED_FUNCTIONS: readonly string[] = [
+  "import",
+  "createUnit",
+  "evaluate",
+  "parse",
+  "compile",
+  "simplify",
+  "simplifyConstant",
+  "simplifyCore",
+  "derivative",
+  "resolve",
+  "rationalize",
+  "symbolicEqual",
+  "leafCount",
+  "parser",
+  "reviver",
+  "replacer",
+  "config",
+  "chain",
+  "help",
+];
+
+/** The prepared language; obtain it with {@linkcode getLanguage}. */
+export interface Language {
+  /** The catalogue the language was built from. */
+  readonly catalogue: Catalogue;
+  /** Parse an expression; throws {@linkcode ExpressionSyntaxError}. */
+  parse(expression: string): MathNode;
+  /** Compile a parsed expression. */
+  compile(node: MathNode): { evaluate(scope: Record<string, unknown>): unknown };
+  /** Whether `name` is a function the language knows (built-in or catalogue). */
+  isFunction(name: string): boolean;
+  /** Whether `name` is a unit the language knows. */
+  isUnit(name: string): boolean;
+  /** Constants available to every expression, as values. */
+  readonly constants: Readonly<Record<string, unknown>>;
+  /** A quantity value. */
+  quantity(value: number, unit: string): Unit;
+  /** The number and unit of a quantity, or undefined when `x` is not a quantity. */
+  quantityParts(x: unknown): { value: number; unit: string } | undefined;
+  /** Read `x` as a number in `unit`; bare numbers are taken as already in it. */
+  toNumberIn(x: unknown, unit: string): number;
+  /** Display and serialise a value. */
+  describe(x: unknown, options?: DisplayOptions): Described;
+}
+
+/** Units whose values are shown in that unit rather than mathjs's choice. */
+const PREFERRED_UNITS = ["D", "prism", "mm", "deg", "arcmin", "um", "nm", "years", "m", "cm"];
+
+/** The parts of mathjs's typed-function that its type declarations leave out. */
+interface TypedRegistry {
+  addTypes(types: { name: string; test: (x: unknown) => boolean }[]): void;
+  addConversions(
+    conversions: { from: string; to: string; convert: (x: never) => unknown }[],
+  ): void;
+}
+
+function typedOf(math: MathJsInstance): TypedRegistry {
+  return math.typed as unknown as TypedRegistry;
+}
+
+function makeMath(): MathJsInstance {
+  const math = create(all, {});
+  math.createUnit("D", { definition: "1 m^-1", aliases: ["dpt", "dioptre", "diopter"] });
+  math.createUnit("prism", { aliases: ["pdpt"] });
+  typedOf(math).addTypes([{ name: "Column", test: (x: unknown) => x instanceof Column }]);
+  return math;
+}
+
+function columnToArray(math: MathJsInstance, c: Column): unknown[] {
+  if (c.data instanceof Float64Array) {
+    if (c.type === "quantity" && c.unit) return Array.from(c.data, (v) => math.unit(v, c.unit));
+    return Array.from(c.data);
+  }
+  return c.data;
+}
+
+let cached: Language | undefined;
+
+/**
+ * The shared language instance, built once from the catalogue in `cells/mod.ts`.
+ *
+ * @example
+ * ```ts
+ * import { getLanguage } from "./language.ts";
+ * getLanguage().isUnit("D"); // true
+ * ```
+ */
+export function getLanguage(): Language {
+  return cached ??= buildLanguage(CATALOGUE);
+}
+
+/**
+ * Build a language instance from a catalogue (tests use small catalogues).
+ *
+ * @example
+ * ```ts
+ * import { buildLanguage } from "./language.ts";
+ * import { buildCatalogue } from "./catalogue.ts";
+ * buildLanguage(buildCatalogue([], [])).isFunction("sqrt"); // true
+ * ```
+ */
+export function buildLanguage(catalogue: Catalogue): Language {
+  const math = makeMath();
+  typedOf(math).addConversions([
+    { from: "Column", to: "Array", convert: (c: Column) => columnToArray(math, c) },
+  ]);
+  const parse = math.parse;
+  const unitOf = (n: number, u: string): Unit => math.unit(n, u);
+  const isUnitValue = (x: unknown): x is Unit => math.isUnit(x);
+
+  const toNumberIn = (x: unknown, unit: string): number => {
+    if (typeof x === "number") return x;
+    if (isUnitValue(x)) {
+      if (!unit) {
+        // A unit that cancels out (e.g. cm × D → ratio) counts as a pure number.
+        const simplified = (x as Unit).toSI();
+        if (simplified.dimensions.every((d: number) => d === 0)) {
+          return simplified.toNumber();
+        }
+        throw new TypeError(`expected a pure number, got ${x.toString()}`);
+      }
+      if (!x.equalBase(math.unit(1, unit))) {
+        throw new TypeError(`expected a quantity in ${unit}, got ${x.toString()}`);
+      }
+      return x.toNumber(unit);
+    }
+    if (typeof x === "boolean") throw new TypeError(`expected a number, got ${x}`);
+    throw new TypeError(`expected a number${unit ? ` in ${unit}` : ""}, got ${kindOf(x)}`);
+  };
+
+  const convertArg = (spec: FormulaSpec, p: ParamSpec, x: unknown): unknown => {
+    if (x === undefined) {
+      if (p.optional) return p.default;
+      throw new FormulaArgumentError(spec.name, `missing argument ${p.name} (${p.doc})`);
+    }
+    const fail = (why: string) => new FormulaArgumentError(spec.name, `${p.name}: ${why}`);
+    switch (p.type) {
+      case "quantity":
+      case "number":
+      case "integer": {
+        let n: number;
+        try {
+          n = toNumberIn(x, p.type === "quantity" ? p.unit! : "");
+        } catch (e) {
+          throw fail((e as Error).message);
+        }
+        if (!Number.isFinite(n)) throw fail(`must be a finite number (got ${n})`);
+        if (p.type === "integer" && !Number.isInteger(n)) {
+          throw fail(`must be a whole number (got ${n})`);
+        }
+        if (p.range && (n < p.range[0] || n > p.range[1])) {
+          const u = p.unit ? ` ${p.unit}` : "";
+          throw fail(
+            `${formatNumber(n)}${u} is outside the accepted range ${p.range[0]}–${p.range[1]}${u}`,
+          );
+        }
+        return n;
+      }
+      case "text":
+        if (typeof x !== "string") throw fail(`expected text in quotes, got ${kindOf(x)}`);
+        return x;
+      case "boolean":
+        if (typeof x !== "boolean") throw fail(`expected true or false, got ${kindOf(x)}`);
+        return x;
+      case "list":
+        if (math.isMatrix(x)) return (x as { toArray(): unknown[] }).toArray();
+        if (x instanceof Column) return columnToArray(math, x);
+        if (Array.isArray(x)) return x;
+        throw fail(`expected a list [..] or a column, got ${kindOf(x)}`);
+      case "column":
+        if (x instanceof Column) return x;
+        throw fail(`expected a table column (table.column), got ${kindOf(x)}`);
+      case "table":
+        if (isTable(x)) return x;
+        throw fail(`expected a table, got ${kindOf(x)}`);
+      case "any":
+        return x;
+      default: {
+        const t = getValueType(p.type);
+        if (!t) throw fail(`unknown parameter type ${p.type}`);
+        if (t.is(x)) return x;
+        if (typeof x === "string" && t.fromText) {
+          try {
+            return t.fromText(x);
+          } catch (e) {
+            throw fail((e as Error).message);
+          }
+        }
+        throw fail(`expected ${t.summary}, got ${kindOf(x)}`);
+      }
+    }
+  };
+
+  const bind = (spec: FormulaSpec) => {
+    const wrapped = (...args: unknown[]) => {
+      const n = spec.params.length;
+      if (args.length > n && !spec.variadic) {
+        throw new FormulaArgumentError(
+          spec.name,
+          `takes at most ${n} argument${n === 1 ? "" : "s"}, got ${args.length}`,
+        );
+      }
+      const converted: unknown[] = [];
+      for (let i = 0; i < Math.max(n, args.length); i++) {
+        const p = spec.params[Math.min(i, n - 1)];
+        converted.push(convertArg(spec, p, args[i]));
+      }
+      let out: unknown;
+      try {
+        out = spec.fn(...converted);
+      } catch (e) {
+        if (e instanceof FormulaArgumentError) throw e;
+        const err = e as Error;
+        const wrappedErr = new Error(`${spec.name}: ${err.message}`);
+        wrappedErr.name = err.name;
+        throw wrappedErr;
+      }
+      if (spec.returns.type === "quantity" && typeof out === "number") {
+        return spec.returns.unit ? unitOf(out, spec.returns.unit) : out;
+      }
+      return out;
+    };
+    Object.defineProperty(wrapped, "name", { value: spec.name });
+    return wrapped;
+  };
+
+  const imports: Record<string, unknown> = {};
+  for (const spec of catalogue.formulas.values()) imports[spec.name] = bind(spec);
+  math.import(imports, { override: true });
+
+  const constants: Record<string, unknown> = {};
+  for (const c of catalogue.constants.values()) {
+    constants[c.name] = c.unit ? unitOf(c.value, c.unit) : c.value;
+  }
+
+  const disabled: Record<string, unknown> = {};
+  for (const name of DISABLED_FUNCTIONS) {
+    disabled[name] = () => {
+      throw new Error(`function ${name} is not available in Lentil formulas`);
+    };
+  }
+  math.import(disabled, { override: true });
+
+  const isFunction = (name: string) =>
+    catalogue.formulas.has(name) ||
+    (typeof (math as unknown as Record<string, unknown>)[name] === "function" &&
+      !DISABLED_FUNCTIONS.includes(name));
+
+  const isUnit = (name: string) => {
+    try {
+      return math.Unit.isValuelessUnit(name);
+    } catch {
+      return false;
+    }
+  };
+
+  const quantityParts = (x: unknown): { value: number; unit: string } | undefined => {
+    if (!isUnitValue(x)) return undefined;
+    for (const u of PREFERRED_UNITS) {
+      const probe = math.unit(1, u);
+      if (x.equalBase(probe)) {
+        const own = x.formatUnits();
+        const unit = PREFERRED_UNITS.includes(own) ? own : u;
+        return { value: x.toNumber(unit), unit };
+      }
+    }
+    const own = x.formatUnits();
+    if (own === "") return { value: x.toSI().toNumber(), unit: "" };
+    return { value: x.toNumber(), unit: own };
+  };
+
+  const describe = (x: unknown, options: DisplayOptions = DEFAULT_DISPLAY): Described => {
+    if (typeof x === "number") return { display: formatNumber(x), value: x, unit: "" };
+    if (typeof x === "string") return { display: x, value: x, unit: "" };
+    if (typeof x === "boolean") return { display: x ? "yes" : "no", value: x, unit: "" };
+    const q = quantityParts(x);
+    if (q) {
+      return { display: formatQuantity(q.value, q.unit, options.powerStep), ...q };
+    }
+    if (x instanceof Column) {
+      return {
+        display: `column ${x.name} (${x.length} rows${x.unit ? `, ${x.unit}` : ""})`,
+        value: null,
+        unit: x.unit,
+      };
+    }
+    const info = tableInfo(x);
+    if (info) {
+      const ex = info.excluded ? `, ${info.excluded} excluded` : "";
+      return {
+        display: `table ${info.name}: ${info.rowCount} rows × ${info.columns.length} columns${ex}`,
+        value: null,
+        unit: "",
+      };
+    }
+    const t = typeOfValue(x);
+    if (t) {
+      return { display: t.display(x, options), value: t.json(x), unit: t.unit?.(x) ?? "" };
+    }
+    if (math.isMatrix(x) || Array.isArray(x)) {
+      const arr = math.isMatrix(x) ? (x as { toArray(): unknown[] }).toArray() : x as unknown[];
+      const parts = arr.map((v) => describe(v, options));
+      return {
+        display: `[${parts.map((p) => p.display).join(", ")}]`,
+        value: parts.map((p) => p.value),
+        unit: parts.length && parts.every((p) => p.unit === parts[0].unit) ? parts[0].unit : "",
+      };
+    }
+    if (x === null || x === undefined) return { display: "nothing", value: null, unit: "" };
+    if (typeof x === "function") return { display: "a function", value: null, unit: "" };
+    if (typeof x === "object") {
+      const entries = Object.entries(x as Record<string, unknown>).map(([k, v]) => {
+        const d = describe(v, options);
+        return [k, d] as const;
+      });
+      return {
+        display: entries.map(([k, d]) => `${k}: ${d.display}`).join(", "),
+        value: Object.fromEntries(entries.map(([k, d]) => [k, d.value])),
+        unit: "",
+      };
+    }
+    return { display: String(x), value: String(x), unit: "" };
+  };
+
+  return {
+    catalogue,
+    parse(expression: string): MathNode {
+      try {
+        return parse(expression);
+      } catch (e) {
+        const msg = (e as Error).message;
+        const m = /\(char (\d+)\)/.exec(msg);
+        const offset = m ? Math.max(0, Number(m[1]) - 1) : 0;
+        throw new ExpressionSyntaxError(msg.replace(/\s*\(char \d+\)/, ""), offset);
+      }
+    },
+    compile: (node) => node.compile(),
+    isFunction,
+    isUnit,
+    constants,
+    quantity: unitOf,
+    quantityParts,
+    toNumberIn,
+    describe,
+  };
+}
+
+function kindOf(x: unknown): string {
+  if (x === null || x === undefined) return "nothing";
+  if (typeof x === "string") return `text "${x}"`;
+  if (typeof x === "number") return `the number ${x}`;
+  if (x instanceof Column) return `column ${x.name}`;
+  if (isTable(x)) return "a table";
+  const t = typeOfValue(x);
+  if (t) return `a ${t.name}`;
+  if ((x as { type?: string }).type === "Unit") return `${String(x)}`;
+  if (Array.isArray(x)) return "a list";
+  return typeof x;
+}

@@ -1,0 +1,25 @@
+/**
+ * The whole catalogue of notebook formulas and constants. Each domain module exports its
+ * declarations; add a module's arrays here to expose it.
+ *
+ * @example
+ * ```ts
+ * import { CATALOGUE } from "./mod.ts";
+ * CATALOGUE.formulas.has("vertexPower"); // true
+ * ```
+ *
+ * @module
+ */
+
+import { buildCatalogue, type Catalogue } from "./catalogue.ts";
+import { CORE_CONSTANTS, CORE_FORMULAS } from "./core.ts";
+
+/** Every formula and constant, checked for duplicate names. */
+export const CATALOGUE: Catalogue = buildCatalogue(
+  [
+    ...CORE_FORMULAS,
+  ],
+  [
+    ...CORE_CONSTANTS,
+  ],
+);

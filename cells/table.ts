@@ -1,0 +1,117 @@
+/**
+ * Tables and columns as values of the formula language. A table is a plain object whose
+ * properties are its columns, so `trials.va` works in an expression; its metadata (name,
+ * column order, row count, rows excluded) is kept beside it. Numeric columns hold a
+ * `Float64Array` of numbers in the column's unit.
+ *
+ * @example
+ * ```ts
+ * import { Column, makeTable, tableInfo } from "./table.ts";
+ * const t = makeTable("trials", [new Column("lens", "quantity", "D", new Float64Array([1, 0.75]))]);
+ * tableInfo(t)?.rowCount; // 2
+ * ```
+ *
+ * @module
+ */
+
+/** Storage of one column: numbers in a typed array, anything else in a plain array. */
+export type ColumnData = Float64Array | unknown[];
+
+/** One column of a table. */
+export class Column {
+  /**
+   * @param name column name; @param type "quantity", "number", "text" or a value type;
+   * @param unit unit of a quantity column ("" otherwise); @param data the values.
+   */
+  constructor(
+    readonly name: string,
+    readonly type: string,
+    readonly unit: string,
+    readonly data: ColumnData,
+  ) {}
+
+  /** Number of rows. */
+  get length(): number {
+    return this.data.length;
+  }
+
+  /** True when the column holds plain numbers (with or without a unit). */
+  get numeric(): boolean {
+    return this.data instanceof Float64Array;
+  }
+}
+
+/** Metadata of a table value. */
+export interface TableInfo {
+  /** Table name in the notebook. */
+  readonly name: string;
+  /** Columns in display order, computed ones last. */
+  readonly columns: readonly Column[];
+  /** Rows held. */
+  readonly rowCount: number;
+  /** Rows that could not be read and were excluded (counted, never silent). */
+  readonly excluded: number;
+  /** CSV file the data came from, relative to the notebook, if any. */
+  readonly file?: string;
+}
+
+/** A table as the formula language sees it: columns by name. */
+export type TableValue = Record<string, Column>;
+
+const infos = new WeakMap<object, TableInfo>();
+
+/**
+ * Make a table value from columns of equal length.
+ *
+ * @example
+ * ```ts
+ * import { Column, makeTable } from "./table.ts";
+ * const t = makeTable("t", [new Column("x", "number", "", new Float64Array([1, 2]))]);
+ * t.x.length; // 2
+ * ```
+ * @throws {RangeError} when the columns differ in length.
+ */
+export function makeTable(
+  name: string,
+  columns: readonly Column[],
+  extra: { excluded?: number; file?: string } = {},
+): TableValue {
+  const rowCount = columns.length ? columns[0].length : 0;
+  const value: TableValue = {};
+  for (const c of columns) {
+    if (c.length !== rowCount) {
+      throw new RangeError(
+        `table ${name}: column ${c.name} has ${c.length} rows, expected ${rowCount}`,
+      );
+    }
+    value[c.name] = c;
+  }
+  infos.set(value, { name, columns, rowCount, excluded: extra.excluded ?? 0, file: extra.file });
+  return value;
+}
+
+/**
+ * Metadata of a table value, or undefined when `x` is not a table.
+ *
+ * @example
+ * ```ts
+ * import { tableInfo } from "./table.ts";
+ * tableInfo({}); // undefined
+ * ```
+ */
+export function tableInfo(x: unknown): TableInfo | undefined {
+  return x !== null && typeof x === "object" ? infos.get(x) : undefined;
+}
+
+/**
+ * Whether `x` is a table value.
+ *
+ * @example
+ * ```ts
+ * import { isTable } from "./table.ts";
+ * isTable(3); // false
+ * ```
+ */
+export function isTable(x: unknown): x is TableValue {
+  return tableInfo(x) !== undefined;
+}

@@ -1,0 +1,280 @@
+/**
+ * The sources registry: every published method, standard, reference value and trade
+ * convention that a Lentil formula or constant rests on. This is the one source of truth
+ * for citations; `lib/` cites entries by id in its JSDoc, `cells/` attaches ids to each
+ * formula, and the engine lists them, transitively, beside every result.
+ *
+ * `status` says how far a reader can trust the citation:
+ * - `published`: a paper, book or standard, cited in full;
+ * - `common-practice`: a trade fact with no single source;
+ * - `from-memory`: a value or citation recalled, not checked against the original.
+ *
+ * @example
+ * ```ts
+ * import { getSource } from "./sources.ts";
+ * const s = getSource("thibos-1997");
+ * console.log(s.status); // "published"
+ * ```
+ *
+ * @module
+ */
+
+/** How far a citation can be trusted; see the module docs. */
+export type SourceStatus = "published" | "common-practice" | "from-memory";
+
+/** One entry of the registry. */
+export interface Source {
+  /** Stable id, kebab-case, used by code and notebooks. */
+  readonly id: string;
+  /** Full citation as a reader would look it up. */
+  readonly citation: string;
+  /** Trust mark; see {@linkcode SourceStatus}. */
+  readonly status: SourceStatus;
+  /** Optional remark: what exactly is taken from the source. */
+  readonly note?: string;
+}
+
+const entries: readonly Source[] = [
+  {
+    id: "common-practice",
+    citation: "Common practice in the optical and optometric trade (no single source).",
+    status: "common-practice",
+  },
+  {
+    id: "iso-13666-axis",
+    citation:
+      "ISO 13666 Ophthalmic optics — Spectacle lenses — Vocabulary; ISO 8429 Optics and optical instruments — Ophthalmology — Graduated dial scale (standard TABO axis notation, 0–180°).",
+    status: "from-memory",
+    note: "Axis 1–180, counter-clockwise from the right as seen facing the wearer.",
+  },
+  {
+    id: "thibos-1997",
+    citation:
+      "Thibos LN, Wheeler W, Horner D. Power vectors: an application of Fourier analysis to the description and statistical analysis of refractive error. Optom Vis Sci 1997;74(6):367–375.",
+    status: "published",
+  },
+  {
+    id: "long-1976",
+    citation:
+      "Long WF. A matrix formalism for decentration problems. Am J Optom Physiol Opt 1976;53:27–33.",
+    status: "published",
+  },
+  {
+    id: "keating-1981",
+    citation:
+      "Keating MP. On the use of matrices for the mean value of refractive errors. Am J Optom Physiol Opt 1981;58:810–819.",
+    status: "from-memory",
+  },
+  {
+    id: "sine-squared",
+    citation:
+      "Power in an oblique meridian, F(θ) = S + C·sin²(θ − α): common textbook result of visual optics.",
+    status: "common-practice",
+  },
+  {
+    id: "vertex-formula",
+    citation:
+      "Effective power F' = F / (1 − d·F): any visual optics text, e.g. Tunnacliffe AH, Introduction to Visual Optics, ABDO.",
+    status: "published",
+    note: "Check values: −10.00 D at 12 mm → −8.93 D at the cornea; +10.00 D → +11.36 D.",
+  },
+  {
+    id: "prentice",
+    citation: "Prentice's rule P(Δ) = c(cm) × F(D): common textbook result.",
+    status: "common-practice",
+  },
+  {
+    id: "jalie-lenses",
+    citation: "Jalie M. The Principles of Ophthalmic Lenses. ABDO (sag and thickness formulas).",
+    status: "from-memory",
+  },
+  {
+    id: "lens-measure",
+    citation:
+      "Lens measure (lens clock) correction F_true = F_read × (n − 1)/(n_tool − 1), tool usually calibrated for n = 1.53.",
+    status: "common-practice",
+  },
+  {
+    id: "ansi-z80.1-2015",
+    citation:
+      "ANSI Z80.1-2015 Ophthalmics — Prescription Ophthalmic Lenses — Recommendations (values as published in summaries of the standard).",
+    status: "published",
+    note: "International equivalents: ISO 21987 and ISO 8980-1.",
+  },
+  {
+    id: "ico-1984",
+    citation: "International Council of Ophthalmology. Visual Acuity Measurement Standard, 1984.",
+    status: "published",
+  },
+  {
+    id: "iso-8596",
+    citation:
+      "ISO 8596 Ophthalmic optics — Visual acuity testing — Standard and clinical optotypes and their presentation (reference optotype 5′ overall at V = 1.0).",
+    status: "published",
+  },
+  {
+    id: "bailey-lovie-1976",
+    citation:
+      "Bailey IL, Lovie JE. New design principles for visual acuity letter charts. Am J Optom Physiol Opt 1976;53:740–745.",
+    status: "published",
+  },
+  {
+    id: "ferris-1982",
+    citation:
+      "Ferris FL, Kassoff A, Bresnick GH, Bailey I. New visual acuity charts for clinical research. Am J Ophthalmol 1982;94:91–96.",
+    status: "published",
+  },
+  {
+    id: "sloan-1959",
+    citation:
+      "Sloan LL. New test charts for the measurement of visual acuity at far and near distances. Am J Ophthalmol 1959;48:807–813 (10 letters C D H K N O R S V Z).",
+    status: "from-memory",
+  },
+  {
+    id: "binomial-tail",
+    citation: "Binomial and hypergeometric tail probabilities: any probability text.",
+    status: "common-practice",
+  },
+  {
+    id: "smith-1982",
+    citation:
+      "Smith G. Angular diameter of defocus blur discs. Am J Optom Physiol Opt 1982;59:885–889.",
+    status: "published",
+  },
+  {
+    id: "emsley-reduced-eye",
+    citation: "Emsley HH. Visual Optics. Reduced eye: +60 D, n′ = 4/3.",
+    status: "from-memory",
+  },
+  {
+    id: "airy-disc",
+    citation:
+      "Airy disc angular diameter 2.44·λ/A for a circular pupil of diameter A: any optics text (e.g. Born M, Wolf E, Principles of Optics).",
+    status: "published",
+  },
+  {
+    id: "curcio-1990",
+    citation:
+      "Curcio CA, Sloan KR, Kalina RE, Hendrickson AE. Human photoreceptor topography. J Comp Neurol 1990;292:497–523.",
+    status: "from-memory",
+    note: "Foveal cone spacing about 2.5 µm, about 0.5′.",
+  },
+  {
+    id: "smith-1991",
+    citation:
+      "Smith G. Relation between spherical refractive error and visual acuity. Optom Vis Sci 1991;68:591–598.",
+    status: "from-memory",
+    note:
+      "An approximation: MAR grows roughly in proportion to pupil × defocus once blur dominates.",
+  },
+  {
+    id: "hofstetter-1950",
+    citation:
+      "Hofstetter HW. Useful age-amplitude formula. Optom World 1950;38:42–45 (minimum 15 − 0.25·age, mean 18.5 − 0.30·age, maximum 25 − 0.40·age).",
+    status: "published",
+  },
+  {
+    id: "accommodative-reserve",
+    citation:
+      "Keep half (or a third) of the amplitude of accommodation in reserve for sustained near work.",
+    status: "common-practice",
+  },
+  {
+    id: "test-distance-vergence",
+    citation:
+      "A chart at 6 m presents −0.17 D, at 4 m −0.25 D; add it to refer a refraction to infinity.",
+    status: "common-practice",
+  },
+  {
+    id: "most-plus-endpoint",
+    citation:
+      "Subjective endpoint: the most plus (least minus) lens that gives the best acuity (maximum plus for maximum visual acuity, MPMVA).",
+    status: "common-practice",
+  },
+  {
+    id: "bland-altman-1986",
+    citation:
+      "Bland JM, Altman DG. Statistical methods for assessing agreement between two methods of clinical measurement. Lancet 1986;1(8476):307–310.",
+    status: "published",
+  },
+  {
+    id: "chi2-ellipse",
+    citation:
+      "95% confidence ellipse of a bivariate mean from the covariance matrix and the χ² (2 d.f.) quantile 5.991: any multivariate statistics text.",
+    status: "published",
+  },
+];
+
+const byId: ReadonlyMap<string, Source> = new Map(entries.map((s) => [s.id, s]));
+
+/** Error thrown when code asks for a source id the registry does not hold. */
+export class UnknownSourceError extends Error {
+  /** Create the error for the missing `id`. */
+  constructor(readonly id: string) {
+    super(`Unknown source id "${id}": add it to shared/sources.ts before citing it.`);
+    this.name = "UnknownSourceError";
+  }
+}
+
+/**
+ * Look up one source by id.
+ *
+ * @example
+ * ```ts
+ * import { getSource } from "./sources.ts";
+ * getSource("prentice").status; // "common-practice"
+ * ```
+ * @throws {UnknownSourceError} when the id is not registered.
+ */
+export function getSource(id: string): Source {
+  const s = byId.get(id);
+  if (!s) throw new UnknownSourceError(id);
+  return s;
+}
+
+/**
+ * Whether `id` names a registered source.
+ *
+ * @example
+ * ```ts
+ * import { hasSource } from "./sources.ts";
+ * hasSource("thibos-1997"); // true
+ * ```
+ */
+export function hasSource(id: string): boolean {
+  return byId.has(id);
+}
+
+/**
+ * Every registered source, in registry order.
+ *
+ * @example
+ * ```ts
+ * import { listSources } from "./sources.ts";
+ * listSources().length > 0; // true
+ * ```
+ */
+export function listSources(): readonly Source[] {
+  return entries;
+}
+
+/**
+ * A short trust label for display: "" for published sources, otherwise
+ * "common practice, no source" or "from memory".
+ *
+ * @example
+ * ```ts
+ * import { getSource, statusLabel } from "./sources.ts";
+ * statusLabel(getSource("sloan-1959")); // "from memory"
+ * ```
+ */
+export function statusLabel(s: Source): string {
+  switch (s.status) {
+    case "published":
+      return "";
+    case "common-practice":
+      return "common practice, no source";
+    case "from-memory":
+      return "from memory";
+  }
+}
