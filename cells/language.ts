@@ -83,6 +83,8 @@ export interface Language {
   compile(node: MathNode): { evaluate(scope: Record<string, unknown>): unknown };
   /** Whether `name` is a function the language knows (built-in or catalogue). */
   isFunction(name: string): boolean;
+  /** Whether `name` is a built-in constant or value of the language (pi, e, true, …). */
+  isBuiltinSymbol(name: string): boolean;
   /** Whether `name` is a unit the language knows. */
   isUnit(name: string): boolean;
   /** Constants available to every expression, as values. */
@@ -96,6 +98,28 @@ export interface Language {
   /** Display and serialise a value. */
   describe(x: unknown, options?: DisplayOptions): Described;
 }
+
+/**
+ * The units Lentil documents. Cell names may not take these (they would shadow `12 mm`);
+ * mathjs's other units stay usable but a cell of the same name takes precedence.
+ */
+export const LENTIL_UNITS: readonly string[] = [
+  "D",
+  "dpt",
+  "prism",
+  "pdpt",
+  "mm",
+  "cm",
+  "m",
+  "um",
+  "nm",
+  "deg",
+  "arcmin",
+  "arcsec",
+  "rad",
+  "years",
+  "year",
+];
 
 /** Units whose values are shown in that unit rather than mathjs's choice. */
 const PREFERRED_UNITS = ["D", "prism", "mm", "deg", "arcmin", "um", "nm", "years", "m", "cm"];
@@ -300,6 +324,11 @@ export function buildLanguage(catalogue: Catalogue): Language {
     (typeof (math as unknown as Record<string, unknown>)[name] === "function" &&
       !DISABLED_FUNCTIONS.includes(name));
 
+  const isBuiltinSymbol = (name: string) =>
+    !DISABLED_FUNCTIONS.includes(name) &&
+    Object.hasOwn(math as unknown as Record<string, unknown>, name) &&
+    typeof (math as unknown as Record<string, unknown>)[name] !== "function";
+
   const isUnit = (name: string) => {
     try {
       return math.Unit.isValuelessUnit(name);
@@ -390,6 +419,7 @@ export function buildLanguage(catalogue: Catalogue): Language {
     },
     compile: (node) => node.compile(),
     isFunction,
+    isBuiltinSymbol,
     isUnit,
     constants,
     quantity: unitOf,

@@ -91,6 +91,32 @@ export function makeTable(
 }
 
 /**
+ * Add (or replace) a computed column on a table value in place; the column must have the
+ * table's row count.
+ *
+ * @example
+ * ```ts
+ * import { addColumn, Column, makeTable, tableInfo } from "./table.ts";
+ * const t = makeTable("t", [new Column("x", "number", "", new Float64Array([1, 2]))]);
+ * addColumn(t, new Column("y", "number", "", new Float64Array([2, 4])));
+ * tableInfo(t)?.columns.length; // 2
+ * ```
+ * @throws {RangeError} when the lengths differ.
+ */
+export function addColumn(table: TableValue, column: Column): void {
+  const info = infos.get(table);
+  if (!info) throw new TypeError("not a table value");
+  if (column.length !== info.rowCount) {
+    throw new RangeError(
+      `table ${info.name}: column ${column.name} has ${column.length} rows, expected ${info.rowCount}`,
+    );
+  }
+  table[column.name] = column;
+  const columns = info.columns.filter((c) => c.name !== column.name).concat([column]);
+  infos.set(table, { ...info, columns });
+}
+
+/**
  * Metadata of a table value, or undefined when `x` is not a table.
  *
  * @example

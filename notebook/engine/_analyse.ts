@@ -1,0 +1,174 @@
+/**
+ * Static analysis of one expression: which notebook names it reads, which catalogue
+ * formulas and constants it uses (for sources and cautions), and anything that makes it
+ * unusable before evaluation (syntax, unknown names, forbidden functions).
+ *
+ * @module
+ */
+
+import type { MathNode } from "mathjs";
+import { DISABLED_FUNCTIONS, ExpressionSyntaxError, type Language } from "../../cells/language.ts";
+
+/** What a table looks like to the analyser: its data columns and computed columns. */
+export interface TableShape {
+  /** Data columns (declared or read from the CSV header). */
+  readonly data: ReadonlySet<string>;
+  /** Computed columns defined in calc blocks. */
+  readonly computed: ReadonlySet<string>;
+}
+
+/** The names an expression can see. */
+export interface AnalysisContext {
+  /** The language. */
+  readonly lang: Language;
+  /** Plain cells by name. */
+  readonly cells: ReadonlySet<string>;
+  /** Tables by name. */
+  readonly tables: ReadonlyMap<string, TableShape>;
+  /** For a computed column: its table, whose columns are visible by bare name. */
+  readonly rowTable?: string;
+}
+
+/** A problem found before evaluation; `offset` is within the expression. */
+export interface AnalysisProblem {
+  /** What is wrong. */
+  readonly message: string;
+  /** Zero-based offset in the expression. */
+  readonly offset: number;
+  /** Kind of problem. */
+  readonly kind: "syntax" | "name";
+}
+
+/** The result of analysing an expression. */
+export interface Analysis {
+  /** Parsed tree (absent on a syntax error). */
+  readonly node?: MathNode;
+  /** Node ids read: cell names, table names, `table.column` for computed columns. */
+  readonly deps: ReadonlySet<string>;
+  /** Catalogue formulas called. */
+  readonly formulas: ReadonlySet<string>;
+  /** Catalogue constants read. */
+  readonly constants: ReadonlySet<string>;
+  /** First problem, if any. */
+  readonly problem?: AnalysisProblem;
+}
+
+function wordOffset(expression: string, word: string): number {
+  const m = new RegExp(`(^|[^A-Za-z0-9_.])${word.replace(/[.$]/g, "\\$&")}(?![A-Za-z0-9_])`).exec(
+    expression,
+  );
+  return m ? m.index + m[1].length : 0;
+}
+
+/**
+ * Analyse `expression` in `ctx`.
+ *
+ * @example
+ * ```ts ignore
+ * const a = analyse("vd + 1 mm", ctx);
+ * [...a.deps]; // ["vd"]
+ * ```
+ */
+export function analyse(expression: string, ctx: AnalysisContext): Analysis {
+  const deps = new Set<string>();
+  const formulas = new Set<string>();
+  const constants = new Set<string>();
+  let node: MathNode;
+  try {
+    node = ctx.lang.parse(expression);
+  } catch (e) {
+    const err = e as ExpressionSyntaxError;
+    return {
+      deps,
+      formulas,
+      constants,
+      problem: {
+        message: `cannot read the formula: ${err.message}`,
+        offset: err.offset ?? 0,
+        kind: "syntax",
+      },
+    };
+  }
+  let problem: AnalysisProblem | undefined;
+  const fail = (message: string, word: string, kind: "syntax" | "name" = "name") => {
+    problem ??= { message, offset: wordOffset(expression, word), kind };
+  };
+  const catalogue = ctx.lang.catalogue;
+  const rowTable = ctx.rowTable ? ctx.tables.get(ctx.rowTable) : undefined;
+
+  const useTable = (t: string) => {
+    deps.add(t);
+    for (const c of ctx.tables.get(t)!.computed) deps.add(`${t}.${c}`);
+  };
+
+  const useName = (name: string) => {
+    if (rowTable && ctx.rowTable) {
+      if (rowTable.computed.has(name)) return void deps.add(`${ctx.rowTable}.${name}`);
+      if (rowTable.data.has(name)) return void deps.add(ctx.rowTable);
+    }
+    if (ctx.cells.has(name)) return void deps.add(name);
+    if (ctx.tables.has(name)) return useTable(name);
+    if (catalogue.constants.has(name)) return void constants.add(name);
+    if (ctx.lang.isUnit(name) || ctx.lang.isBuiltinSymbol(name)) return;
+    fail(`unknown name or unit "${name}"`, name);
+  };
+
+  node.traverse((n, path, parent) => {
+    switch (n.type) {
+      case "AssignmentNode":
+      case "FunctionAssignmentNode":
+        fail(
+          "an assignment cannot appear inside a formula; write it as its own cell `name = expression`",
+          "=",
+          "syntax",
+        );
+        return;
+      case "FunctionNode": {
+        const fnNode = (n as unknown as { fn: MathNode }).fn;
+        if (fnNode.type === "SymbolNode") {
+          const name = (fnNode as unknown as { name: string }).name;
+          if (DISABLED_FUNCTIONS.includes(name)) {
+            fail(`function ${name} is not available in Lentil formulas`, name);
+          } else if (catalogue.formulas.has(name)) formulas.add(name);
+          else if (!ctx.lang.isFunction(name)) fail(`unknown function "${name}"`, name);
+        }
+        return;
+      }
+      case "AccessorNode": {
+        const obj = (n as unknown as { object: MathNode }).object;
+        const index =
+          (n as unknown as { index: { dimensions: MathNode[]; isObjectProperty(): boolean } })
+            .index;
+        if (obj.type === "SymbolNode" && index.isObjectProperty()) {
+          const t = (obj as unknown as { name: string }).name;
+          const shape = ctx.tables.get(t);
+          if (shape) {
+            const prop = (index.dimensions[0] as unknown as { value: string }).value;
+            if (shape.computed.has(prop)) deps.add(`${t}.${prop}`);
+            else if (shape.data.has(prop)) deps.add(t);
+            else {
+              fail(
+                `table ${t} has no column "${prop}" (columns: ${
+                  [...shape.data, ...shape.computed].join(", ") || "none"
+                })`,
+                `${t}.${prop}`,
+              );
+            }
+          }
+        }
+        return;
+      }
+      case "SymbolNode": {
+        const name = (n as unknown as { name: string }).name;
+        if (parent?.type === "FunctionNode" && path === "fn") return;
+        if (
+          parent?.type === "AccessorNode" && path === "object" && ctx.tables.has(name) &&
+          (parent as unknown as { index: { isObjectProperty(): boolean } }).index.isObjectProperty()
+        ) return;
+        useName(name);
+        return;
+      }
+    }
+  });
+  return { node, deps, formulas, constants, problem };
+}

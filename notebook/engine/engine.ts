@@ -1,0 +1,687 @@
+/**
+ * The reactive cell engine: a parsed notebook becomes a dependency graph of cells, tables
+ * and computed columns, evaluated in topological order. Changing one cell recomputes only
+ * what is downstream of it (`update` returns that set). Cycles are reported with their
+ * path and every member's line; an error in one cell becomes an error value carried to its
+ * dependents with the original cause and position, and unrelated cells still evaluate.
+ * Every result lists, transitively, the sources of the formulas and constants it used.
+ *
+ * @example
+ * ```ts
+ * import { Notebook } from "./engine.ts";
+ * const nb = Notebook.fromText("```calc\nF = -10 D\ncl = vertexPower(F, 12 mm)\n```\n", "a.lentil.md");
+ * nb.result("cl")?.sources; // ["vertex-formula"]
+ * nb.update("F", "+10 D"); // ["F", "cl"]
+ * ```
+ *
+ * @module
+ */
+
+import type { MathNode } from "mathjs";
+import { getLanguage, type Language, LENTIL_UNITS } from "../../cells/language.ts";
+import { addColumn, Column, makeTable, tableInfo, type TableValue } from "../../cells/table.ts";
+import { DEFAULT_DISPLAY, type DisplayOptions, typeOfValue } from "../../cells/types.ts";
+import { listSources } from "../../shared/sources.ts";
+import type { Diagnostic } from "../format/diagnostic.ts";
+import { type CellDef, type NotebookDoc, parseNotebook, type TableBlock } from "../format/parse.ts";
+import { analyse, type Analysis, type TableShape } from "./_analyse.ts";
+import { DependencyGraph } from "./graph.ts";
+import { RowScope } from "./_scope.ts";
+import { buildTable, type RawTable, readRawTable, type TableHost } from "./_tables.ts";
+
+/** Why a node has no value. */
+export type ErrorKind =
+  | "syntax"
+  | "name"
+  | "duplicate"
+  | "cycle"
+  | "data"
+  | "unit"
+  | "range"
+  | "argument"
+  | "evaluation"
+  | "dependency";
+
+/** An error value: the message, where it arose, and for a dependency error the root cause. */
+export interface CellError {
+  /** Kind of error. */
+  readonly kind: ErrorKind;
+  /** What is wrong, for the user. */
+  readonly message: string;
+  /** File of the position. */
+  readonly file: string;
+  /** 1-based line. */
+  readonly line: number;
+  /** 1-based column. */
+  readonly col: number;
+  /** For `dependency`: the node where the error began, and its own error. */
+  readonly cause?: { readonly id: string; readonly error: CellError };
+}
+
+/** One evaluated node as consumers see it. */
+export interface CellResult {
+  /** Node id: a cell name, a table name, or `table.column`. */
+  readonly id: string;
+  /** The name as written (column name for a computed column). */
+  readonly name: string;
+  /** What kind of node. */
+  readonly kind: "cell" | "table" | "column";
+  /** For a computed column, its table. */
+  readonly table?: string;
+  /** The value, absent on error. */
+  readonly value?: unknown;
+  /** The error, if any. */
+  readonly error?: CellError;
+  /** Source ids used, transitively, in registry order. */
+  readonly sources: readonly string[];
+  /** True when the result could be used to make or fit a lens. */
+  readonly caution: boolean;
+  /** 1-based line and column of the definition. */
+  readonly line: number;
+  /** 1-based column of the definition. */
+  readonly col: number;
+  /** The expression as written (cells and columns). */
+  readonly expression?: string;
+  /** The note after `#`, if any. */
+  readonly note?: string;
+  /** True for an input: a cell whose expression is a literal. */
+  readonly input: boolean;
+  /** Node ids this one reads. */
+  readonly deps: readonly string[];
+}
+
+/** Options for building a notebook. */
+export interface NotebookOptions {
+  /** Reads CSV files beside the notebook (default: none, so `file:` tables fail). */
+  readonly host?: TableHost;
+  /** Language instance (default: the shared one). */
+  readonly language?: Language;
+}
+
+interface NodeDef {
+  readonly id: string;
+  readonly kind: "cell" | "table" | "column";
+  readonly name: string;
+  readonly table?: string;
+  cell?: CellDef;
+  readonly block?: TableBlock;
+  analysis?: Analysis;
+  compiled?: { evaluate(scope: unknown): unknown };
+  ownSources: readonly string[];
+  ownCaution: boolean;
+  /** Error in the definition itself (duplicate, reserved name, table data). */
+  defError?: CellError;
+  /** Error found by analysing the expression (syntax, unknown name). */
+  exprError?: CellError;
+  raw?: RawTable;
+  built?: { columns: readonly Column[]; excluded: number; file?: string };
+}
+
+interface NodeState {
+  value?: unknown;
+  error?: CellError;
+  sources: readonly string[];
+  caution: boolean;
+}
+
+const SOURCE_ORDER = new Map(listSources().map((s, i) => [s.id, i]));
+
+function sortSources(ids: Iterable<string>): string[] {
+  return [...new Set(ids)].sort((a, b) =>
+    (SOURCE_ORDER.get(a) ?? 1e9) - (SOURCE_ORDER.get(b) ?? 1e9)
+  );
+}
+
+/** A notebook ready to evaluate and to change reactively. */
+export class Notebook {
+  /** The parsed document. */
+  readonly doc: NotebookDoc;
+  /** Display options from the front matter. */
+  readonly display: DisplayOptions;
+  readonly #lang: Language;
+  readonly #host: TableHost;
+  readonly #nodes = new Map<string, NodeDef>();
+  readonly #state = new Map<string, NodeState>();
+  readonly #scope = new Map<string, unknown>();
+  readonly #staticDiagnostics: Diagnostic[] = [];
+  #graph!: DependencyGraph;
+  #cycleOf = new Map<string, readonly string[]>();
+
+  /**
+   * Parse and prepare a notebook from text, and evaluate it.
+   *
+   * @example
+   * ```ts
+   * import { Notebook } from "./engine.ts";
+   * Notebook.fromText("```calc\nx = 2 mm\n```\n", "x.lentil.md").result("x")?.value !== undefined; // true
+   * ```
+   */
+  static fromText(text: string, file: string, options: NotebookOptions = {}): Notebook {
+    const nb = new Notebook(parseNotebook(text, file), options);
+    nb.evaluateAll();
+    return nb;
+  }
+
+  /** Prepare a parsed notebook; call {@linkcode evaluateAll} to evaluate. */
+  constructor(doc: NotebookDoc, options: NotebookOptions = {}) {
+    this.doc = doc;
+    this.#lang = options.language ?? getLanguage();
+    this.#host = options.host ?? {
+      readText: () => {
+        throw new Error("no folder to read table files from");
+      },
+    };
+    this.display = {
+      ...DEFAULT_DISPLAY,
+      ...(doc.front.powerStep ? { powerStep: doc.front.powerStep } : {}),
+    };
+    for (const [k, v] of Object.entries(this.#lang.constants)) this.#scope.set(k, v);
+    this.#define();
+    this.#analyseAll();
+  }
+
+  /** The language the notebook evaluates in. */
+  get language(): Language {
+    return this.#lang;
+  }
+
+  #define(): void {
+    const file = this.doc.file;
+    const taken = new Set<string>();
+    const reserved = (name: string) =>
+      LENTIL_UNITS.includes(name) || this.#lang.isFunction(name) ||
+      this.#lang.catalogue.constants.has(name) || this.#lang.isBuiltinSymbol(name);
+    for (const block of this.doc.tables) {
+      const id = taken.has(block.name) ? `${block.name}@${block.line}` : block.name;
+      taken.add(block.name);
+      const node: NodeDef = {
+        id,
+        kind: "table",
+        name: block.name,
+        block,
+        ownSources: [],
+        ownCaution: false,
+      };
+      if (id !== block.name) {
+        node.defError = {
+          kind: "duplicate",
+          message: `duplicate name "${block.name}"`,
+          file,
+          line: block.line,
+          col: block.col,
+        };
+      } else if (reserved(block.name)) {
+        node.defError = {
+          kind: "name",
+          message:
+            `"${block.name}" is a unit, function or constant of the language; choose another table name`,
+          file,
+          line: block.line,
+          col: block.col,
+        };
+      }
+      this.#loadTable(node);
+      this.#nodes.set(id, node);
+    }
+    for (const cell of this.doc.cells) {
+      const full = cell.table ? `${cell.table}.${cell.name}` : cell.name;
+      const dup = taken.has(full);
+      const id = dup ? `${full}@${cell.line}` : full;
+      taken.add(full);
+      const node: NodeDef = {
+        id,
+        kind: cell.table ? "column" : "cell",
+        name: cell.name,
+        table: cell.table,
+        cell,
+        ownSources: [],
+        ownCaution: false,
+      };
+      if (dup) {
+        node.defError = {
+          kind: "duplicate",
+          message: `duplicate name "${full}"`,
+          file,
+          line: cell.line,
+          col: cell.col,
+        };
+      } else if (!cell.table && reserved(cell.name)) {
+        node.defError = {
+          kind: "name",
+          message:
+            `"${cell.name}" is a unit, function or constant of the language; choose another name`,
+          file,
+          line: cell.line,
+          col: cell.col,
+        };
+      } else if (cell.table && !this.doc.tables.some((t) => t.name === cell.table)) {
+        node.defError = {
+          kind: "name",
+          message: `no table named "${cell.table}" for computed column ${full}`,
+          file,
+          line: cell.line,
+          col: cell.col,
+        };
+      }
+      this.#nodes.set(id, node);
+    }
+  }
+
+  #loadTable(node: NodeDef): void {
+    const block = node.block!;
+    const { raw, problem } = readRawTable(block, this.doc.file, this.#host);
+    node.raw = raw;
+    if (problem) {
+      node.defError ??= {
+        kind: "data",
+        message: problem.message,
+        file: problem.file,
+        line: problem.line,
+        col: problem.col,
+      };
+      this.#staticDiagnostics.push({ ...problem, severity: "error" });
+      return;
+    }
+    const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase();
+    if (!["stop", "skip"].includes(skip)) {
+      const o = block.options["bad rows"]!;
+      this.#staticDiagnostics.push({
+        file: this.doc.file,
+        line: o.line,
+        col: o.col,
+        message: `bad rows: expected "stop" (the default) or "skip", got "${o.value}"`,
+        severity: "error",
+      });
+    }
+    const built = buildTable(block.name, raw!, this.#lang, skip === "skip", {
+      file: block.options.file?.value,
+    });
+    for (const p of built.problems) {
+      this.#staticDiagnostics.push({
+        file: p.file,
+        line: p.line,
+        col: p.col,
+        message: p.message,
+        severity: built.value ? "warning" : "error",
+      });
+    }
+    if (!built.value) {
+      const first = built.problems[0];
+      const more = built.problems.length > 1
+        ? ` (and ${built.problems.length - 1} more problems)`
+        : "";
+      node.defError ??= {
+        kind: "data",
+        message: `table ${block.name}: ${first.message}${more}`,
+        file: first.file,
+        line: first.line,
+        col: first.col,
+      };
+      return;
+    }
+    const info = tableInfo(built.value)!;
+    node.built = { columns: info.columns, excluded: built.excluded, file: info.file };
+  }
+
+  #shapes(): Map<string, TableShape> {
+    const shapes = new Map<string, TableShape>();
+    for (const n of this.#nodes.values()) {
+      if (n.kind !== "table" || n.id !== n.name) continue;
+      shapes.set(n.name, {
+        data: new Set(n.raw?.columns.map((c) => c.name) ?? []),
+        computed: new Set(),
+      });
+    }
+    for (const n of this.#nodes.values()) {
+      if (n.kind === "column" && n.id === `${n.table}.${n.name}` && shapes.has(n.table!)) {
+        (shapes.get(n.table!)!.computed as Set<string>).add(n.name);
+      }
+    }
+    return shapes;
+  }
+
+  #analyseAll(): void {
+    const shapes = this.#shapes();
+    const cells = new Set<string>();
+    for (const n of this.#nodes.values()) {
+      if (n.kind === "cell" && n.id === n.name) cells.add(n.name);
+    }
+    for (const n of this.#nodes.values()) this.#analyseNode(n, shapes, cells);
+    this.#rebuildGraph();
+  }
+
+  #analyseNode(n: NodeDef, shapes: Map<string, TableShape>, cells: Set<string>): void {
+    n.exprError = undefined;
+    if (!n.cell || n.defError) return;
+    const cell = n.cell;
+    const a = analyse(cell.expression, {
+      lang: this.#lang,
+      cells,
+      tables: shapes,
+      rowTable: n.table,
+    });
+    if (n.table && shapes.has(n.table)) {
+      const deps = new Set(a.deps);
+      deps.add(n.table);
+      n.analysis = { ...a, deps };
+    } else n.analysis = a;
+    n.compiled = undefined;
+    if (a.problem) {
+      n.exprError = {
+        kind: a.problem.kind,
+        message: a.problem.message,
+        file: this.doc.file,
+        line: cell.line,
+        col: cell.exprCol + a.problem.offset,
+      };
+    } else if (a.node) {
+      n.compiled = this.#lang.compile(a.node as MathNode);
+    }
+    const srcs: string[] = [];
+    let caution = false;
+    for (const f of a.formulas) {
+      const spec = this.#lang.catalogue.formulas.get(f)!;
+      srcs.push(...spec.sources);
+      caution ||= !!spec.caution;
+    }
+    for (const c of a.constants) srcs.push(this.#lang.catalogue.constants.get(c)!.source);
+    n.ownSources = sortSources(srcs);
+    n.ownCaution = caution;
+  }
+
+  #rebuildGraph(): void {
+    const deps = new Map<string, string[]>();
+    for (const n of this.#nodes.values()) deps.set(n.id, [...(n.analysis?.deps ?? [])]);
+    this.#graph = new DependencyGraph(deps);
+    this.#cycleOf = new Map();
+    for (const cyc of this.#graph.cycles) for (const id of cyc) this.#cycleOf.set(id, cyc);
+  }
+
+  /** Evaluate every node; returns the ids evaluated, in order. */
+  evaluateAll(): string[] {
+    const order = this.#graph.order;
+    for (const id of order) this.#evaluate(id);
+    return [...order];
+  }
+
+  /**
+   * Change the expression of a cell (or computed column) and recompute what depends on it.
+   * Returns the ids recomputed, in evaluation order.
+   *
+   * @example
+   * ```ts
+   * import { Notebook } from "./engine.ts";
+   * const nb = Notebook.fromText("```calc\na = 1\nb = a + 1\nc = 5\n```\n", "x.lentil.md");
+   * nb.update("a", "2"); // ["a", "b"]
+   * ```
+   * @throws {Error} when no cell has that id.
+   */
+  update(id: string, expression: string): string[] {
+    const n = this.#nodes.get(id);
+    if (!n?.cell) throw new Error(`no cell named "${id}" to change`);
+    const before = [...(n.analysis?.deps ?? [])].sort().join("\n");
+    n.cell = { ...n.cell, expression, input: !n.table && isLiteralExpr(expression) };
+    const cells = new Set<string>();
+    for (const m of this.#nodes.values()) {
+      if (m.kind === "cell" && m.id === m.name) cells.add(m.name);
+    }
+    this.#analyseNode(n, this.#shapes(), cells);
+    const after = [...(n.analysis?.deps ?? [])].sort().join("\n");
+    const wasCycle = this.#cycleOf.has(id);
+    if (before !== after || wasCycle) this.#rebuildGraph();
+    const touched = new Set([id, ...(wasCycle ? this.#cycleOfIds() : [])]);
+    const dirty = this.#graph.downstream(touched);
+    for (const d of dirty) this.#evaluate(d);
+    return dirty;
+  }
+
+  #cycleOfIds(): string[] {
+    return [...this.#cycleOf.keys()];
+  }
+
+  #evaluate(id: string): void {
+    const n = this.#nodes.get(id)!;
+    const file = this.doc.file;
+    const where = n.cell
+      ? { line: n.cell.line, col: n.cell.exprCol }
+      : { line: n.block!.line, col: n.block!.col };
+    const deps = n.analysis?.deps ?? new Set<string>();
+    let sources: string[] = [...n.ownSources];
+    let caution = n.ownCaution;
+    for (const d of deps) {
+      const s = this.#state.get(d);
+      if (s) {
+        sources = sources.concat(s.sources);
+        caution ||= s.caution;
+      }
+    }
+    const set = (st: Omit<NodeState, "sources" | "caution">) => {
+      const state = { ...st, sources: sortSources(sources), caution };
+      this.#state.set(id, state);
+      if (n.id === (n.table ? `${n.table}.${n.name}` : n.name) && n.kind !== "column") {
+        if (state.error) this.#scope.delete(n.name);
+        else this.#scope.set(n.name, state.value);
+      }
+    };
+    const cyc = this.#cycleOf.get(id);
+    if (cyc) {
+      const path = [...cyc, cyc[0]].join(" → ");
+      const lines = cyc.map((m) => `${m} at line ${this.#lineOf(m)}`).join(", ");
+      return set({
+        error: { kind: "cycle", message: `cycle: ${path} (${lines})`, file, ...where },
+      });
+    }
+    const staticError = n.defError ?? n.exprError;
+    if (staticError) return set({ error: staticError });
+    for (const d of deps) {
+      const s = this.#state.get(d);
+      if (s?.error) {
+        const root = s.error.kind === "dependency" && s.error.cause
+          ? s.error.cause
+          : { id: d, error: s.error };
+        return set({
+          error: {
+            kind: "dependency",
+            message:
+              `depends on ${d}, which has an error: ${root.error.message} (${root.id} at ${root.error.file}:${root.error.line}:${root.error.col})`,
+            file,
+            ...where,
+            cause: root,
+          },
+        });
+      }
+    }
+    try {
+      if (n.kind === "table") {
+        const b = n.built!;
+        set({ value: makeTable(n.name, b.columns, { excluded: b.excluded, file: b.file }) });
+      } else if (n.kind === "column") {
+        const table = this.#scope.get(n.table!) as TableValue;
+        const column = this.#evaluateColumn(n, table);
+        addColumn(table, column);
+        set({ value: column });
+      } else {
+        set({ value: n.compiled!.evaluate(this.#scope) });
+      }
+    } catch (e) {
+      set({ error: this.#explain(e as Error, n, where) });
+    }
+  }
+
+  #evaluateColumn(n: NodeDef, table: TableValue): Column {
+    const info = tableInfo(table)!;
+    const rows = info.rowCount;
+    const scope = new RowScope(this.#scope);
+    const cols = info.columns.filter((c) => c.name !== n.name);
+    const out: unknown[] = new Array(rows);
+    for (let i = 0; i < rows; i++) {
+      for (const c of cols) {
+        const v = c.data[i];
+        scope.row.set(
+          c.name,
+          c.type === "quantity" && typeof v === "number" ? this.#lang.quantity(v, c.unit) : v,
+        );
+      }
+      try {
+        out[i] = n.compiled!.evaluate(scope);
+      } catch (e) {
+        const err = e as Error;
+        err.message = `row ${i + 1}: ${err.message}`;
+        throw err;
+      }
+    }
+    return toColumn(n.name, out, this.#lang);
+  }
+
+  #explain(e: Error, n: NodeDef, where: { line: number; col: number }): CellError {
+    const file = this.doc.file;
+    let message = e.message;
+    let kind: ErrorKind = "evaluation";
+    if (/Units do not match|Unexpected type of argument.*Unit/.test(message)) {
+      kind = "unit";
+      message = this.#unitMismatch(n) ?? `units do not match in ${n.cell?.expression}`;
+    } else if (
+      e.name === "LentilRangeError" || e instanceof RangeError ||
+      /outside the accepted range/.test(message)
+    ) {
+      kind = "range";
+    } else if (
+      e.name === "FormulaArgumentError" || e.name === "LentilParseError" ||
+      e.name === "LentilInputError"
+    ) {
+      kind = "argument";
+    }
+    return { kind, message, file, ...where };
+  }
+
+  /** Find the + or − whose operands carry incompatible units, to say which. */
+  #unitMismatch(n: NodeDef): string | undefined {
+    const node = n.analysis?.node as MathNode | undefined;
+    if (!node) return undefined;
+    let found: string | undefined;
+    node.traverse((m) => {
+      if (found || m.type !== "OperatorNode") return;
+      const op = m as unknown as { fn: string; op: string; args: MathNode[] };
+      if (!["add", "subtract"].includes(op.fn) || op.args.length !== 2) return;
+      try {
+        const [a, b] = op.args.map((x) => x.compile().evaluate(this.#scope));
+        const qa = this.#lang.quantityParts(a);
+        const qb = this.#lang.quantityParts(b);
+        const da = qa ? this.#lang.describe(a, this.display).display : `${a}`;
+        const db = qb ? this.#lang.describe(b, this.display).display : `${b}`;
+        if ((qa?.unit ?? "") !== (qb?.unit ?? "")) {
+          found = `units do not match: cannot ${op.fn === "add" ? "add" : "subtract"} ${db} ${
+            op.fn === "add" ? "to" : "from"
+          } ${da}`;
+        }
+      } catch {
+        // Leave it to the generic message.
+      }
+    });
+    return found;
+  }
+
+  #lineOf(id: string): number {
+    const n = this.#nodes.get(id);
+    return n?.cell?.line ?? n?.block?.line ?? 0;
+  }
+
+  /** The result of one node by id, or undefined. */
+  result(id: string): CellResult | undefined {
+    const n = this.#nodes.get(id);
+    if (!n) return undefined;
+    const s = this.#state.get(id) ?? { sources: [], caution: false };
+    return {
+      id,
+      name: n.name,
+      kind: n.kind,
+      table: n.table,
+      value: s.error ? undefined : s.value,
+      error: s.error,
+      sources: s.sources,
+      caution: s.caution,
+      line: n.cell?.line ?? n.block!.line,
+      col: n.cell?.col ?? n.block!.col,
+      expression: n.cell?.expression,
+      note: n.cell?.note,
+      input: n.cell?.input ?? false,
+      deps: [...(n.analysis?.deps ?? [])],
+    };
+  }
+
+  /** Every node's result, in document order (tables at their block). */
+  results(): CellResult[] {
+    return [...this.#nodes.values()]
+      .sort((a, b) => (a.cell?.line ?? a.block!.line) - (b.cell?.line ?? b.block!.line))
+      .map((n) => this.result(n.id)!);
+  }
+
+  /** The current value of a node (undefined on error). */
+  value(id: string): unknown {
+    const s = this.#state.get(id);
+    return s?.error ? undefined : s?.value;
+  }
+
+  /**
+   * Every problem: parse diagnostics, table data problems, and each error that began in a
+   * node (errors only carried from a dependency are not repeated).
+   */
+  diagnostics(): Diagnostic[] {
+    const out: Diagnostic[] = [...this.doc.diagnostics, ...this.#staticDiagnostics];
+    const seen = new Set(out.map((d) => `${d.file}:${d.line}:${d.col}:${d.message}`));
+    for (const r of this.results()) {
+      const e = r.error;
+      if (!e || e.kind === "dependency") continue;
+      if (e.kind === "duplicate") continue; // the parser reported it
+      if (e.kind === "data" && r.kind === "table") continue; // reported row by row
+      const d: Diagnostic = {
+        file: e.file,
+        line: e.line,
+        col: e.col,
+        message: e.message,
+        severity: "error",
+      };
+      const key = `${d.file}:${d.line}:${d.col}:${d.message}`;
+      if (!seen.has(key)) {
+        seen.add(key);
+        out.push(d);
+      }
+    }
+    return out.sort((
+      a,
+      b,
+    ) => (a.file === b.file ? a.line - b.line || a.col - b.col : a.file < b.file ? -1 : 1));
+  }
+
+  /** The dependency graph (for tests and tools). */
+  get graph(): DependencyGraph {
+    return this.#graph;
+  }
+}
+
+function isLiteralExpr(expression: string): boolean {
+  return parseNotebook("```calc\nx = " + expression + "\n```\n", "_").cells[0]?.input ?? false;
+}
+
+/** Pack per-row results into a column: numbers and quantities into a Float64Array. */
+function toColumn(name: string, values: unknown[], lang: Language): Column {
+  if (values.length === 0) return new Column(name, "number", "", new Float64Array());
+  if (values.every((v) => typeof v === "number")) {
+    return new Column(name, "number", "", Float64Array.from(values as number[]));
+  }
+  const first = lang.quantityParts(values[0]);
+  if (first) {
+    const data = new Float64Array(values.length);
+    let ok = true;
+    for (let i = 0; i < values.length && ok; i++) {
+      try {
+        data[i] = lang.toNumberIn(values[i], first.unit);
+      } catch {
+        ok = false;
+      }
+    }
+    if (ok) return new Column(name, first.unit ? "quantity" : "number", first.unit, data);
+  }
+  const t = typeOfValue(values[0]);
+  return new Column(name, t?.name ?? (typeof values[0] === "string" ? "text" : "any"), "", values);
+}
