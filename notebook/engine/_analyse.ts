@@ -7,7 +7,11 @@
  */
 
 import type { MathNode } from "mathjs";
-import { DISABLED_FUNCTIONS, ExpressionSyntaxError, type Language } from "../../cells/language.ts";
+import {
+  DISABLED_FUNCTIONS,
+  type ExpressionSyntaxError,
+  type Language,
+} from "../../cells/language.ts";
 
 /** What a table looks like to the analyser: its data columns and computed columns. */
 export interface TableShape {

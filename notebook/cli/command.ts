@@ -1,0 +1,102 @@
+/**
+ * The shape of a CLI command, and the small I/O surface commands write through so tests can
+ * run them in-process.
+ *
+ * @example
+ * ```ts
+ * import { captureIo } from "./command.ts";
+ * const io = captureIo();
+ * io.out("hello");
+ * io.stdout(); // "hello\n"
+ * ```
+ *
+ * @module
+ */
+
+/** Where a command writes. */
+export interface CliIo {
+  /** Write one line to standard output. */
+  out(line: string): void;
+  /** Write one line to standard error. */
+  err(line: string): void;
+}
+
+/** An option a command accepts. */
+export interface OptionSpec {
+  /** Takes a value (`--out FILE`) or is a switch (`--json`). */
+  readonly type: "string" | "boolean";
+  /** One-letter alias. */
+  readonly short?: string;
+  /** Help text. */
+  readonly doc: string;
+  /** Placeholder for the value in help (`FILE`). */
+  readonly value?: string;
+}
+
+/** One command of `lentil`. */
+export interface Command {
+  /** The word after `lentil`. */
+  readonly name: string;
+  /** One line for the command list. */
+  readonly summary: string;
+  /** Usage line after `lentil NAME`, e.g. `FILE [--json]`. */
+  readonly usage: string;
+  /** Longer help. */
+  readonly help: string;
+  /** Options by long name. */
+  readonly options: Readonly<Record<string, OptionSpec>>;
+  /** Positional arguments: [min, max]. */
+  readonly positionals: readonly [number, number];
+  /** Run; returns the exit code (0 ok, 1 problems found, 2 usage error). */
+  run(
+    positionals: string[],
+    options: Record<string, string | boolean | undefined>,
+    io: CliIo,
+  ): Promise<number>;
+}
+
+/**
+ * An I/O surface that writes to the process's stdout and stderr.
+ *
+ * @example
+ * ```ts ignore
+ * consoleIo().out("ready");
+ * ```
+ */
+export function consoleIo(): CliIo {
+  const enc = new TextEncoder();
+  return {
+    out: (line) => Deno.stdout.writeSync(enc.encode(line + "\n")),
+    err: (line) => Deno.stderr.writeSync(enc.encode(line + "\n")),
+  };
+}
+
+/** An I/O surface that keeps what was written, for tests. */
+export interface CapturedIo extends CliIo {
+  /** Everything written to stdout. */
+  stdout(): string;
+  /** Everything written to stderr. */
+  stderr(): string;
+}
+
+/**
+ * Capture output in memory.
+ *
+ * @example
+ * ```ts
+ * import { captureIo } from "./command.ts";
+ * const io = captureIo();
+ * io.err("oops");
+ * io.stderr(); // "oops\n"
+ * ```
+ */
+export function captureIo(): CapturedIo {
+  let out = "";
+  let err = "";
+  return {
+    out: (line) => void (out += line + "\n"),
+    err: (line) => void (err += line + "\n"),
+    stdout: () => out,
+    stderr: () => err,
+  };
+}

@@ -1,0 +1,28 @@
+/**
+ * Shared by commands: load a notebook, or print why it cannot be loaded.
+ *
+ * @module
+ */
+
+import type { CliIo } from "../command.ts";
+import type { Notebook } from "../../engine/engine.ts";
+import { loadNotebook, NotebookFileError } from "../../load.ts";
+import { formatDiagnostic } from "../../format/diagnostic.ts";
+
+/** Load `file`; on failure print a one-line message and return undefined. */
+export async function openNotebook(file: string, io: CliIo): Promise<Notebook | undefined> {
+  try {
+    const r = await loadNotebook(file);
+    if (!r.ok) {
+      io.err(formatDiagnostic(r.diagnostic));
+      return undefined;
+    }
+    return r.notebook;
+  } catch (e) {
+    if (e instanceof NotebookFileError) {
+      io.err(e.message);
+      return undefined;
+    }
+    throw e;
+  }
+}

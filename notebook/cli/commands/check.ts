@@ -1,0 +1,30 @@
+/**
+ * `lentil check FILE`: parse, validate and evaluate; print `FILE:LINE:COL: message` for
+ * each problem and exit 1, or exit 0 when clean.
+ *
+ * @module
+ */
+
+import type { Command } from "../command.ts";
+import { formatDiagnostic } from "../../format/diagnostic.ts";
+import { openNotebook } from "./_open.ts";
+
+/** The `check` command. */
+export const checkCommand: Command = {
+  name: "check",
+  summary: "validate a notebook and list every problem with its position",
+  usage: "FILE",
+  help: "Parses and evaluates FILE and prints one line FILE:LINE:COL: message for each problem.\n" +
+    "Exit status: 0 when clean (warnings allowed), 1 when any error was found.",
+  options: {},
+  positionals: [1, 1],
+  async run([file], _options, io) {
+    const nb = await openNotebook(file, io);
+    if (!nb) return 1;
+    const diags = nb.diagnostics();
+    for (const d of diags) io.out(formatDiagnostic(d));
+    const errors = diags.filter((d) => d.severity === "error").length;
+    if (errors === 0) io.err(`${file}: ok${diags.length ? ` (${diags.length} warnings)` : ""}`);
+    return errors ? 1 : 0;
+  },
+};

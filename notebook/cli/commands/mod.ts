@@ -1,0 +1,19 @@
+/**
+ * Every `lentil` command, in the order help lists them. Add a command's module here.
+ *
+ * @module
+ */
+
+import type { Command } from "../command.ts";
+import { runCommand } from "./run.ts";
+import { checkCommand } from "./check.ts";
+import { evalCommand } from "./eval.ts";
+import { newCommand } from "./new.ts";
+
+/** The commands. */
+export const COMMANDS: readonly Command[] = [
+  runCommand,
+  checkCommand,
+  evalCommand,
+  newCommand,
+];

@@ -1,0 +1,91 @@
+/**
+ * `lentil run FILE`: evaluate a notebook and print every cell with its value, unit and
+ * numbered sources, then the sources and, where they apply, the cautions.
+ *
+ * @module
+ */
+
+import type { Command } from "../command.ts";
+import { buildReport, type Report } from "../../report.ts";
+import { openNotebook } from "./_open.ts";
+
+/**
+ * Plain-text rendering of a report, one line a cell.
+ *
+ * @example
+ * ```ts
+ * import { Notebook } from "../../engine/engine.ts";
+ * import { buildReport } from "../../report.ts";
+ * import { renderReportText } from "./run.ts";
+ * const text = renderReportText(buildReport(Notebook.fromText("```calc\nx = 2 mm\n```\n", "x")), "x");
+ * text.includes("x = 2.00 mm"); // true
+ * ```
+ */
+export function renderReportText(report: Report, title: string): string {
+  const lines: string[] = [title, ""];
+  const width = Math.min(24, Math.max(4, ...report.cells.map((c) => c.id.length)));
+  for (const c of report.cells) {
+    const notes = c.notes.length ? `  [${c.notes.join(", ")}]` : "";
+    const note = c.note ? `  # ${c.note}` : "";
+    if (c.error) {
+      lines.push(
+        `${
+          c.id.padEnd(width)
+        } ! ${c.error.message}  (${c.error.file}:${c.error.line}:${c.error.col})`,
+      );
+    } else {
+      lines.push(`${c.id.padEnd(width)} = ${c.display}${notes}${note}`);
+    }
+  }
+  if (report.sources.length) {
+    lines.push("", "Sources");
+    for (const s of report.sources) {
+      lines.push(`  [${s.n}] ${s.citation}${s.mark ? ` (${s.mark})` : ""}`);
+    }
+  }
+  if (report.cautions.length) {
+    lines.push("", "Cautions");
+    for (const c of report.cautions) lines.push(`  - ${c}`);
+  }
+  return lines.join("\n");
+}
+
+/** The `run` command. */
+export const runCommand: Command = {
+  name: "run",
+  summary: "evaluate a notebook and print every result with units and sources",
+  usage: "FILE [--json]",
+  help:
+    "Evaluates FILE (a *.lentil.md notebook) and prints each cell: name, value with unit, and\n" +
+    "the numbers of the sources it used, then the numbered sources and any cautions.\n" +
+    "Exit status: 0 when every cell evaluated, 1 when any cell has an error.",
+  options: { json: { type: "boolean", doc: "print the results as JSON" } },
+  positionals: [1, 1],
+  async run([file], options, io) {
+    const opened = await openNotebook(file, io);
+    if (!opened) return 1;
+    const report = buildReport(opened);
+    if (options.json) {
+      const cells = report.cells.map((c) => ({
+        name: c.id,
+        kind: c.kind,
+        value: c.value,
+        unit: c.unit,
+        display: c.display,
+        sources: c.sources,
+        caution: c.caution,
+        line: c.line,
+        ...(c.error ? { error: c.error } : {}),
+      }));
+      io.out(
+        JSON.stringify({ cells, sources: report.sources, cautions: report.cautions }, null, 2),
+      );
+    } else {
+      const front = opened.doc.front;
+      const title = [front.title ?? file, front.case ? `(case ${front.case})` : ""].filter(Boolean)
+        .join(" ");
+      io.out(renderReportText(report, title));
+    }
+    return report.cells.some((c) => c.error) ? 1 : 0;
+  },
+};

@@ -1,0 +1,94 @@
+/**
+ * Loading a notebook file from disk: strict UTF-8, tables' CSV files read from the
+ * notebook's folder, and a clear error (never a stack trace) when the file is missing.
+ *
+ * @example
+ * ```ts ignore
+ * import { loadNotebook } from "./load.ts";
+ * const loaded = await loadNotebook("seeds/dispense-check.lentil.md");
+ * if (loaded.ok) console.log(loaded.notebook.results().length);
+ * ```
+ *
+ * @module
+ */
+
+import { dirname, join } from "node:path";
+import { Notebook } from "./engine/engine.ts";
+import { decodeNotebook } from "./format/read.ts";
+import type { Diagnostic } from "./format/diagnostic.ts";
+import { parseNotebook } from "./format/parse.ts";
+
+/** A loaded notebook, or the reason it could not be read at all. */
+export type LoadResult =
+  | { readonly ok: true; readonly notebook: Notebook; readonly bytes: Uint8Array }
+  | { readonly ok: false; readonly diagnostic: Diagnostic };
+
+/** A notebook file that cannot be opened (missing, a folder, not readable). */
+export class NotebookFileError extends Error {
+  /** @param path the file; @param message why. */
+  constructor(readonly path: string, message: string) {
+    super(message);
+    this.name = "NotebookFileError";
+  }
+}
+
+/**
+ * Read the bytes of a notebook file, turning file-system failures into a
+ * {@linkcode NotebookFileError} with a message a user can act on.
+ *
+ * @example
+ * ```ts ignore
+ * const bytes = await readNotebookBytes("case.lentil.md");
+ * ```
+ */
+export async function readNotebookBytes(path: string): Promise<Uint8Array> {
+  try {
+    return await Deno.readFile(path);
+  } catch (e) {
+    if (e instanceof Deno.errors.NotFound) {
+      throw new NotebookFileError(path, `${path}: no such file`);
+    }
+    if (e instanceof Deno.errors.IsADirectory) {
+      throw new NotebookFileError(path, `${path}: is a folder, not a notebook file`);
+    }
+    if (e instanceof Deno.errors.PermissionDenied) {
+      throw new NotebookFileError(path, `${path}: permission denied (${(e as Error).message})`);
+    }
+    throw new NotebookFileError(path, `${path}: cannot be read (${(e as Error).message})`);
+  }
+}
+
+/**
+ * Build a notebook from its bytes; CSV tables are read relative to `path`'s folder.
+ *
+ * @example
+ * ```ts
+ * import { notebookFromBytes } from "./load.ts";
+ * const r = notebookFromBytes(new TextEncoder().encode("```calc\nx = 1\n```\n"), "x.lentil.md");
+ * r.ok; // true
+ * ```
+ */
+export function notebookFromBytes(bytes: Uint8Array, path: string): LoadResult {
+  const decoded = decodeNotebook(bytes, path);
+  if (!decoded.ok) return decoded;
+  const dir = dirname(path);
+  const notebook = new Notebook(parseNotebook(decoded.text, path), {
+    host: { readText: (rel) => Deno.readTextFileSync(join(dir, rel)) },
+  });
+  notebook.evaluateAll();
+  return { ok: true, notebook, bytes };
+}
+
+/**
+ * Load and evaluate a notebook file.
+ *
+ * @example
+ * ```ts ignore
+ * import { loadNotebook } from "./load.ts";
+ * const r = await loadNotebook("case.lentil.md");
+ * ```
+ * @throws {NotebookFileError} when the file cannot be read.
+ */
+export async function loadNotebook(path: string): Promise<LoadResult> {
+  return notebookFromBytes(await readNotebookBytes(path), path);
+}
