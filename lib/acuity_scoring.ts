@@ -69,7 +69,15 @@ export interface ChartScore {
   readonly notes: readonly string[];
 }
 
-/** Tell a line by its size, e.g. "line 3 (0.30 logMAR)". */
+/**
+ * Name a chart line by its place and size, for notes and errors. Source: common-practice.
+ *
+ * @example
+ * ```ts
+ * import { lineLabel } from "./acuity_scoring.ts";
+ * lineLabel(2, 0.3); // "line 3 (0.30 logMAR)"
+ * ```
+ */
 export function lineLabel(index: number, logMAR: number): string {
   return `line ${index + 1} (${logMAR.toFixed(2)} logMAR)`;
 }
@@ -154,7 +162,7 @@ export function scoreChart(
       read: n,
       status,
       credited: 2 * n > l.letters,
-      perLetter: step / l.letters,
+      perLetter: Math.round((step / l.letters) * 1e12) / 1e12,
     };
   });
 
