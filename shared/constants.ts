@@ -62,6 +62,13 @@ export const REFERENCE_VALUES = {
     source: "chi2-ellipse",
     summary: "95% quantile of the χ² distribution with 2 degrees of freedom.",
   },
+  blurAcuitySlope: {
+    value: 0.65,
+    unit: "",
+    source: "smith-1991",
+    summary:
+      "MAR (arcmin) per mm of pupil per D of defocus once blur dominates: MAR ≈ k·A·ΔF (an approximation, from memory).",
+  },
   photopicWavelength: {
     value: 555,
     unit: "nm",

@@ -136,6 +136,12 @@ const entries: readonly Source[] = [
     status: "common-practice",
   },
   {
+    id: "matching-problem",
+    citation:
+      "Matches between two arrangements drawn without repetition (the matching problem, generalised to partial permutations), counted by inclusion–exclusion: any combinatorics text.",
+    status: "common-practice",
+  },
+  {
     id: "smith-1982",
     citation:
       "Smith G. Angular diameter of defocus blur discs. Am J Optom Physiol Opt 1982;59:885–889.",
@@ -189,6 +195,18 @@ const entries: readonly Source[] = [
     id: "most-plus-endpoint",
     citation:
       "Subjective endpoint: the most plus (least minus) lens that gives the best acuity (maximum plus for maximum visual acuity, MPMVA).",
+    status: "common-practice",
+  },
+  {
+    id: "blur-quadrature",
+    citation:
+      "Combining geometric blur and the diffraction disc by root-sum-of-squares of their diameters: a rule of thumb of optics, an estimate only.",
+    status: "common-practice",
+  },
+  {
+    id: "through-focus-fit",
+    citation:
+      "Least-squares fit of a piecewise-linear through-focus model to logMAR against lens power (a flat-bottomed peak, or a hinge with a flat minus side): an empirical description, not a physical model of the eye.",
     status: "common-practice",
   },
   {
