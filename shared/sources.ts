@@ -66,6 +66,20 @@ const entries: readonly Source[] = [
     status: "from-memory",
   },
   {
+    id: "thompson-1899",
+    citation:
+      "Thompson SP. On obliquely-crossed cylindrical lenses. Proc Phys Soc London 1899;17:81.",
+    status: "published",
+    note:
+      "Classical resultant of two cylinders crossed at any angle: C² = C1² + C2² + 2·C1·C2·cos 2θ.",
+  },
+  {
+    id: "stokes-lens",
+    citation:
+      "Stokes GG. On a mode of measuring the astigmatism of a defective eye. Report of the British Association, 1849 (two equal cylinders of opposite sign crossed at a variable angle θ give a pure cross-cylinder of power 2·C·sin θ).",
+    status: "from-memory",
+  },
+  {
     id: "sine-squared",
     citation:
       "Power in an oblique meridian, F(θ) = S + C·sin²(θ − α): common textbook result of visual optics.",
