@@ -627,25 +627,22 @@ export class Notebook {
    * node (errors only carried from a dependency are not repeated).
    */
   diagnostics(): Diagnostic[] {
-    const out: Diagnostic[] = [...this.doc.diagnostics, ...this.#staticDiagnostics];
-    const seen = new Set(out.map((d) => `${d.file}:${d.line}:${d.col}:${d.message}`));
+    const out: Diagnostic[] = [];
+    const seen = new Set<string>();
+    const push = (d: Diagnostic) => {
+      const key = `${d.file}:${d.line}:${d.col}:${d.message}`;
+      if (seen.has(key)) return;
+      seen.add(key);
+      out.push(d);
+    };
+    for (const d of this.doc.diagnostics) push(d);
+    for (const d of this.#staticDiagnostics) push(d);
     for (const r of this.results()) {
       const e = r.error;
       if (!e || e.kind === "dependency") continue;
       if (e.kind === "duplicate") continue; // the parser reported it
       if (e.kind === "data" && r.kind === "table") continue; // reported row by row
-      const d: Diagnostic = {
-        file: e.file,
-        line: e.line,
-        col: e.col,
-        message: e.message,
-        severity: "error",
-      };
-      const key = `${d.file}:${d.line}:${d.col}:${d.message}`;
-      if (!seen.has(key)) {
-        seen.add(key);
-        out.push(d);
-      }
+      push({ file: e.file, line: e.line, col: e.col, message: e.message, severity: "error" });
     }
     return out.sort((
       a,
