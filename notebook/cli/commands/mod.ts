@@ -9,6 +9,7 @@ import { runCommand } from "./run.ts";
 import { checkCommand } from "./check.ts";
 import { evalCommand } from "./eval.ts";
 import { newCommand } from "./new.ts";
+import { formulasCommand } from "./formulas.ts";
 
 /** The commands. */
 export const COMMANDS: readonly Command[] = [
@@ -16,4 +17,5 @@ export const COMMANDS: readonly Command[] = [
   checkCommand,
   evalCommand,
   newCommand,
+  formulasCommand,
 ];
