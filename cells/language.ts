@@ -80,7 +80,7 @@ export interface Language {
   /** Parse an expression; throws {@linkcode ExpressionSyntaxError}. */
   parse(expression: string): MathNode;
   /** Compile a parsed expression. */
-  compile(node: MathNode): { evaluate(scope: Record<string, unknown>): unknown };
+  compile(node: MathNode): { evaluate(scope: unknown): unknown };
   /** Whether `name` is a function the language knows (built-in or catalogue). */
   isFunction(name: string): boolean;
   /** Whether `name` is a built-in constant or value of the language (pi, e, true, …). */
@@ -417,7 +417,7 @@ export function buildLanguage(catalogue: Catalogue): Language {
         throw new ExpressionSyntaxError(msg.replace(/\s*\(char \d+\)/, ""), offset);
       }
     },
-    compile: (node) => node.compile(),
+    compile: (node) => node.compile() as { evaluate(scope: unknown): unknown },
     isFunction,
     isBuiltinSymbol,
     isUnit,
