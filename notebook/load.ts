@@ -64,7 +64,7 @@ export async function readNotebookBytes(path: string): Promise<Uint8Array> {
  * @example
  * ```ts
  * import { notebookFromBytes } from "./load.ts";
- * const r = notebookFromBytes(new TextEncoder().encode("```calc\nx = 1\n```\n"), "x.lentil.md");
+ * const r = notebookFromBytes(new TextEncoder().encode("~~~calc\nx = 1\n~~~\n"), "x.lentil.md");
  * r.ok; // true
  * ```
  */

@@ -9,7 +9,7 @@
  * @example
  * ```ts
  * import { Notebook } from "./engine.ts";
- * const nb = Notebook.fromText("```calc\nF = -10 D\ncl = vertexPower(F, 12 mm)\n```\n", "a.lentil.md");
+ * const nb = Notebook.fromText("~~~calc\nF = -10 D\ncl = vertexPower(F, 12 mm)\n~~~\n", "a.lentil.md");
  * nb.result("cl")?.sources; // ["vertex-formula"]
  * nb.update("F", "+10 D"); // ["F", "cl"]
  * ```
@@ -153,7 +153,7 @@ export class Notebook {
    * @example
    * ```ts
    * import { Notebook } from "./engine.ts";
-   * Notebook.fromText("```calc\nx = 2 mm\n```\n", "x.lentil.md").result("x")?.value !== undefined; // true
+   * Notebook.fromText("~~~calc\nx = 2 mm\n~~~\n", "x.lentil.md").result("x")?.value !== undefined; // true
    * ```
    */
   static fromText(text: string, file: string, options: NotebookOptions = {}): Notebook {
@@ -411,7 +411,7 @@ export class Notebook {
    * @example
    * ```ts
    * import { Notebook } from "./engine.ts";
-   * const nb = Notebook.fromText("```calc\na = 1\nb = a + 1\nc = 5\n```\n", "x.lentil.md");
+   * const nb = Notebook.fromText("~~~calc\na = 1\nb = a + 1\nc = 5\n~~~\n", "x.lentil.md");
    * nb.update("a", "2"); // ["a", "b"]
    * ```
    * @throws {Error} when no cell has that id.

@@ -32,7 +32,7 @@
  * @example
  * ```ts
  * import { parseNotebook } from "./parse.ts";
- * const nb = parseNotebook("```calc\nx = 2 D\n```\n", "a.lentil.md");
+ * const nb = parseNotebook("~~~calc\nx = 2 D\n~~~\n", "a.lentil.md");
  * nb.cells[0].name; // "x"
  * ```
  *
@@ -326,7 +326,7 @@ function splitRow(text: string): { cells: string[]; cols: number[] } {
  * @example
  * ```ts
  * import { parseNotebook } from "./parse.ts";
- * const nb = parseNotebook("```calc\nx = 1\nx = 2\n```\n", "dup.lentil.md");
+ * const nb = parseNotebook("~~~calc\nx = 1\nx = 2\n~~~\n", "dup.lentil.md");
  * nb.diagnostics[0].message; // 'duplicate name "x" (first defined at line 2)'
  * ```
  */

@@ -17,7 +17,7 @@ import { openNotebook } from "./_open.ts";
  * import { Notebook } from "../../engine/engine.ts";
  * import { buildReport } from "../../report.ts";
  * import { renderReportText } from "./run.ts";
- * const text = renderReportText(buildReport(Notebook.fromText("```calc\nx = 2 mm\n```\n", "x")), "x");
+ * const text = renderReportText(buildReport(Notebook.fromText("~~~calc\nx = 2 mm\n~~~\n", "x")), "x");
  * text.includes("x = 2.00 mm"); // true
  * ```
  */
