@@ -13,11 +13,17 @@
 
 import { buildCatalogue, type Catalogue } from "./catalogue.ts";
 import { CORE_CONSTANTS, CORE_FORMULAS } from "./core.ts";
+import { RX_FORMULAS } from "./rx.ts";
+import { PRISM_FORMULAS } from "./prism.ts";
+import { LENS_FORMULAS } from "./lens.ts";
 
 /** Every formula and constant, checked for duplicate names. */
 export const CATALOGUE: Catalogue = buildCatalogue(
   [
     ...CORE_FORMULAS,
+    ...RX_FORMULAS,
+    ...PRISM_FORMULAS,
+    ...LENS_FORMULAS,
   ],
   [
     ...CORE_CONSTANTS,

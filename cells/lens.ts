@@ -1,0 +1,370 @@
+/**
+ * Lens making and checking in the formula language: surface sag, centre and edge
+ * thickness, the comparison across common indices (a table), the frame's minimum lens
+ * diameter, the true power from a lens-measure reading, verification against ANSI
+ * Z80.1-2015 (the `toleranceReport` value type), and near demand with a tentative add.
+ *
+ * @example
+ * ```ts
+ * import { getLanguage } from "./language.ts";
+ * const lang = getLanguage();
+ * const v = lang.compile(lang.parse("nearDemand(40 cm)")).evaluate({});
+ * lang.describe(v).display; // "+2.50 D"
+ * ```
+ *
+ * @module
+ */
+
+import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
+import { Column, makeTable } from "./table.ts";
+import { defineValueType } from "./types.ts";
+import { formatNumber, formatQuantity } from "./display.ts";
+import { quantity } from "./_values.ts";
+import type { RxValue } from "./rx.ts";
+import type { AmplitudeLevel } from "../lib/accommodation.ts";
+import { nearDemand, tentativeAdd, WORKING_DISTANCE_RANGE_CM } from "../lib/near.ts";
+import {
+  COMMON_INDICES,
+  DEFAULT_FRONT_CURVE,
+  DIAMETER_RANGE,
+  frameDiameter,
+  INDEX_RANGE,
+  lensThickness,
+  surfaceRadius,
+  surfaceSag,
+  thicknessByIndex,
+  trueLensPower,
+} from "../lib/thickness.ts";
+import {
+  checkLens,
+  checkPair,
+  type ToleranceCheck,
+  type ToleranceReport,
+} from "../lib/tolerance.ts";
+import { REFERENCE_VALUES } from "../shared/constants.ts";
+
+/** A verification result as a value of the formula language. */
+export class ToleranceReportValue {
+  /** @param report the checks against the standard. */
+  constructor(readonly report: ToleranceReport) {}
+}
+
+function describeCheck(c: ToleranceCheck): string {
+  const unit = c.unit === "deg" ? "°" : c.unit === "prism" ? " Δ" : " D";
+  const q = (v: number) => c.unit === "deg" ? `${formatNumber(v)}°` : formatQuantity(v, c.unit);
+  const size = (v: number) => `${c.unit === "deg" ? formatNumber(v) : v.toFixed(2)}${unit}`;
+  const dev = `${c.deviation > 0 ? "+" : c.deviation < 0 ? "-" : ""}${size(Math.abs(c.deviation))}`;
+  const verdict = c.pass
+    ? `pass, within by ${size(c.margin)}`
+    : `FAIL, outside by ${size(-c.margin)}`;
+  return `${c.quantity} ordered ${q(c.ordered)}, measured ${
+    q(c.measured)
+  }: deviation ${dev}, tolerance ±${size(c.tolerance)}: ${verdict}`;
+}
+
+/** The `toleranceReport` value type. */
+export const TOLERANCE_REPORT_TYPE = defineValueType<ToleranceReportValue>({
+  name: "toleranceReport",
+  summary: "lens verification against a tolerance standard, quantity by quantity",
+  is: (x): x is ToleranceReportValue => x instanceof ToleranceReportValue,
+  display: (v) =>
+    `${v.report.standard}: ${v.report.pass ? "pass" : "FAIL"} — ${
+      v.report.checks.map(describeCheck).join("; ")
+    }`,
+  json: (v) => v.report,
+});
+
+const rxOf = (x: unknown) => (x as RxValue).rx;
+const INDEX: ParamSpec = {
+  name: "index",
+  type: "number",
+  range: INDEX_RANGE,
+  doc: "refractive index of the lens material",
+};
+const DIAMETER: ParamSpec = {
+  name: "diameter",
+  type: "quantity",
+  unit: "mm",
+  range: DIAMETER_RANGE,
+  doc: "lens diameter (uncut, or twice the farthest edge point from the optical centre)",
+};
+const MIN_THICKNESS: ParamSpec = {
+  name: "minThickness",
+  type: "quantity",
+  unit: "mm",
+  range: [0, 10],
+  doc: "thickness at the thinnest point (centre of a minus lens, edge of a plus lens)",
+};
+const FRONT: ParamSpec = {
+  name: "frontCurve",
+  type: "quantity",
+  unit: "D",
+  range: [-20, 20],
+  optional: true,
+  default: DEFAULT_FRONT_CURVE,
+  doc: "front surface power in the lens material (default +4.00 D)",
+};
+const THICKNESS_PARAMS = [
+  { name: "rx", type: "rx", doc: "the lens power" },
+  INDEX,
+  DIAMETER,
+  MIN_THICKNESS,
+  FRONT,
+] as const;
+
+function thickness(r: unknown, index: unknown, d: unknown, t: unknown, f: unknown) {
+  return lensThickness(rxOf(r), {
+    index: index as number,
+    diameter: d as number,
+    minThickness: t as number,
+    frontCurve: f as number,
+  });
+}
+
+const THICKNESS_COMMON = {
+  group: "thickness",
+  params: THICKNESS_PARAMS,
+  sources: ["jalie-lenses"],
+  caution: true,
+} as const;
+
+/** Lens, verification and near formulas. */
+export const LENS_FORMULAS: readonly FormulaSpec[] = [
+  defineFormula({
+    name: "sag",
+    group: "thickness",
+    summary: "Sag of a spherical surface over a chord: r − √(r² − (d/2)²).",
+    params: [
+      { name: "radius", type: "quantity", unit: "mm", range: [1, 1e6], doc: "surface radius" },
+      { name: "diameter", type: "quantity", unit: "mm", range: [0, 200], doc: "chord diameter" },
+    ],
+    returns: { type: "quantity", unit: "mm", doc: "sag" },
+    sources: ["jalie-lenses"],
+    example: "sag(100 mm, 60 mm)",
+    fn: (r, d) => surfaceSag(r as number, (d as number) / 2),
+  }),
+  defineFormula({
+    name: "surfaceRadius",
+    group: "thickness",
+    summary: "Radius of a surface of a given power in a material: r = (n − 1)/F.",
+    params: [
+      { name: "power", type: "quantity", unit: "D", range: [-30, 30], doc: "surface power" },
+      INDEX,
+    ],
+    returns: { type: "quantity", unit: "mm", doc: "radius (Infinity for a plano surface)" },
+    sources: ["jalie-lenses"],
+    example: "surfaceRadius(5 D, 1.5)",
+    fn: (p, n) => surfaceRadius(p as number, n as number),
+  }),
+  defineFormula({
+    ...THICKNESS_COMMON,
+    name: "lensThickness",
+    summary:
+      "Centre thickness and the thinnest and thickest edge of a spherocylindrical lens (thin-lens estimate).",
+    returns: { type: "any", doc: "record centre, edgeThin, edgeThick (mm)" },
+    example: 'lensThickness(rx("-4.00 / -1.00 x 180"), 1.6, 60 mm, 1.5 mm)',
+    fn: (r, n, d, t, f) => {
+      const x = thickness(r, n, d, t, f);
+      return {
+        centre: quantity(x.centre, "mm"),
+        edgeThin: quantity(x.edgeThin, "mm"),
+        edgeThick: quantity(x.edgeThick, "mm"),
+      };
+    },
+  }),
+  defineFormula({
+    ...THICKNESS_COMMON,
+    name: "centreThickness",
+    summary: "Centre thickness of a spherocylindrical lens (thin-lens estimate).",
+    returns: { type: "quantity", unit: "mm", doc: "centre thickness" },
+    example: 'centreThickness(rx("+4.00 DS"), 1.5, 60 mm, 1 mm)',
+    fn: (r, n, d, t, f) => thickness(r, n, d, t, f).centre,
+  }),
+  defineFormula({
+    ...THICKNESS_COMMON,
+    name: "edgeThickness",
+    summary: "Thickest edge of a spherocylindrical lens (thin-lens estimate).",
+    returns: { type: "quantity", unit: "mm", doc: "thickest edge" },
+    example: 'edgeThickness(rx("-6.00 DS"), 1.67, 60 mm, 1.5 mm)',
+    fn: (r, n, d, t, f) => thickness(r, n, d, t, f).edgeThick,
+  }),
+  defineFormula({
+    name: "thicknessByIndex",
+    group: "thickness",
+    summary: `The same lens estimated in each common index (${
+      COMMON_INDICES.map((n) => n.toFixed(2)).join(", ")
+    }), same front curve.`,
+    params: THICKNESS_PARAMS.filter((p) => p.name !== "index"),
+    returns: { type: "table", doc: "table index, centre, edgeThin, edgeThick (mm)" },
+    sources: ["jalie-lenses"],
+    caution: true,
+    example: 'thicknessByIndex(rx("-6.00 / -1.00 x 90"), 60 mm, 1.5 mm)',
+    fn: (r, d, t, f) => {
+      const rows = thicknessByIndex(rxOf(r), {
+        diameter: d as number,
+        minThickness: t as number,
+        frontCurve: f as number,
+      });
+      const col = (name: string, unit: string, pick: (x: (typeof rows)[number]) => number) =>
+        new Column(name, unit ? "quantity" : "number", unit, Float64Array.from(rows, pick));
+      return makeTable("thicknessByIndex", [
+        col("index", "", (x) => x.index),
+        col("centre", "mm", (x) => x.centre),
+        col("edgeThin", "mm", (x) => x.edgeThin),
+        col("edgeThick", "mm", (x) => x.edgeThick),
+      ]);
+    },
+  }),
+  defineFormula({
+    name: "frameDiameter",
+    group: "thickness",
+    summary:
+      "Smallest uncut lens for a frame: twice the distance from the optical centre to the farthest box corner, plus a margin (an upper bound).",
+    params: [
+      { name: "boxA", type: "quantity", unit: "mm", range: [20, 80], doc: "box width A" },
+      { name: "boxB", type: "quantity", unit: "mm", range: [10, 80], doc: "box depth B" },
+      {
+        name: "decentration",
+        type: "quantity",
+        unit: "mm",
+        range: [-15, 15],
+        doc: "optical centre from the box centre",
+      },
+      {
+        name: "margin",
+        type: "quantity",
+        unit: "mm",
+        range: [0, 10],
+        optional: true,
+        default: 2,
+        doc: "allowance for edging",
+      },
+    ],
+    returns: { type: "quantity", unit: "mm", doc: "minimum lens diameter" },
+    sources: ["common-practice"],
+    caution: true,
+    example: "frameDiameter(52 mm, 40 mm, 3 mm)",
+    fn: (a, b, dec, m) => frameDiameter(a as number, b as number, dec as number, m as number),
+  }),
+  defineFormula({
+    name: "trueLensPower",
+    group: "thickness",
+    summary:
+      "True power from a lens-measure reading made with a tool calibrated for another index: F × (n − 1)/(n_tool − 1).",
+    params: [
+      { name: "reading", type: "quantity", unit: "D", range: [-30, 30], doc: "the reading" },
+      INDEX,
+      {
+        ...INDEX,
+        name: "toolIndex",
+        optional: true,
+        default: REFERENCE_VALUES.lensMeasureIndex.value,
+        doc: "index the tool is calibrated for (default 1.53)",
+      },
+    ],
+    returns: { type: "quantity", unit: "D", doc: "true power" },
+    sources: ["lens-measure"],
+    example: "trueLensPower(6 D, 1.67)",
+    fn: (f, n, t) => trueLensPower(f as number, n as number, t as number),
+  }),
+  defineFormula({
+    name: "checkTolerance",
+    group: "verification",
+    summary:
+      "A measured lens against the ordered prescription: each quantity, the ANSI Z80.1-2015 tolerance, the deviation, pass or fail and by how much.",
+    params: [
+      { name: "ordered", type: "rx", doc: "the ordered prescription" },
+      { name: "measured", type: "rx", doc: "the lens as measured" },
+    ],
+    returns: { type: "toleranceReport", doc: "the checks" },
+    sources: ["ansi-z80.1-2015"],
+    caution: true,
+    example: 'checkTolerance(rx("-2.25 / -0.75 x 170"), rx("-2.37 / -0.62 x 175"))',
+    fn: (o, m) => new ToleranceReportValue(checkLens(rxOf(o), rxOf(m))),
+  }),
+  defineFormula({
+    name: "checkPairTolerance",
+    group: "verification",
+    summary:
+      "A measured pair against the ordered pair: each lens, the vertical imbalance and the net horizontal prism against ANSI Z80.1-2015.",
+    params: [
+      { name: "orderedRight", type: "rx", doc: "ordered right lens" },
+      { name: "orderedLeft", type: "rx", doc: "ordered left lens" },
+      { name: "measuredRight", type: "rx", doc: "right lens as measured" },
+      { name: "measuredLeft", type: "rx", doc: "left lens as measured" },
+    ],
+    returns: { type: "toleranceReport", doc: "the checks" },
+    sources: ["ansi-z80.1-2015"],
+    caution: true,
+    example:
+      'checkPairTolerance(rx("-2.00 DS"), rx("-2.50 DS"), rx("-2.05 DS 0.25 BU"), rx("-2.45 DS"))',
+    fn: (or, ol, mr, ml) =>
+      new ToleranceReportValue(checkPair(rxOf(or), rxOf(ol), rxOf(mr), rxOf(ml))),
+  }),
+  defineFormula({
+    name: "nearDemand",
+    group: "near",
+    summary: "Accommodative demand of a target at a working distance: 1 / distance.",
+    params: [{
+      name: "distance",
+      type: "quantity",
+      unit: "cm",
+      range: WORKING_DISTANCE_RANGE_CM,
+      doc: "working distance",
+    }],
+    returns: { type: "quantity", unit: "D", doc: "demand" },
+    sources: ["common-practice"],
+    example: "nearDemand(40 cm)",
+    fn: (d) => nearDemand(d as number),
+  }),
+  defineFormula({
+    name: "tentativeAdd",
+    group: "near",
+    summary:
+      "A tentative near add from age and working distance: demand less the usable part of the expected amplitude (a reserve kept), rounded up to 0.25 D.",
+    params: [
+      { name: "age", type: "quantity", unit: "years", range: [0, 100], doc: "age" },
+      {
+        name: "distance",
+        type: "quantity",
+        unit: "cm",
+        range: WORKING_DISTANCE_RANGE_CM,
+        doc: "working distance",
+      },
+      {
+        name: "reserve",
+        type: "number",
+        range: [0, 1],
+        optional: true,
+        default: 0.5,
+        doc: "fraction of the amplitude kept in reserve (0.5 half, 0.33 a third)",
+      },
+      {
+        name: "level",
+        type: "text",
+        optional: true,
+        default: "minimum",
+        doc: 'Hofstetter line for the amplitude: "minimum" (default), "mean" or "maximum"',
+      },
+    ],
+    returns: { type: "any", doc: "record add, needed, demand, amplitude, usable (D)" },
+    sources: ["hofstetter-1950", "accommodative-reserve", "common-practice"],
+    caution: true,
+    example: "tentativeAdd(55 years, 40 cm)",
+    fn: (age, d, reserve, level) => {
+      const t = tentativeAdd(
+        age as number,
+        d as number,
+        reserve as number,
+        level as AmplitudeLevel,
+      );
+      return {
+        add: quantity(t.add, "D"),
+        needed: quantity(t.exact, "D"),
+        demand: quantity(t.demand, "D"),
+        amplitude: quantity(t.amplitude, "D"),
+        usable: quantity(t.usable, "D"),
+      };
+    },
+  }),
+];
