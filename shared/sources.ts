@@ -235,6 +235,26 @@ const entries: readonly Source[] = [
       "95% confidence ellipse of a bivariate mean from the covariance matrix and the χ² (2 d.f.) quantile 5.991: any multivariate statistics text.",
     status: "published",
   },
+  {
+    id: "welford-1962",
+    citation:
+      "Welford BP. Note on a method for calculating corrected sums of squares and products. Technometrics 1962;4(3):419–420.",
+    status: "published",
+    note: "One-pass update of the mean and of sums of squares and products.",
+  },
+  {
+    id: "hyndman-fan-1996",
+    citation:
+      "Hyndman RJ, Fan Y. Sample quantiles in statistical packages. Am Stat 1996;50(4):361–365.",
+    status: "published",
+    note: "Quantiles by definition 7: linear interpolation, h = (n − 1)·p.",
+  },
+  {
+    id: "rfc-4180",
+    citation:
+      "Shafranovich Y. Common Format and MIME Type for Comma-Separated Values (CSV) Files. RFC 4180, IETF, 2005.",
+    status: "published",
+  },
 ];
 
 const byId: ReadonlyMap<string, Source> = new Map(entries.map((s) => [s.id, s]));

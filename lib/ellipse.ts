@@ -1,0 +1,144 @@
+/**
+ * The 95% ellipse of a bivariate sample (for refraction data: J0 against J45) from its mean
+ * and covariance matrix. For 2 degrees of freedom the χ² quantile has the closed form
+ * −2·ln(1 − p), 5.991 at p = 0.95. Two regions are offered: the confidence ellipse of the
+ * mean (covariance divided by n, a large-sample approximation to Hotelling's T² region)
+ * and the ellipse expected to hold 95% of individual observations.
+ *
+ * Source: chi2-ellipse.
+ *
+ * @example
+ * ```ts
+ * import { chiSquare2 } from "./ellipse.ts";
+ * chiSquare2(0.95); // 5.991464547107979
+ * ```
+ *
+ * @module
+ */
+
+import { LentilInputError, LentilRangeError } from "./errors.ts";
+
+/** An ellipse in the plane of two variables (x, y). */
+export interface Ellipse {
+  /** Centre, x. */
+  readonly cx: number;
+  /** Centre, y. */
+  readonly cy: number;
+  /** Semi-axis along the major direction. */
+  readonly semiMajor: number;
+  /** Semi-axis along the minor direction. */
+  readonly semiMinor: number;
+  /** Direction of the major axis, degrees counter-clockwise from +x, in (−90, 90]. */
+  readonly angle: number;
+  /** Coverage probability. */
+  readonly level: number;
+  /** The χ² (2 d.f.) quantile used. */
+  readonly chi2: number;
+}
+
+/** A 2 × 2 covariance matrix: var x, var y, cov xy. */
+export interface Covariance2 {
+  /** Variance of x. */
+  readonly xx: number;
+  /** Variance of y. */
+  readonly yy: number;
+  /** Covariance of x and y. */
+  readonly xy: number;
+}
+
+/**
+ * Quantile of the χ² distribution with 2 degrees of freedom: −2·ln(1 − p).
+ * Source: chi2-ellipse.
+ *
+ * @example
+ * ```ts
+ * import { chiSquare2 } from "./ellipse.ts";
+ * chiSquare2(0.5); // 1.3862943611198906
+ * ```
+ * @throws {LentilRangeError} when p is not strictly between 0 and 1.
+ */
+export function chiSquare2(p: number): number {
+  if (!(p > 0 && p < 1)) throw new LentilRangeError("coverage probability", p, 0, 1);
+  return -2 * Math.log1p(-p);
+}
+
+/**
+ * Eigenvalues (largest first) and major-axis direction of a 2 × 2 covariance matrix.
+ * Source: chi2-ellipse.
+ *
+ * @example
+ * ```ts
+ * import { principalAxes } from "./ellipse.ts";
+ * principalAxes({ xx: 4, yy: 1, xy: 0 }); // { major: 4, minor: 1, angle: 0 }
+ * ```
+ */
+export function principalAxes(c: Covariance2): { major: number; minor: number; angle: number } {
+  const mid = (c.xx + c.yy) / 2;
+  const r = Math.hypot((c.xx - c.yy) / 2, c.xy);
+  const angle = 0.5 * Math.atan2(2 * c.xy, c.xx - c.yy) * 180 / Math.PI;
+  return { major: mid + r, minor: Math.max(0, mid - r), angle: angle === -90 ? 90 : angle };
+}
+
+/**
+ * The ellipse of a bivariate sample at coverage `level`: of the mean (`"mean"`, semi-axes
+ * √(χ²·λ/n)) or of individual observations (`"observations"`, semi-axes √(χ²·λ)).
+ * Source: chi2-ellipse.
+ *
+ * @example
+ * ```ts
+ * import { ellipseOf } from "./ellipse.ts";
+ * const e = ellipseOf({ x: 0, y: 0 }, { xx: 1, yy: 1, xy: 0 }, 100, "mean");
+ * e.semiMajor.toFixed(3); // "0.245"
+ * ```
+ * @throws {LentilInputError} with fewer than 3 observations or a covariance that is not
+ * positive semi-definite.
+ */
+export function ellipseOf(
+  centre: { x: number; y: number },
+  cov: Covariance2,
+  n: number,
+  region: "mean" | "observations",
+  level = 0.95,
+): Ellipse {
+  if (!(n >= 3)) {
+    throw new LentilInputError(`an ellipse needs at least 3 observations, got ${n}`);
+  }
+  if (!(cov.xx >= 0 && cov.yy >= 0) || cov.xy * cov.xy > cov.xx * cov.yy * (1 + 1e-12)) {
+    throw new LentilInputError(
+      `covariance (var ${cov.xx}, ${cov.yy}; cov ${cov.xy}) is not positive semi-definite`,
+    );
+  }
+  const chi2 = chiSquare2(level);
+  const k = region === "mean" ? chi2 / n : chi2;
+  const ax = principalAxes(cov);
+  return {
+    cx: centre.x,
+    cy: centre.y,
+    semiMajor: Math.sqrt(k * ax.major),
+    semiMinor: Math.sqrt(k * ax.minor),
+    angle: ax.angle,
+    level,
+    chi2,
+  };
+}
+
+/**
+ * Whether a point lies inside (or on) an ellipse.
+ * Source: chi2-ellipse.
+ *
+ * @example
+ * ```ts
+ * import { insideEllipse } from "./ellipse.ts";
+ * insideEllipse({ cx: 0, cy: 0, semiMajor: 2, semiMinor: 1, angle: 0, level: 0.95, chi2: 5.99 }, 1.9, 0); // true
+ * ```
+ */
+export function insideEllipse(e: Ellipse, x: number, y: number): boolean {
+  const t = e.angle * Math.PI / 180;
+  const dx = x - e.cx;
+  const dy = y - e.cy;
+  const u = dx * Math.cos(t) + dy * Math.sin(t);
+  const v = -dx * Math.sin(t) + dy * Math.cos(t);
+  const a = e.semiMajor || 1e-300;
+  const b = e.semiMinor || 1e-300;
+  return (u / a) ** 2 + (v / b) ** 2 <= 1 + 1e-12;
+}
