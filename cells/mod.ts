@@ -16,6 +16,9 @@ import { CORE_CONSTANTS, CORE_FORMULAS } from "./core.ts";
 import { RX_FORMULAS } from "./rx.ts";
 import { PRISM_FORMULAS } from "./prism.ts";
 import { LENS_FORMULAS } from "./lens.ts";
+import { ACUITY_FORMULAS } from "./acuity.ts";
+import { BLUR_FORMULAS } from "./blur.ts";
+import { ENDPOINT_FORMULAS } from "./endpoint.ts";
 
 /** Every formula and constant, checked for duplicate names. */
 export const CATALOGUE: Catalogue = buildCatalogue(
@@ -24,6 +27,9 @@ export const CATALOGUE: Catalogue = buildCatalogue(
     ...RX_FORMULAS,
     ...PRISM_FORMULAS,
     ...LENS_FORMULAS,
+    ...ACUITY_FORMULAS,
+    ...BLUR_FORMULAS,
+    ...ENDPOINT_FORMULAS,
   ],
   [
     ...CORE_CONSTANTS,

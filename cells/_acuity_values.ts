@@ -1,0 +1,100 @@
+/**
+ * Private helpers of the acuity, blur and endpoint cells: the `acuity` value type (shared
+ * by all three), quantities made when a formula runs (never at module load, so the import
+ * cycle through `language.ts` and `mod.ts` stays harmless), and column lookup in tables.
+ *
+ * @module
+ */
+
+import {
+  type Acuity,
+  type AcuityNotation,
+  formatAcuity,
+  parseAcuity,
+  readNotation,
+} from "../lib/acuity.ts";
+import { LentilInputError } from "../lib/errors.ts";
+import { getLanguage } from "./language.ts";
+import { type Column, tableInfo, type TableValue } from "./table.ts";
+import { defineValueType } from "./types.ts";
+
+/** An acuity as a value of the formula language; shown in its notation. */
+export class AcuityValue implements Acuity {
+  /** @param a the acuity record. */
+  constructor(a: Acuity) {
+    this.logMAR = a.logMAR;
+    this.notation = a.notation;
+    if (a.numerator !== undefined) this.numerator = a.numerator;
+    if (a.letters !== undefined) this.letters = a.letters;
+  }
+  /** logMAR. */
+  readonly logMAR: number;
+  /** Display notation. */
+  readonly notation: AcuityNotation;
+  /** Snellen numerator, if written as a fraction. */
+  readonly numerator?: number;
+  /** Letters added or missed on a Snellen line. */
+  readonly letters?: number;
+}
+
+/** The `acuity` value type. */
+export const ACUITY_TYPE = defineValueType<AcuityValue>({
+  name: "acuity",
+  summary: 'an acuity (acuity("6/9"), "20/40", "0.3 logMAR", "1.0" decimal, "85 letters")',
+  is: (x): x is AcuityValue => x instanceof AcuityValue,
+  fromText: (text) => new AcuityValue(parseAcuity(text)),
+  display: (a) => formatAcuity(a),
+  json: (a) => ({ ...a, decimal: 10 ** -a.logMAR, mar: 10 ** a.logMAR }),
+});
+
+/** Wrap an acuity record as a language value, optionally in another notation. */
+export function acuityValue(a: Acuity, notation?: string): AcuityValue {
+  return new AcuityValue(notation ? { logMAR: a.logMAR, notation: readNotation(notation) } : a);
+}
+
+/** A quantity of the formula language. */
+export function quantity(value: number, unit: string): unknown {
+  return getLanguage().quantity(value + 0, unit);
+}
+
+/**
+ * A column of `table` by name (case-insensitive), or else the first whose name is one of
+ * `fallbacks`, or else the first passing `accept`. `what` names the role in errors.
+ */
+export function findColumn(
+  table: TableValue,
+  what: string,
+  name: string | undefined,
+  fallbacks: readonly string[],
+  accept: (c: Column) => boolean = () => false,
+): Column {
+  const info = tableInfo(table);
+  const columns = info?.columns ?? Object.values(table);
+  const names = columns.map((c) => c.name).join(", ");
+  const byName = (n: string) => columns.find((c) => c.name.toLowerCase() === n.toLowerCase());
+  if (name) {
+    const c = byName(name);
+    if (!c) {
+      throw new LentilInputError(
+        `table ${info?.name ?? ""} has no column "${name}" for the ${what} (columns: ${names})`,
+      );
+    }
+    return c;
+  }
+  for (const f of fallbacks) {
+    const c = byName(f);
+    if (c) return c;
+  }
+  const c = columns.find(accept);
+  if (!c) {
+    throw new LentilInputError(
+      `name the ${what} column of table ${info?.name ?? ""} (columns: ${names})`,
+    );
+  }
+  return c;
+}
+
+/** The row count of a table value. */
+export function rowCount(table: TableValue): number {
+  return tableInfo(table)?.rowCount ?? Object.values(table)[0]?.length ?? 0;
+}
