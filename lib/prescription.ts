@@ -261,7 +261,7 @@ export function parsePrescription(text: string): Prescription {
       if (a?.kind !== "number") r.fail(`expected the add power after "add", e.g. add +2.00`, a);
       if (add !== undefined) r.fail("the add is written twice", a);
       add = power(r, a, "add", ADD_RANGE);
-    } else if (t.kind === "number" && isPrismNext(r)) {
+    } else if (t.kind === "number") {
       prisms.push(readPrismPart(r, eye));
     } else {
       r.fail(
