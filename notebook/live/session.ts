@@ -1,0 +1,694 @@
+/**
+ * One live editing session on one notebook file. Every edit replaces the text of a span of
+ * the file (an expression, a table's row lines, a new line in a calc block) and is then
+ * re-parsed, so what the user did not touch stays byte-for-byte; an edit to an existing
+ * cell goes through the reactive engine's `update`, which recomputes only what depends on
+ * it. Undo and redo are stacks of exact text states. Tables read from CSV keep their edits
+ * in memory and are written to their file only when their data was edited. Saving refuses
+ * to overwrite a file that changed on disk since it was read.
+ *
+ * @example
+ * ```ts ignore
+ * import { LiveSession } from "./session.ts";
+ * const s = await LiveSession.open("case.lentil.md");
+ * s.setExpression("spectacle", "-6.00 D").recomputed; // ["spectacle", "cornea"]
+ * await s.save();
+ * ```
+ *
+ * @module
+ */
+
+import { basename, dirname, join, resolve } from "node:path";
+import { parse as parseCsv } from "csv-parse/sync";
+import { stringify as stringifyCsv } from "csv-stringify/sync";
+import { Notebook } from "../engine/engine.ts";
+import { decodeNotebook } from "../format/read.ts";
+import { type NotebookDoc, parseNotebook, type TableBlock } from "../format/parse.ts";
+import { changedOnDisk, type Fingerprint, fingerprintOf, writeAtomic } from "./save.ts";
+import {
+  appendLineEdit,
+  applyEdit,
+  calcBlock,
+  expressionEdit,
+  lineEnding,
+  optionValueEdit,
+  tableRowsEdit,
+  type TextEdit,
+} from "./_splice.ts";
+import { bareName, insideFolder } from "./_paths.ts";
+import { PLAIN_RENDERERS } from "./_markup.ts";
+import {
+  buildPageView,
+  type CellView,
+  type PageView,
+  type PlotView,
+  type Renderers,
+  type TableText,
+  type TableView,
+} from "./_views.ts";
+
+/** Where the session stands. */
+export interface SessionStatus {
+  /** The notebook's file name. */
+  readonly file: string;
+  /** Unsaved changes exist. */
+  readonly dirty: boolean;
+  /** CSV files with unsaved edits. */
+  readonly dirtyFiles: readonly string[];
+  /** Undo is possible. */
+  readonly canUndo: boolean;
+  /** Redo is possible. */
+  readonly canRedo: boolean;
+}
+
+/** What changed on the page after an operation. */
+export interface Patch {
+  /** The whole page, when its block structure changed (then the lists below are empty). */
+  readonly full?: PageView;
+  /** Cells whose view changed. */
+  readonly cells: readonly CellView[];
+  /** Cells that no longer exist. */
+  readonly removed: readonly string[];
+  /** Tables whose view changed. */
+  readonly tables: readonly TableView[];
+  /** Plots whose view changed. */
+  readonly plots: readonly PlotView[];
+  /** Numbered sources, cautions and parse problems (always sent; small). */
+  readonly sources: PageView["sources"];
+  /** Cautions. */
+  readonly cautions: PageView["cautions"];
+  /** Parse problems. */
+  readonly problems: PageView["problems"];
+  /** Status after the operation. */
+  readonly status: SessionStatus;
+}
+
+/** The outcome of an edit. */
+export interface EditResult {
+  /** False when the edit was refused (nothing changed); `error` says why. */
+  readonly ok: boolean;
+  /** Why an edit was refused. */
+  readonly error?: string;
+  /** Node ids the engine recomputed, in order. */
+  readonly recomputed: readonly string[];
+  /** What to change on the page. */
+  readonly patch: Patch;
+}
+
+/** The outcome of a save. */
+export type SaveResult =
+  | { readonly ok: true; readonly written: readonly string[]; readonly status: SessionStatus }
+  | { readonly ok: false; readonly conflict: readonly string[]; readonly status: SessionStatus };
+
+/** An edit the session refuses; nothing was changed. */
+export class EditRefused extends Error {
+  /** @param message why. */
+  constructor(message: string) {
+    super(message);
+    this.name = "EditRefused";
+  }
+}
+
+interface CsvEntry {
+  /** Text as on disk when read (or last saved). */
+  disk: string;
+  /** Current text. */
+  text: string;
+  /** Byte-order mark on disk. */
+  bom: boolean;
+  /** Fingerprint of what was read. */
+  base?: Fingerprint;
+  bytes: Uint8Array;
+  mtime: number;
+}
+
+interface TextState {
+  readonly text: string;
+  readonly csv: ReadonlyMap<string, string>;
+}
+
+/** Undo keeps this many states. */
+const UNDO_LIMIT = 200;
+
+const BOM = new Uint8Array([0xef, 0xbb, 0xbf]);
+
+function stamp(d = new Date()): string {
+  const p = (n: number) => String(n).padStart(2, "0");
+  return `${d.getFullYear()}${p(d.getMonth() + 1)}${p(d.getDate())}-${p(d.getHours())}${
+    p(d.getMinutes())
+  }${p(d.getSeconds())}`;
+}
+
+/** A live editing session on one notebook file. */
+export class LiveSession {
+  #path: string;
+  #dir: string;
+  #text = "";
+  #bom = false;
+  #saved = "";
+  #base?: Fingerprint;
+  #doc!: NotebookDoc;
+  #nb!: Notebook;
+  #view!: PageView;
+  readonly #csv = new Map<string, CsvEntry>();
+  readonly #undo: TextState[] = [];
+  readonly #redo: TextState[] = [];
+  readonly #renderers: Renderers;
+
+  private constructor(path: string, renderers: Renderers) {
+    this.#path = path;
+    this.#dir = dirname(resolve(path));
+    this.#renderers = renderers;
+  }
+
+  /**
+   * Open a notebook file for editing.
+   *
+   * @example
+   * ```ts ignore
+   * const s = await LiveSession.open("case.lentil.md");
+   * ```
+   * @throws {Error} when the file cannot be read or is not valid UTF-8.
+   */
+  static async open(path: string, options: { renderers?: Renderers } = {}): Promise<LiveSession> {
+    const s = new LiveSession(path, options.renderers ?? PLAIN_RENDERERS);
+    await s.#readFromDisk();
+    return s;
+  }
+
+  async #readFromDisk(): Promise<void> {
+    const stat = await Deno.stat(this.#path);
+    const bytes = await Deno.readFile(this.#path);
+    const decoded = decodeNotebook(bytes, this.#path);
+    if (!decoded.ok) throw new Error(decoded.diagnostic.message);
+    this.#bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+    this.#text = decoded.text;
+    this.#saved = decoded.text;
+    this.#base = await fingerprintOf(bytes, stat);
+    this.#csv.clear();
+    this.#rebuild();
+    this.#view = this.#buildView();
+    await this.#settleCsv();
+  }
+
+  /** Fingerprint CSV files read since the last call. */
+  async #settleCsv(): Promise<void> {
+    for (const e of this.#csv.values()) {
+      e.base ??= await fingerprintOf(e.bytes, { mtime: e.mtime ? new Date(e.mtime) : null });
+    }
+  }
+
+  /** The notebook file being edited (as given, or the copy after "keep both"). */
+  get path(): string {
+    return this.#path;
+  }
+
+  /** The current text of the notebook. */
+  get text(): string {
+    return this.#text;
+  }
+
+  /** The current text of a CSV file the notebook reads, if it was read. */
+  csvText(rel: string): string | undefined {
+    return this.#csv.get(rel)?.text;
+  }
+
+  /** The evaluated notebook. */
+  get notebook(): Notebook {
+    return this.#nb;
+  }
+
+  /** The whole page as it stands. */
+  get view(): PageView {
+    return this.#view;
+  }
+
+  /** Status: dirty, undo, redo. */
+  status(): SessionStatus {
+    const dirtyFiles = [...this.#csv].filter(([, e]) => e.text !== e.disk).map(([k]) => k);
+    return {
+      file: basename(this.#path),
+      dirty: this.#text !== this.#saved || dirtyFiles.length > 0,
+      dirtyFiles,
+      canUndo: this.#undo.length > 0,
+      canRedo: this.#redo.length > 0,
+    };
+  }
+
+  #readCsv(rel: string): string {
+    const hit = this.#csv.get(rel);
+    if (hit) return hit.text;
+    const full = insideFolder(this.#dir, rel);
+    const bytes = Deno.readFileSync(full);
+    const mtime = Deno.statSync(full).mtime?.getTime() ?? 0;
+    const bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+    const text = new TextDecoder("utf-8", { ignoreBOM: true }).decode(
+      bom ? bytes.subarray(3) : bytes,
+    );
+    this.#csv.set(rel, { disk: text, text, bom, bytes, mtime });
+    return text;
+  }
+
+  #rebuild(): string[] {
+    this.#doc = parseNotebook(this.#text, this.#path);
+    this.#nb = new Notebook(this.#doc, { host: { readText: (rel) => this.#readCsv(rel) } });
+    return this.#nb.evaluateAll();
+  }
+
+  #tableText(block: TableBlock): TableText | undefined {
+    const file = block.options.file?.value;
+    if (!file) {
+      return {
+        columns: block.columns.map((c) => ({ name: c.name, spec: c.spec })),
+        rows: block.rows.map((r) => ({ cells: r.cells, line: r.line })),
+      };
+    }
+    const entry = this.#csv.get(file);
+    if (!entry) return undefined;
+    try {
+      const records = parseCsv(entry.text, {
+        info: true,
+        relax_column_count: true,
+        skip_empty_lines: true,
+      }) as unknown as { record: string[]; info: { lines: number } }[];
+      if (!records.length) return { columns: [], rows: [] };
+      const columns = records[0].record.map((h) => {
+        const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[([^\]]*)\])?\s*$/.exec(h);
+        return { name: m ? m[1] : h.trim(), spec: (m?.[2] ?? "").trim() };
+      });
+      const rows = records.slice(1).map((r) => ({
+        cells: r.record.map((c) => c.trim()),
+        line: r.info.lines,
+      }));
+      return { columns, rows };
+    } catch {
+      return undefined;
+    }
+  }
+
+  #buildView(): PageView {
+    return buildPageView(
+      this.#nb,
+      this.#doc,
+      basename(this.#path),
+      this.#renderers,
+      (b) => this.#tableText(b),
+    );
+  }
+
+  #snapshot(): TextState {
+    return { text: this.#text, csv: new Map([...this.#csv].map(([k, e]) => [k, e.text])) };
+  }
+
+  #restore(s: TextState): void {
+    this.#text = s.text;
+    for (const [k, t] of s.csv) {
+      const e = this.#csv.get(k);
+      if (e) e.text = t;
+    }
+  }
+
+  #push(): void {
+    this.#undo.push(this.#snapshot());
+    if (this.#undo.length > UNDO_LIMIT) this.#undo.shift();
+    this.#redo.length = 0;
+  }
+
+  /** Compare the page before and after, and describe what changed. */
+  #patch(before: PageView): Patch {
+    const after = this.#view = this.#buildView();
+    const common = {
+      sources: after.sources,
+      cautions: after.cautions,
+      problems: after.problems,
+      status: this.status(),
+    };
+    if (
+      JSON.stringify(before.blocks) !== JSON.stringify(after.blocks) || before.title !== after.title
+    ) {
+      return { full: after, cells: [], removed: [], tables: [], plots: [], ...common };
+    }
+    const differs = <T>(a: T | undefined, b: T) => JSON.stringify(a) !== JSON.stringify(b);
+    return {
+      cells: Object.values(after.cells).filter((c) => differs(before.cells[c.id], c)),
+      removed: Object.keys(before.cells).filter((id) => !after.cells[id]),
+      tables: Object.values(after.tables).filter((t) => differs(before.tables[t.name], t)),
+      plots: Object.values(after.plots).filter((p) => differs(before.plots[p.key], p)),
+      ...common,
+    };
+  }
+
+  /** Apply a text edit of the notebook as one undoable step, re-parse and re-evaluate. */
+  #commitText(edit: TextEdit, fast?: { id: string; expression: string }): EditResult {
+    const before = this.#view;
+    this.#push();
+    const oldDoc = this.#doc;
+    this.#text = applyEdit(this.#text, edit);
+    let recomputed: string[];
+    const doc = parseNotebook(this.#text, this.#path);
+    if (fast && this.#sameShape(oldDoc, doc, fast)) {
+      this.#doc = doc;
+      recomputed = this.#nb.update(fast.id, fast.expression);
+    } else {
+      recomputed = this.#rebuild();
+    }
+    return { ok: true, recomputed, patch: this.#patch(before) };
+  }
+
+  /** Whether only the one cell's expression changed, so the engine can update in place. */
+  #sameShape(a: NotebookDoc, b: NotebookDoc, fast: { id: string; expression: string }): boolean {
+    if (a.cells.length !== b.cells.length || a.blocks.length !== b.blocks.length) return false;
+    if (JSON.stringify(a.diagnostics) !== JSON.stringify(b.diagnostics)) return false;
+    if (!this.#nb.result(fast.id)) return false;
+    return a.cells.every((c, i) => {
+      const d = b.cells[i];
+      if (c.name !== d.name || c.table !== d.table || c.line !== d.line || c.note !== d.note) {
+        return false;
+      }
+      const id = c.table ? `${c.table}.${c.name}` : c.name;
+      return id === fast.id ? d.expression === fast.expression : c.expression === d.expression;
+    });
+  }
+
+  #cellDef(id: string) {
+    const r = this.#nb.result(id);
+    if (!r || r.kind === "table") throw new EditRefused(`no cell "${id}" to change`);
+    const cell = this.#doc.cells.find((c) => c.line === r.line);
+    if (!cell) throw new EditRefused(`no cell "${id}" to change`);
+    return cell;
+  }
+
+  /**
+   * Change the expression of a cell or computed column (an input's value or a formula).
+   * What was typed is kept even when it does not parse: the cell then shows the error.
+   *
+   * @example
+   * ```ts ignore
+   * session.setExpression("vd", "13 mm");
+   * ```
+   * @throws {EditRefused} when there is no such cell or the text spans lines.
+   */
+  setExpression(id: string, expression: string): EditResult {
+    if (/[\r\n]/.test(expression)) throw new EditRefused("an expression is one line");
+    const cell = this.#cellDef(id);
+    const expr = expression.trim();
+    if (expr === cell.expression) return this.#unchanged();
+    return this.#commitText(expressionEdit(cell.exprSpan, expr), { id, expression: expr });
+  }
+
+  #unchanged(): EditResult {
+    return { ok: true, recomputed: [], patch: this.#patch(this.#view) };
+  }
+
+  /**
+   * Append `name = expression` as a new line at the end of a calc block (by its index among
+   * the calc blocks). A line that is not `name = expression` is refused and nothing changes.
+   *
+   * @example
+   * ```ts ignore
+   * session.addCell(0, "near = 1 / 40 cm");
+   * ```
+   * @throws {EditRefused} when the block does not exist or the text spans lines.
+   */
+  addCell(blockIndex: number, line: string): EditResult {
+    if (/[\r\n]/.test(line)) throw new EditRefused("a cell is one line");
+    const block = calcBlock(this.#doc, blockIndex);
+    if (!block) throw new EditRefused(`no calc block number ${blockIndex + 1}`);
+    const trimmed = line.trim();
+    const edit = appendLineEdit(this.#text, block, trimmed);
+    const trial = parseNotebook(applyEdit(this.#text, edit), this.#path);
+    const grown = calcBlock(trial, blockIndex);
+    if (!trimmed || !grown || grown.cells.length !== block.cells.length + 1) {
+      return {
+        ok: false,
+        error: "expected `name = expression` (a note may follow after #)",
+        recomputed: [],
+        patch: this.#patch(this.#view),
+      };
+    }
+    return this.#commitText(edit);
+  }
+
+  /**
+   * Remove a cell's line.
+   *
+   * @example
+   * ```ts ignore
+   * session.deleteCell("near");
+   * ```
+   * @throws {EditRefused} when there is no such cell.
+   */
+  deleteCell(id: string): EditResult {
+    const cell = this.#cellDef(id);
+    let end = cell.span.end;
+    if (this.#text[end] === "\r") end++;
+    if (this.#text[end] === "\n") end++;
+    return this.#commitText({ start: cell.span.start, end, text: "" });
+  }
+
+  /**
+   * Give a table exactly these rows (cell text as typed). An inline table's row lines are
+   * rewritten, keeping unchanged rows' text; a CSV table's file text is replaced in memory
+   * and written on save.
+   *
+   * @example
+   * ```ts ignore
+   * session.setRows("trials", [["+1.00", "0.30"], ["+0.75", "0.20"]]);
+   * ```
+   * @throws {EditRefused} when there is no such table or it cannot be edited.
+   */
+  setRows(name: string, rows: readonly (readonly string[])[]): EditResult {
+    const block = this.#doc.tables.find((t) => t.name === name);
+    const view = this.#view.tables[name];
+    if (!block || !view) throw new EditRefused(`no table "${name}"`);
+    if (!view.editable) throw new EditRefused(`table ${name} cannot be edited: ${view.locked}`);
+    if (rows.some((r) => r.some((c) => /[\r\n]/.test(c)))) {
+      throw new EditRefused("a table cell is one line");
+    }
+    const clean = rows.map((r) => r.map((c) => c.trim()));
+    const file = block.options.file?.value;
+    if (!file) {
+      if (JSON.stringify(clean) === JSON.stringify(block.rows.map((r) => r.cells))) {
+        return this.#unchanged();
+      }
+      return this.#commitText(tableRowsEdit(this.#text, block, clean));
+    }
+    const entry = this.#csv.get(file)!;
+    const next = csvWithRows(entry.text, clean);
+    if (next === entry.text) return this.#unchanged();
+    const before = this.#view;
+    this.#push();
+    entry.text = next;
+    const recomputed = this.#rebuild();
+    return { ok: true, recomputed, patch: this.#patch(before) };
+  }
+
+  /**
+   * Step back one edit.
+   *
+   * @example
+   * ```ts ignore
+   * session.undo();
+   * ```
+   */
+  undo(): EditResult {
+    return this.#step(this.#undo, this.#redo);
+  }
+
+  /**
+   * Step forward again after an undo.
+   *
+   * @example
+   * ```ts ignore
+   * session.redo();
+   * ```
+   */
+  redo(): EditResult {
+    return this.#step(this.#redo, this.#undo);
+  }
+
+  #step(from: TextState[], to: TextState[]): EditResult {
+    const s = from.pop();
+    if (!s) return { ...this.#unchanged(), ok: false, error: "nothing to undo or redo" };
+    const before = this.#view;
+    to.push(this.#snapshot());
+    this.#restore(s);
+    const recomputed = this.#rebuild();
+    return { ok: true, recomputed, patch: this.#patch(before) };
+  }
+
+  /**
+   * Files that changed on disk since they were read or saved (the notebook, CSV files).
+   *
+   * @example
+   * ```ts ignore
+   * (await session.changedFiles()).length; // 0 while nobody else edits
+   * ```
+   */
+  async changedFiles(): Promise<string[]> {
+    await this.#settleCsv();
+    const out: string[] = [];
+    if (await changedOnDisk(this.#path, this.#base)) out.push(basename(this.#path));
+    for (const [rel, e] of this.#csv) {
+      if (await changedOnDisk(join(this.#dir, rel), e.base)) out.push(rel);
+    }
+    return out;
+  }
+
+  /**
+   * Write the notebook, and every CSV file whose data was edited, atomically with a backup.
+   * Refuses, writing nothing, when any of those files changed on disk since it was read.
+   *
+   * @example
+   * ```ts ignore
+   * const r = await session.save();
+   * if (!r.ok) console.log("changed on disk:", r.conflict);
+   * ```
+   */
+  async save(): Promise<SaveResult> {
+    const changed = await this.changedFiles();
+    const dirty = new Set(this.status().dirtyFiles);
+    const conflict = changed.filter((f) => f === basename(this.#path) || dirty.has(f));
+    if (conflict.length) return { ok: false, conflict, status: this.status() };
+    const written: string[] = [];
+    this.#base = await writeAtomic(this.#path, this.#bytes(this.#text, this.#bom));
+    this.#saved = this.#text;
+    written.push(basename(this.#path));
+    for (const rel of dirty) {
+      const e = this.#csv.get(rel)!;
+      e.base = await writeAtomic(insideFolder(this.#dir, rel), this.#bytes(e.text, e.bom));
+      e.disk = e.text;
+      written.push(rel);
+    }
+    return { ok: true, written, status: this.status() };
+  }
+
+  #bytes(text: string, bom: boolean): Uint8Array {
+    const body = new TextEncoder().encode(text);
+    if (!bom) return body;
+    const out = new Uint8Array(body.length + 3);
+    out.set(BOM);
+    out.set(body, 3);
+    return out;
+  }
+
+  /**
+   * Drop the page's edits and read the files again from disk. The state before is kept on
+   * the undo stack, so nothing typed is lost.
+   *
+   * @example
+   * ```ts ignore
+   * await session.reload();
+   * ```
+   */
+  async reload(): Promise<EditResult> {
+    const before = this.#view;
+    const kept = this.#snapshot();
+    await this.#readFromDisk();
+    this.#undo.push({ text: kept.text, csv: new Map() });
+    this.#redo.length = 0;
+    const patch = this.#patch(before);
+    return { ok: true, recomputed: [], patch };
+  }
+
+  /**
+   * Keep both versions: write the page's notebook (and its edited CSV files) as new files
+   * beside the originals, leave the originals as they are on disk, and go on editing the
+   * copy. Returns the copy's file name.
+   *
+   * @example
+   * ```ts ignore
+   * const { file } = await session.keepBoth();
+   * ```
+   * @throws {UnsafePathError} when `name` is not a plain `*.lentil.md` name.
+   * @throws {EditRefused} when a file of that name exists.
+   */
+  async keepBoth(name?: string): Promise<{ file: string; written: string[]; patch: Patch }> {
+    const stem = basename(this.#path).replace(/\.lentil\.md$/, "");
+    const tag = stamp();
+    const copyName = bareName(name ?? `${stem}.edited-${tag}.lentil.md`, ".lentil.md");
+    const copyPath = insideFolder(this.#dir, copyName);
+    const dirty = this.status().dirtyFiles;
+    const renames = new Map(
+      dirty.map((rel) => [rel, rel.replace(/(\.[^./]+)?$/, `.edited-${tag}$1`)]),
+    );
+    for (const p of [copyPath, ...[...renames.values()].map((r) => insideFolder(this.#dir, r))]) {
+      if (await exists(p)) throw new EditRefused(`${basename(p)} exists; choose another name`);
+    }
+    // Point the copy's tables at the CSV copies, last option first so offsets hold.
+    let text = this.#text;
+    const opts = this.#doc.tables.map((t) => t.options.file).filter((o) =>
+      o && renames.has(o.value)
+    )
+      .sort((a, b) => b!.line - a!.line);
+    for (const o of opts) text = applyEdit(text, optionValueEdit(text, o!, renames.get(o!.value)!));
+    const written: string[] = [];
+    for (const [rel, copy] of renames) {
+      const e = this.#csv.get(rel)!;
+      await writeAtomic(insideFolder(this.#dir, copy), this.#bytes(e.text, e.bom));
+      written.push(copy);
+    }
+    const before = this.#view;
+    this.#base = await writeAtomic(copyPath, this.#bytes(text, this.#bom));
+    written.unshift(copyName);
+    // Continue on the copy: its CSV copies hold the edited data; the originals are untouched.
+    for (const [rel, copy] of renames) {
+      const e = this.#csv.get(rel)!;
+      this.#csv.delete(rel);
+      this.#csv.set(copy, {
+        ...e,
+        disk: e.text,
+        base: undefined,
+        bytes: this.#bytes(e.text, e.bom),
+      });
+      const st = await Deno.stat(insideFolder(this.#dir, copy));
+      this.#csv.get(copy)!.mtime = st.mtime?.getTime() ?? 0;
+    }
+    this.#path = join(dirname(this.#path), copyName);
+    this.#text = text;
+    this.#saved = text;
+    this.#undo.length = 0;
+    this.#redo.length = 0;
+    this.#rebuild();
+    await this.#settleCsv();
+    return { file: copyName, written, patch: this.#patch(before) };
+  }
+
+  /**
+   * The text of a CSV file this notebook's tables read, by the name its `file:` option gives.
+   *
+   * @example
+   * ```ts ignore
+   * session.tableFile("trials.csv");
+   * ```
+   * @throws {UnsafePathError} for a name that could leave the folder.
+   * @throws {EditRefused} when no table reads that file.
+   */
+  tableFile(rel: string): string {
+    insideFolder(this.#dir, rel);
+    if (!this.#doc.tables.some((t) => t.options.file?.value === rel)) {
+      throw new EditRefused(`no table of this notebook reads "${rel}"`);
+    }
+    return this.#readCsv(rel);
+  }
+}
+
+async function exists(path: string): Promise<boolean> {
+  try {
+    await Deno.lstat(path);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** CSV text with its header line kept as written and the data rows replaced. */
+function csvWithRows(text: string, rows: readonly (readonly string[])[]): string {
+  const eol = lineEnding(text);
+  const nl = text.indexOf("\n");
+  const header = nl === -1 ? text : text.slice(0, text[nl - 1] === "\r" ? nl - 1 : nl);
+  const trailing = /\r?\n$/.test(text) || nl === -1;
+  const body = rows.length ? stringifyCsv(rows as string[][], { record_delimiter: eol }) : "";
+  const joined = header + eol + body;
+  return trailing ? joined : joined.replace(/\r?\n$/, "");
+}
