@@ -351,9 +351,13 @@ export function formatSnellen(a: Acuity, unit: "ft" | "m", numerator?: number): 
  * ```
  */
 export function formatDecimal(v: number): string {
-  v = onDecimalStep(v) ?? v;
+  const step = onDecimalStep(v);
+  if (step !== undefined && step < 0.1) return String(step);
+  if (step !== undefined && step >= 0.1) v = step;
   if (v < 0.1) return shortNumber(v, 2);
-  if (Math.abs(v * 100 - Math.round(v * 100)) > 1e-9) return shortNumber(v, 3);
+  if (step !== undefined && Math.abs(step * 100 - Math.round(step * 100)) > 1e-9) {
+    return String(step); // 0.125
+  }
   const s = v.toFixed(2);
   return s.endsWith("0") ? s.slice(0, -1) : s;
 }
