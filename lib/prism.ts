@@ -183,7 +183,7 @@ function prismFromMatrix(f: PowerMatrix, point: Offset, eye: Eye): Prism {
  * @example
  * ```ts
  * import { prismAt } from "./prism.ts";
- * prismAt({ sphere: -5, cylinder: 0, axis: 180 }, 4, 0, "R"); // { horizontal: -2, vertical: 0 } (2 Δ base out)
+ * prismAt({ sphere: -5, cylinder: 0, axis: 180 }, 4, 0, "R"); // { horizontal: 2, vertical: 0 } (2 Δ base in)
  * ```
  * @throws {LentilRangeError} for a point more than 40 mm from the optical centre.
  */
