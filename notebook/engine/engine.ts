@@ -19,14 +19,14 @@
 
 import type { MathNode } from "mathjs";
 import { getLanguage, type Language, LENTIL_UNITS } from "../../cells/language.ts";
-import { addColumn, Column, makeTable, tableInfo, type TableValue } from "../../cells/table.ts";
-import { DEFAULT_DISPLAY, type DisplayOptions, typeOfValue } from "../../cells/types.ts";
+import { addColumn, type Column, makeTable, tableInfo, type TableValue } from "../../cells/table.ts";
+import { DEFAULT_DISPLAY, type DisplayOptions } from "../../cells/types.ts";
 import { listSources } from "../../shared/sources.ts";
 import type { Diagnostic } from "../format/diagnostic.ts";
 import { type CellDef, type NotebookDoc, parseNotebook, type TableBlock } from "../format/parse.ts";
 import { analyse, type Analysis, type TableShape } from "./_analyse.ts";
 import { DependencyGraph } from "./graph.ts";
-import { RowScope } from "./_scope.ts";
+import { planColumn } from "./_columns.ts";
 import { buildTable, type RawTable, readRawTable, type TableHost } from "./_tables.ts";
 
 /** Why a node has no value. */
@@ -115,6 +115,8 @@ interface NodeDef {
   exprError?: CellError;
   raw?: RawTable;
   built?: { columns: readonly Column[]; excluded: number; file?: string };
+  /** How a computed column was last evaluated. */
+  columnPath?: { path: "compiled" | "row-wise"; reason?: string };
 }
 
 interface NodeState {
@@ -510,27 +512,33 @@ export class Notebook {
 
   #evaluateColumn(n: NodeDef, table: TableValue): Column {
     const info = tableInfo(table)!;
-    const rows = info.rowCount;
-    const scope = new RowScope(this.#scope);
     const cols = info.columns.filter((c) => c.name !== n.name);
-    const out: unknown[] = new Array(rows);
-    for (let i = 0; i < rows; i++) {
-      for (const c of cols) {
-        const v = c.data[i];
-        scope.row.set(
-          c.name,
-          c.type === "quantity" && typeof v === "number" ? this.#lang.quantity(v, c.unit) : v,
-        );
-      }
-      try {
-        out[i] = n.compiled!.evaluate(scope);
-      } catch (e) {
-        const err = e as Error;
-        err.message = `row ${i + 1}: ${err.message}`;
-        throw err;
-      }
-    }
-    return toColumn(n.name, out, this.#lang);
+    const plan = planColumn(
+      n.name,
+      n.analysis!.node as MathNode,
+      n.compiled!,
+      cols,
+      this.#scope,
+      this.#lang,
+    );
+    const { column, path } = plan.run(cols, info.rowCount);
+    n.columnPath = { path, reason: plan.reason };
+    return column;
+  }
+
+  /**
+   * How a computed column was last evaluated: `"compiled"` (a loop over column arrays) or
+   * `"row-wise"` (through the formula language), with the reason it did not compile.
+   *
+   * @example
+   * ```ts
+   * import { Notebook } from "./engine.ts";
+   * const nb = Notebook.fromText("~~~table t\nx [D]\n1\n~~~\n~~~calc\nt.y = x * 2\n~~~\n", "a.lentil.md");
+   * nb.columnPath("t.y")?.path; // "compiled"
+   * ```
+   */
+  columnPath(id: string): { path: "compiled" | "row-wise"; reason?: string } | undefined {
+    return this.#nodes.get(id)?.columnPath;
   }
 
   #explain(e: Error, n: NodeDef, where: { line: number; col: number }): CellError {
@@ -658,27 +666,4 @@ export class Notebook {
 
 function isLiteralExpr(expression: string): boolean {
   return parseNotebook("```calc\nx = " + expression + "\n```\n", "_").cells[0]?.input ?? false;
-}
-
-/** Pack per-row results into a column: numbers and quantities into a Float64Array. */
-function toColumn(name: string, values: unknown[], lang: Language): Column {
-  if (values.length === 0) return new Column(name, "number", "", new Float64Array());
-  if (values.every((v) => typeof v === "number")) {
-    return new Column(name, "number", "", Float64Array.from(values as number[]));
-  }
-  const first = lang.quantityParts(values[0]);
-  if (first) {
-    const data = new Float64Array(values.length);
-    let ok = true;
-    for (let i = 0; i < values.length && ok; i++) {
-      try {
-        data[i] = lang.toNumberIn(values[i], first.unit);
-      } catch {
-        ok = false;
-      }
-    }
-    if (ok) return new Column(name, first.unit ? "quantity" : "number", first.unit, data);
-  }
-  const t = typeOfValue(values[0]);
-  return new Column(name, t?.name ?? (typeof values[0] === "string" ? "text" : "any"), "", values);
 }
