@@ -172,22 +172,19 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
       };
     },
   }),
-  defineFormula({
-    ...THICKNESS_COMMON,
-    name: "centreThickness",
-    summary: "Centre thickness of a spherocylindrical lens (thin-lens estimate).",
-    returns: { type: "quantity", unit: "mm", doc: "centre thickness" },
-    example: 'centreThickness(rx("+4.00 DS"), 1.5, 60 mm, 1 mm)',
-    fn: (r, n, d, t, f) => thickness(r, n, d, t, f).centre,
-  }),
-  defineFormula({
-    ...THICKNESS_COMMON,
-    name: "edgeThickness",
-    summary: "Thickest edge of a spherocylindrical lens (thin-lens estimate).",
-    returns: { type: "quantity", unit: "mm", doc: "thickest edge" },
-    example: 'edgeThickness(rx("-6.00 DS"), 1.67, 60 mm, 1.5 mm)',
-    fn: (r, n, d, t, f) => thickness(r, n, d, t, f).edgeThick,
-  }),
+  ...([
+    ["centreThickness", "centre", "Centre thickness", 'rx("+4.00 DS"), 1.5, 60 mm, 1 mm'],
+    ["edgeThickness", "edgeThick", "Thickest edge", 'rx("-6.00 DS"), 1.67, 60 mm, 1.5 mm'],
+  ] as const).map(([name, key, what, args]) =>
+    defineFormula({
+      ...THICKNESS_COMMON,
+      name,
+      summary: `${what} of a spherocylindrical lens (thin-lens estimate).`,
+      returns: { type: "quantity", unit: "mm", doc: what.toLowerCase() },
+      example: `${name}(${args})`,
+      fn: (r, n, d, t, f) => thickness(r, n, d, t, f)[key],
+    })
+  ),
   defineFormula({
     name: "thicknessByIndex",
     group: "thickness",
