@@ -9,6 +9,7 @@ import { runCommand } from "./run.ts";
 import { checkCommand } from "./check.ts";
 import { evalCommand } from "./eval.ts";
 import { newCommand } from "./new.ts";
+import { exportCommand } from "./export.ts";
 import { formulasCommand } from "./formulas.ts";
 
 /** The commands. */
@@ -17,5 +18,6 @@ export const COMMANDS: readonly Command[] = [
   checkCommand,
   evalCommand,
   newCommand,
+  exportCommand,
   formulasCommand,
 ];

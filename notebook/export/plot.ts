@@ -1,0 +1,400 @@
+/**
+ * Plot blocks: what their options mean, and their rendering to inline SVG on the server
+ * with `@observablehq/plot` and a `linkedom` document (no browser, no script in the page).
+ *
+ * ````text
+ * ```plot focus
+ * kind: curve
+ * table: trials
+ * x-axis: lens
+ * y-axis: va
+ * mark: ep          # a cell: its endpoint is marked
+ * fit: ep           # a cell: its fitted curve is drawn dashed
+ * invert-y: yes     # smaller logMAR (better acuity) higher up
+ * title: Acuity through focus
+ * ```
+ * ````
+ *
+ * Kinds:
+ * - `curve`: a line through the rows in order of `x`, with a dot on each; `mark` (a
+ *   cell) marks a point or a power, `fit` (a cell) draws the fitted curve it holds;
+ * - `scatter`: one dot a row; `ellipse` (a cell) draws the outline it holds;
+ * - `histogram`: counts of `x` in `bins` bins;
+ * - `agreement`: a difference plot, `x` the mean of two methods and `y` their difference
+ *   (columns the notebook computes); `limits` (a cell) draws the bias and the limits of
+ *   agreement, else a line at zero.
+ *
+ * Every kind takes `title`, `caption`, `x-label`, `y-label`, `group` (a column that colours
+ * the dots) and `invert-y`. (Option keys have two letters or more: the axes are `x-axis`
+ * and `y-axis`.) Plot values are read from cells and columns; nothing is
+ * computed here.
+ *
+ * @example
+ * ```ts
+ * import { Notebook } from "../engine/engine.ts";
+ * import { renderPlot } from "./plot.ts";
+ * const nb = Notebook.fromText(
+ *   "```table t\nx | y\n1 | 2\n2 | 3\n```\n\n```plot\nkind: scatter\ntable: t\nx-axis: x\ny-axis: y\n```\n",
+ *   "p.lentil.md",
+ * );
+ * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;
+ * renderPlot(block, nb).svg.startsWith("<svg"); // true
+ * ```
+ *
+ * @module
+ */
+
+import * as Plot from "@observablehq/plot";
+import { parseHTML } from "linkedom";
+import type { Notebook } from "../engine/engine.ts";
+import type { OptionDef, PlotBlock } from "../format/parse.ts";
+import type { Diagnostic } from "../format/diagnostic.ts";
+import { type Column, tableInfo } from "../../cells/table.ts";
+import { formatNumber } from "../../cells/display.ts";
+import { limitsOf, markOf, pointsOf, type XY } from "./_plot_values.ts";
+
+/** The kinds of plot. */
+export const PLOT_KINDS = ["curve", "scatter", "histogram", "agreement"] as const;
+
+/** A kind of plot. */
+export type PlotKind = typeof PLOT_KINDS[number];
+
+/** Every option key a plot block accepts, with what it means. */
+export const PLOT_OPTIONS: Readonly<Record<string, string>> = {
+  kind: `one of ${PLOT_KINDS.join(", ")}`,
+  table: "the table whose rows are plotted",
+  "x-axis": "column for the horizontal axis",
+  "y-axis": "column for the vertical axis (not for histogram)",
+  title: "heading above the plot",
+  caption: "text below the plot",
+  "x-label": "label of the horizontal axis (default: the column and its unit)",
+  "y-label": "label of the vertical axis",
+  group: "column whose values colour the dots",
+  mark: "cell whose value marks a point or a power (curve)",
+  fit: "cell holding fitted curve points, drawn dashed (curve)",
+  ellipse: "cell holding an outline, e.g. a confidence ellipse (scatter)",
+  limits: "cell holding the bias and limits of agreement (agreement)",
+  bins: "number of bins (histogram)",
+  "invert-y": "yes to put smaller values at the top (logMAR: better acuity up)",
+};
+
+/** Largest number of dots drawn; beyond it every k-th row is drawn and the caption says so. */
+export const MAX_PLOT_POINTS = 4000;
+
+/** A rendered plot block. */
+export interface RenderedPlot {
+  /** The block's name, or `plot-LINE`. */
+  readonly name: string;
+  /** Title text (unescaped), if any. */
+  readonly title?: string;
+  /** Caption text (unescaped), including a note when rows were thinned. */
+  readonly caption?: string;
+  /** The SVG (or Plot's figure around it) markup; "" when the block has an error. */
+  readonly svg: string;
+  /** Problems with the block: with an error, no plot is drawn. */
+  readonly problems: readonly Diagnostic[];
+}
+
+const INK = "#1d3557";
+const ACCENT = "#c0392b";
+const FIT = "#2a9d8f";
+
+interface Ctx {
+  readonly block: PlotBlock;
+  readonly nb: Notebook;
+  readonly problems: Diagnostic[];
+}
+
+function problem(ctx: Ctx, message: string, o?: OptionDef): void {
+  ctx.problems.push({
+    file: ctx.nb.doc.file,
+    line: o?.line ?? ctx.block.line,
+    col: o?.col ?? 1,
+    message: `plot ${ctx.block.name ?? `at line ${ctx.block.line}`}: ${message}`,
+    severity: "error",
+  });
+}
+
+function opt(ctx: Ctx, key: string): string | undefined {
+  const v = ctx.block.options[key]?.value;
+  return v === undefined || v === "" ? undefined : v;
+}
+
+function columnOf(ctx: Ctx, columns: readonly Column[], key: string, numeric: boolean) {
+  const name = opt(ctx, key);
+  const o = ctx.block.options[key];
+  if (!name) return undefined;
+  const c = columns.find((col) => col.name === name);
+  if (!c) {
+    problem(
+      ctx,
+      `no column "${name}" for ${key} (columns: ${columns.map((k) => k.name).join(", ")})`,
+      o,
+    );
+    return undefined;
+  }
+  if (numeric && !c.numeric) problem(ctx, `column "${name}" for ${key} is not numeric`, o);
+  return c;
+}
+
+function cellJson(ctx: Ctx, key: string): unknown {
+  const name = opt(ctx, key);
+  if (!name) return undefined;
+  const o = ctx.block.options[key];
+  const r = ctx.nb.result(name);
+  if (!r) {
+    problem(ctx, `no cell named "${name}" for ${key}`, o);
+    return undefined;
+  }
+  if (r.error) {
+    problem(ctx, `cell "${name}" for ${key} has an error: ${r.error.message}`, o);
+    return undefined;
+  }
+  return ctx.nb.language.describe(r.value, ctx.nb.display).value;
+}
+
+function axisLabel(ctx: Ctx, axis: "x" | "y", c: Column | undefined): string | undefined {
+  const given = opt(ctx, `${axis}-label`);
+  if (given) return given;
+  return c ? (c.unit ? `${c.name} [${c.unit}]` : c.name) : undefined;
+}
+
+function yes(ctx: Ctx, key: string): boolean {
+  const v = opt(ctx, key)?.toLowerCase();
+  if (v === undefined) return false;
+  if (["yes", "true", "on"].includes(v)) return true;
+  if (!["no", "false", "off"].includes(v)) {
+    problem(ctx, `${key}: expected yes or no, got "${v}"`, ctx.block.options[key]);
+  }
+  return false;
+}
+
+type PlotDocument = NonNullable<Plot.PlotOptions["document"]>;
+
+let doc: PlotDocument | undefined;
+function svgDocument(): PlotDocument {
+  doc ??= (parseHTML("<!doctype html><html><head></head><body></body></html>") as unknown as {
+    document: PlotDocument;
+  }).document;
+  return doc;
+}
+
+/** Rows as records for Plot, thinned to at most MAX_PLOT_POINTS. */
+function rowsOf(columns: (Column | undefined)[], rowCount: number) {
+  const step = Math.max(1, Math.ceil(rowCount / MAX_PLOT_POINTS));
+  const out: Record<string, unknown>[] = [];
+  for (let i = 0; i < rowCount; i += step) {
+    const r: Record<string, unknown> = {};
+    for (const c of columns) if (c) r[c.name] = c.data[i];
+    out.push(r);
+  }
+  return { rows: out, step };
+}
+
+/**
+ * The problems of a plot block without drawing it: unknown keys, a missing table, column or
+ * cell, a kind that does not exist.
+ *
+ * @example
+ * ```ts
+ * import { Notebook } from "../engine/engine.ts";
+ * import { plotProblems } from "./plot.ts";
+ * const nb = Notebook.fromText("```plot\nkind: pie\n```\n", "p.lentil.md");
+ * plotProblems(nb.doc.blocks[0] as never, nb)[0].message.includes("kind"); // true
+ * ```
+ */
+export function plotProblems(block: PlotBlock, nb: Notebook): Diagnostic[] {
+  return [...renderPlot(block, nb).problems];
+}
+
+/**
+ * Render one plot block to SVG markup. User text (titles, labels, values) reaches the SVG
+ * only as text content, escaped by the serialiser.
+ *
+ * @example
+ * ```ts
+ * import { Notebook } from "../engine/engine.ts";
+ * import { renderPlot } from "./plot.ts";
+ * const nb = Notebook.fromText(
+ *   "```table t\nv [D]\n1\n2\n2\n```\n\n```plot h\nkind: histogram\ntable: t\nx-axis: v\n```\n",
+ *   "h.lentil.md",
+ * );
+ * renderPlot(nb.doc.blocks[1] as never, nb).problems.length; // 0
+ * ```
+ */
+export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
+  const ctx: Ctx = { block, nb, problems: [] };
+  const name = block.name ?? `plot-${block.line}`;
+  const title = opt(ctx, "title");
+  let caption = opt(ctx, "caption");
+  const none = (): RenderedPlot => ({ name, title, caption, svg: "", problems: ctx.problems });
+  for (const [key, o] of Object.entries(block.options)) {
+    if (!(key in PLOT_OPTIONS)) {
+      problem(ctx, `unknown option "${key}" (known: ${Object.keys(PLOT_OPTIONS).join(", ")})`, o);
+    }
+  }
+  const kind = opt(ctx, "kind") as PlotKind | undefined;
+  if (!kind || !(PLOT_KINDS as readonly string[]).includes(kind)) {
+    problem(
+      ctx,
+      kind
+        ? `kind "${kind}" is not one of ${PLOT_KINDS.join(", ")}`
+        : `needs \`kind:\` (${PLOT_KINDS.join(", ")})`,
+      block.options.kind,
+    );
+    return none();
+  }
+  const tableName = opt(ctx, "table");
+  if (!tableName) {
+    problem(ctx, "needs `table:` naming the table to plot");
+    return none();
+  }
+  const tr = nb.result(tableName);
+  const info = tr && !tr.error ? tableInfo(tr.value) : undefined;
+  if (!info) {
+    problem(
+      ctx,
+      tr?.error
+        ? `table ${tableName} has an error: ${tr.error.message}`
+        : `no table "${tableName}"`,
+      block.options.table,
+    );
+    return none();
+  }
+  if (!opt(ctx, "x-axis")) problem(ctx, "needs `x-axis:` naming a column");
+  if (kind !== "histogram" && !opt(ctx, "y-axis")) {
+    problem(ctx, "needs `y-axis:` naming a column");
+  }
+  const xc = columnOf(ctx, info.columns, "x-axis", true);
+  const yc = kind === "histogram" ? undefined : columnOf(ctx, info.columns, "y-axis", true);
+  const gc = columnOf(ctx, info.columns, "group", false);
+  const invert = yes(ctx, "invert-y");
+  const markV = kind === "curve" ? cellJson(ctx, "mark") : undefined;
+  const fitV = kind === "curve" ? cellJson(ctx, "fit") : undefined;
+  const ellipseV = kind === "scatter" ? cellJson(ctx, "ellipse") : undefined;
+  const limitsV = kind === "agreement" ? cellJson(ctx, "limits") : undefined;
+  for (const [key, kinds] of Object.entries(KIND_ONLY)) {
+    if (block.options[key] && !kinds.includes(kind)) {
+      problem(ctx, `${key} applies to ${kinds.join(", ")} plots, not ${kind}`, block.options[key]);
+    }
+  }
+  let bins: number | undefined;
+  if (opt(ctx, "bins")) {
+    bins = Number(opt(ctx, "bins"));
+    if (!Number.isInteger(bins) || bins < 1 || bins > 500) {
+      problem(ctx, `bins: expected a whole number from 1 to 500`, block.options.bins);
+    }
+  }
+  const mark = markV === undefined ? undefined : markOf(markV);
+  if (markV !== undefined && !mark) problem(ctx, "mark: the cell holds no point or power");
+  const fit = fitV === undefined ? undefined : pointsOf(fitV);
+  if (fitV !== undefined && !fit) problem(ctx, "fit: the cell holds no curve points");
+  const ring = ellipseV === undefined ? undefined : pointsOf(ellipseV);
+  if (ellipseV !== undefined && !ring) problem(ctx, "ellipse: the cell holds no outline points");
+  const limits = limitsV === undefined ? undefined : limitsOf(limitsV);
+  if (limitsV !== undefined && !limits) problem(ctx, "limits: the cell holds no limits");
+  if (ctx.problems.some((p) => p.severity === "error") || !xc) return none();
+
+  const { rows, step } = rowsOf([xc, yc, gc], info.rowCount);
+  if (step > 1 && kind !== "histogram") {
+    const note = `Every ${step}th of ${info.rowCount.toLocaleString("en")} rows drawn.`;
+    caption = caption ? `${caption} ${note}` : note;
+  }
+  const x = xc.name;
+  const y = yc?.name;
+  const dotColour = gc ? gc.name : INK;
+  const marks: Plot.Markish[] = [];
+  const num = (v: number) => formatNumber(v);
+  if (kind === "curve") {
+    marks.push(
+      Plot.line(rows, { x, y, sort: { channel: "x" }, stroke: gc ? gc.name : INK, z: gc?.name }),
+      Plot.dot(rows, { x, y, fill: dotColour, r: 3 }),
+    );
+    if (fit) {
+      marks.push(Plot.line(fit, { x: "x", y: "y", stroke: FIT, strokeDasharray: "5 4" }));
+    }
+    if (mark) {
+      const label = `${opt(ctx, "mark")} ${num(mark.x)}`;
+      marks.push(Plot.ruleX([mark.x], { stroke: ACCENT, strokeDasharray: "3 3" }));
+      if (mark.y !== undefined) {
+        marks.push(
+          Plot.dot([mark], { x: "x", y: "y", r: 7, stroke: ACCENT, strokeWidth: 2 }),
+          Plot.text([mark], {
+            x: "x",
+            y: "y",
+            text: () => label,
+            dy: invert ? 16 : -14,
+            fill: ACCENT,
+          }),
+        );
+      } else {
+        marks.push(Plot.text([mark.x], { x: (d) => d, frameAnchor: "top", text: () => label }));
+      }
+    }
+  } else if (kind === "scatter") {
+    marks.push(Plot.dot(rows, { x, y, fill: dotColour, r: 2.5, fillOpacity: 0.7 }));
+    if (ring) {
+      const closed: XY[] = [...ring, ring[0]];
+      marks.push(Plot.line(closed, { x: "x", y: "y", stroke: ACCENT, strokeWidth: 1.5 }));
+    }
+  } else if (kind === "histogram") {
+    marks.push(
+      Plot.rectY(rows, {
+        ...Plot.binX({ y: "count" }, { x, ...(bins ? { thresholds: bins } : {}) }),
+        fill: INK,
+        inset: 0.5,
+      }),
+      Plot.ruleY([0]),
+    );
+  } else {
+    marks.push(Plot.dot(rows, { x, y, fill: dotColour, r: 2.5, fillOpacity: 0.7 }));
+    if (limits) {
+      const lines = [
+        ...(limits.bias !== undefined
+          ? [{ y: limits.bias, label: `bias ${num(limits.bias)}`, dash: "" }]
+          : []),
+        { y: limits.lower, label: `lower limit ${num(limits.lower)}`, dash: "6 4" },
+        { y: limits.upper, label: `upper limit ${num(limits.upper)}`, dash: "6 4" },
+      ];
+      for (const l of lines) {
+        marks.push(
+          Plot.ruleY([l.y], { stroke: ACCENT, strokeDasharray: l.dash || undefined }),
+          Plot.text([l], {
+            y: "y",
+            text: "label",
+            frameAnchor: "right",
+            textAnchor: "end",
+            dy: -6,
+            fill: ACCENT,
+          }),
+        );
+      }
+    } else marks.push(Plot.ruleY([0], { stroke: "#888" }));
+  }
+  const el = Plot.plot({
+    document: svgDocument(),
+    width: 640,
+    height: kind === "histogram" ? 320 : 380,
+    marginLeft: 56,
+    marginRight: 24,
+    grid: true,
+    style: { fontSize: "12px", background: "white", color: "#222" },
+    x: { label: axisLabel(ctx, "x", xc) },
+    y: {
+      label: kind === "histogram" ? (opt(ctx, "y-label") ?? "count") : axisLabel(ctx, "y", yc),
+      reverse: invert,
+    },
+    color: gc ? { legend: true, type: gc.numeric ? "linear" : "categorical" } : undefined,
+    marks,
+  }) as unknown as { outerHTML: string };
+  return { name, title, caption, svg: el.outerHTML, problems: ctx.problems };
+}
+
+/** Options that apply only to some kinds. */
+const KIND_ONLY: Readonly<Record<string, readonly PlotKind[]>> = {
+  mark: ["curve"],
+  fit: ["curve"],
+  ellipse: ["scatter"],
+  limits: ["agreement"],
+  bins: ["histogram"],
+};

@@ -1,0 +1,103 @@
+/**
+ * The exported page's stylesheet: screen and print (A4 and US Letter), system fonts only,
+ * nothing fetched. Class names are those {@linkcode renderNotebookBody} writes.
+ *
+ * @example
+ * ```ts
+ * import { EXPORT_CSS } from "./style.ts";
+ * EXPORT_CSS.includes("@media print"); // true
+ * ```
+ *
+ * @module
+ */
+
+/** Screen and print CSS for an exported notebook. */
+export const EXPORT_CSS = `
+:root {
+  --ink: #1b1f24; --muted: #5b6470; --rule: #d4d9df; --paper: #ffffff;
+  --band: #f4f6f8; --accent: #1d3557; --warn-bg: #fff7e0; --warn: #8a5a00; --bad: #a4161a;
+  color-scheme: light;
+}
+* { box-sizing: border-box; }
+html { background: var(--paper); color: var(--ink); }
+body {
+  margin: 0 auto; max-width: 54rem; padding: 2rem 1.5rem 3rem;
+  font: 16px/1.5 system-ui, -apple-system, "Segoe UI", Roboto, "Noto Sans", "Liberation Sans",
+    Arial, sans-serif;
+}
+code, pre, .lx-expr, .lx-csv {
+  font-family: ui-monospace, "SFMono-Regular", Menlo, Consolas, "DejaVu Sans Mono",
+    "Liberation Mono", monospace;
+  font-size: 0.9em;
+}
+h1, h2, h3 { line-height: 1.2; margin: 1.6em 0 0.5em; }
+h1 { font-size: 1.8rem; }
+h2 { font-size: 1.35rem; }
+a { color: var(--accent); }
+.lx-head { border-bottom: 2px solid var(--accent); margin-bottom: 1.5rem; padding-bottom: 0.5rem; }
+.lx-head h1 { margin: 0 0 0.25rem; }
+.lx-meta { color: var(--muted); margin: 0; font-size: 0.92rem; }
+.lx-meta span + span::before { content: " · "; }
+.lx-prose img { max-width: 100%; }
+.lx-image-ref { color: var(--muted); }
+.lx-calc, .lx-table-block { margin: 1rem 0; }
+table { border-collapse: collapse; width: 100%; font-size: 0.92rem; }
+th, td { text-align: left; padding: 0.3rem 0.5rem; border-bottom: 1px solid var(--rule);
+  vertical-align: top; }
+thead th { border-bottom: 2px solid var(--ink); }
+.lx-cells { background: var(--band); border-radius: 4px; }
+.lx-cells td.lx-name { font-weight: 600; white-space: nowrap; width: 1%; }
+.lx-cells td.lx-formula { width: 45%; }
+.lx-cells .lx-expr { display: block; color: var(--muted); overflow-wrap: break-word; }
+.lx-cells .lx-note { display: block; color: var(--muted); font-style: italic; font-size: 0.88em; }
+.lx-cells td.lx-value { font-weight: 600; overflow-wrap: break-word; }
+.lx-cells tr.lx-input td.lx-value { font-weight: 400; }
+.lx-error { color: var(--bad); font-weight: 600; white-space: normal; }
+sup.lx-fn { font-size: 0.72em; margin-left: 0.15em; }
+sup.lx-fn a { text-decoration: none; }
+.lx-flag { color: var(--warn); font-weight: 700; margin-left: 0.2em; }
+table.lx-data-table { width: auto; min-width: 50%; }
+table.lx-data-table th, table.lx-data-table td { padding: 0.2rem 0.9rem; }
+td.lx-num, th.lx-num { text-align: right; font-variant-numeric: tabular-nums; }
+.lx-table-cap { color: var(--muted); font-size: 0.88rem; margin: 0.3rem 0; }
+.lx-table-name { font-weight: 600; color: var(--ink); }
+details.lx-data summary { cursor: pointer; color: var(--accent); }
+pre.lx-csv { background: var(--band); padding: 0.5rem; overflow: auto; max-height: 24rem; }
+figure.lx-plot { margin: 1.5rem 0; break-inside: avoid; page-break-inside: avoid; }
+figure.lx-plot svg { max-width: 100%; height: auto; }
+figure.lx-plot figcaption { color: var(--muted); font-size: 0.88rem; }
+figure.lx-plot .lx-plot-title { font-weight: 600; color: var(--ink); margin-bottom: 0.3rem; }
+.lx-problem { border-left: 4px solid var(--bad); padding: 0.4rem 0.8rem; background: #fdecea; }
+aside.lx-cautions {
+  background: var(--warn-bg); border-left: 4px solid var(--warn); padding: 0.6rem 1rem;
+  margin: 1rem 0; font-size: 0.92rem; break-inside: avoid; page-break-inside: avoid;
+}
+aside.lx-cautions h2, aside.lx-cautions p.lx-cautions-title {
+  margin: 0 0 0.3rem; font-size: 1rem; color: var(--warn); font-weight: 700;
+}
+aside.lx-cautions ul { margin: 0; padding-left: 1.2rem; }
+section.lx-sources ol { padding-left: 1.6rem; }
+section.lx-sources li { margin-bottom: 0.35rem; }
+.lx-mark { display: inline-block; font-size: 0.78rem; padding: 0 0.4rem; margin-left: 0.3rem;
+  border: 1px solid var(--warn); color: var(--warn); border-radius: 3px; }
+footer.lx-foot { margin-top: 2.5rem; border-top: 1px solid var(--rule); padding-top: 0.6rem;
+  color: var(--muted); font-size: 0.82rem; }
+footer.lx-foot dl { display: grid; grid-template-columns: max-content 1fr; gap: 0.1rem 1rem;
+  margin: 0; }
+footer.lx-foot dt { font-weight: 600; }
+footer.lx-foot dd { margin: 0; overflow-wrap: anywhere; }
+
+@page { size: auto; margin: 16mm 14mm; }
+@media print {
+  html, body { background: #fff; }
+  body { max-width: none; padding: 0; font-size: 10.5pt; }
+  a { color: inherit; text-decoration: none; }
+  h1, h2, h3 { break-after: avoid; page-break-after: avoid; }
+  table, tr, figure, aside { break-inside: avoid; page-break-inside: avoid; }
+  thead { display: table-header-group; }
+  .lx-cells { background: none; }
+  details.lx-data { display: none; }
+  figure.lx-plot svg { max-height: 110mm; width: auto; }
+  footer.lx-foot { break-inside: avoid; }
+}
+`;
