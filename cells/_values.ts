@@ -1,15 +1,33 @@
 /**
  * Helpers shared by the prescription, prism and lens cells: quantities of the shared
- * language (created when a formula runs, never at module load, so the import cycle through
- * `language.ts` and `mod.ts` stays harmless), numbers read from list entries, and the eye
+ * language (created when a formula runs), numbers read from list entries, and the eye
  * argument.
+ *
+ * The language is reached through a hook that `mod.ts` sets ({@linkcode useLanguage}) rather
+ * than a static import of `language.ts`: that import would close the cycle
+ * `language.ts → mod.ts → rx.ts → language.ts`, and loading `rx.ts` first would then make
+ * `mod.ts` read `RX_FORMULAS` before it exists.
  *
  * @module
  */
 
 import { LentilInputError } from "../lib/errors.ts";
 import { type Eye, parseEye } from "../lib/prism.ts";
-import { getLanguage } from "./language.ts";
+import type { Language } from "./language.ts";
+
+let languageGetter: (() => Language) | undefined;
+
+/** Set how formulas reach the shared language (called once by `mod.ts`). */
+export function useLanguage(get: () => Language): void {
+  languageGetter = get;
+}
+
+function getLanguage(): Language {
+  if (!languageGetter) {
+    throw new Error("the formula language is not loaded: import cells/language.ts first");
+  }
+  return languageGetter();
+}
 
 /** A quantity of the formula language. */
 export function quantity(value: number, unit: string): unknown {
