@@ -1,7 +1,7 @@
 /**
  * Private helpers of the acuity, blur and endpoint cells: the `acuity` value type (shared
- * by all three), quantities made when a formula runs (never at module load, so the import
- * cycle through `language.ts` and `mod.ts` stays harmless), and column lookup in tables.
+ * by all three), a record of named measurements with units (the modules do not import the
+ * language, so that any of them can be loaded first), and column lookup in tables.
  *
  * @module
  */
@@ -14,7 +14,7 @@ import {
   readNotation,
 } from "../lib/acuity.ts";
 import { LentilInputError } from "../lib/errors.ts";
-import { getLanguage } from "./language.ts";
+import { formatQuantity } from "./display.ts";
 import { type Column, tableInfo, type TableValue } from "./table.ts";
 import { defineValueType } from "./types.ts";
 
@@ -52,10 +52,34 @@ export function acuityValue(a: Acuity, notation?: string): AcuityValue {
   return new AcuityValue(notation ? { logMAR: a.logMAR, notation: readNotation(notation) } : a);
 }
 
-/** A quantity of the formula language. */
-export function quantity(value: number, unit: string): unknown {
-  return getLanguage().quantity(value + 0, unit);
+/** One named measurement of a {@linkcode Measures} record. */
+export interface Measure {
+  /** Key in the JSON form (camelCase). */
+  readonly key: string;
+  /** Label in the display. */
+  readonly label: string;
+  /** The number, in `unit`. */
+  readonly value: number;
+  /** Unit ("" for a ratio). */
+  readonly unit: string;
 }
+
+/** A record of named measurements, shown as "label value unit, …". */
+export class Measures {
+  /** @param summary what the record is; @param items the measurements, in display order. */
+  constructor(readonly summary: string, readonly items: readonly Measure[]) {}
+}
+
+defineValueType<Measures>({
+  name: "measures",
+  summary: "a record of named measurements with units",
+  is: (x): x is Measures => x instanceof Measures,
+  display: (m) => m.items.map((i) => `${i.label} ${formatQuantity(i.value, i.unit)}`).join(", "),
+  json: (m) =>
+    Object.fromEntries(
+      m.items.map((i) => [i.key, i.unit ? { value: i.value, unit: i.unit } : i.value]),
+    ),
+});
 
 /**
  * A column of `table` by name (case-insensitive), or else the first whose name is one of

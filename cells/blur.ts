@@ -15,7 +15,7 @@
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { Column, makeTable } from "./table.ts";
 import { defineValueType } from "./types.ts";
-import { AcuityValue, quantity } from "./_acuity_values.ts";
+import { AcuityValue, Measures } from "./_acuity_values.ts";
 import { type Acuity, acuityFromLogMAR, decimalOf, marOf } from "../lib/acuity.ts";
 import {
   airyDisc,
@@ -170,13 +170,28 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     example: "pinholeBlur(1.2 mm, 2 D, 5 mm)",
     fn: (h, d, p, w) => {
       const r = pinholeBlur(h as number, d as number, p as number, w as number);
-      return {
-        withoutPinhole: quantity(r.pupil.combined, "arcmin"),
-        withPinhole: quantity(r.pinhole.combined, "arcmin"),
-        pinholeGeometric: quantity(r.pinhole.geometric, "arcmin"),
-        pinholeDiffraction: quantity(r.pinhole.diffraction, "arcmin"),
-        ratio: r.ratio,
-      };
+      return new Measures("pinhole", [
+        {
+          key: "withoutPinhole",
+          label: "without pinhole",
+          value: r.pupil.combined,
+          unit: "arcmin",
+        },
+        { key: "withPinhole", label: "with pinhole", value: r.pinhole.combined, unit: "arcmin" },
+        {
+          key: "pinholeGeometric",
+          label: "pinhole geometric",
+          value: r.pinhole.geometric,
+          unit: "arcmin",
+        },
+        {
+          key: "pinholeDiffraction",
+          label: "pinhole diffraction",
+          value: r.pinhole.diffraction,
+          unit: "arcmin",
+        },
+        { key: "ratio", label: "ratio", value: r.ratio, unit: "" },
+      ]);
     },
   }),
   defineFormula({
@@ -188,20 +203,20 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       { name: "blur", type: "quantity", unit: "arcmin", range: [0, 1e5], doc: "blur diameter" },
       { name: "acuity", type: "acuity", doc: "the optotype's acuity" },
     ],
-    returns: { type: "any", doc: "sizes (arcmin) and ratios" },
+    returns: { type: "measures", doc: "sizes (arcmin) and ratios" },
     sources: ["curcio-1990", "iso-8596", "emsley-reduced-eye"],
     example: 'compareBlur(blurDisc(3 mm, 0.5 D), "6/6")',
     fn: (b, a) => {
       const c = compareBlur(b as number, decimalOf(acuityOf(a)));
-      return {
-        blur: quantity(c.blur, "arcmin"),
-        coneSpacing: quantity(c.coneSpacing, "arcmin"),
-        detail: quantity(c.detail, "arcmin"),
-        letter: quantity(c.letter, "arcmin"),
-        blurOverCones: c.toCones,
-        blurOverDetail: c.toDetail,
-        blurOverLetter: c.toLetter,
-      };
+      return new Measures("blur comparison", [
+        { key: "blur", label: "blur", value: c.blur, unit: "arcmin" },
+        { key: "coneSpacing", label: "cone spacing", value: c.coneSpacing, unit: "arcmin" },
+        { key: "detail", label: "optotype detail", value: c.detail, unit: "arcmin" },
+        { key: "letter", label: "optotype size", value: c.letter, unit: "arcmin" },
+        { key: "blurOverCones", label: "blur/cones", value: c.toCones, unit: "" },
+        { key: "blurOverDetail", label: "blur/detail", value: c.toDetail, unit: "" },
+        { key: "blurOverLetter", label: "blur/size", value: c.toLetter, unit: "" },
+      ]);
     },
   }),
   defineFormula({

@@ -172,7 +172,7 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
     returns: { type: "endpoint", doc: "endpoint, plateau, warnings and fit" },
     sources: ["most-plus-endpoint", "through-focus-fit", "bailey-lovie-1976"],
     caution: true,
-    example: "endpoint(trials)",
+    example: "endpoint(throughFocus(-1 D, 4 mm, 1 D))",
     fn: (t, pc, ac, tol, repeats, model, age, chart) => {
       if (repeats !== "report" && repeats !== "mean") {
         throw new LentilInputError(`repeats must be "report" or "mean" (got "${repeats}")`);
@@ -204,7 +204,7 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
     params: [{ name: "result", type: "endpoint", doc: "an endpoint" }],
     returns: { type: "table", doc: "lens (D) and fitted va (logMAR)" },
     sources: ["through-focus-fit"],
-    example: "endpointCurve(endpoint(trials))",
+    example: "endpointCurve(endpoint(throughFocus(-1 D, 4 mm)))",
     fn: (e) => {
       const fit = (e as EndpointValue).result.fit;
       if (!fit) {
