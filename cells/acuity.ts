@@ -214,39 +214,8 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
     example: 'letterScore("0.3 logMAR")',
     fn: (a) => letterScoreOf(acuityOf(a)),
   }),
-  defineFormula({
-    name: "snellenFeet",
-    group: "acuity",
-    summary: "The Snellen fraction in feet, as written (20/40), at any test distance.",
-    params: [ACUITY, {
-      name: "testDistance",
-      type: "quantity",
-      unit: "ft",
-      range: [1, 100],
-      optional: true,
-      default: 20,
-      doc: "test distance (default 20 ft)",
-    }],
-    returns: { type: "text", doc: "the fraction" },
-    sources: NOTATION_SOURCES,
-    example: 'snellenFeet("6/12")',
-    fn: (a, d) => formatSnellen(acuityOf(a), "ft", d as number),
-  }),
-  defineFormula({
-    name: "snellenMetres",
-    group: "acuity",
-    summary: "The Snellen fraction in metres, as written (6/9, 4/5), at any test distance.",
-    params: [ACUITY, {
-      ...DISTANCE,
-      optional: true,
-      default: 6,
-      doc: "test distance (default 6 m)",
-    }],
-    returns: { type: "text", doc: "the fraction" },
-    sources: NOTATION_SOURCES,
-    example: 'snellenMetres("20/25", 4 m)',
-    fn: (a, d) => formatSnellen(acuityOf(a), "m", d as number),
-  }),
+  snellenFormula("ft"),
+  snellenFormula("m"),
   defineFormula({
     name: "scoreChart",
     group: "acuity",
@@ -388,6 +357,32 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
   }),
   ...guessFormulas(),
 ];
+
+/** snellenFeet and snellenMetres, declared from one template. */
+function snellenFormula(unit: "ft" | "m"): FormulaSpec {
+  const feet = unit === "ft";
+  const distance: ParamSpec = feet
+    ? { name: "testDistance", type: "quantity", unit: "ft", range: [1, 100], doc: "" }
+    : DISTANCE;
+  return defineFormula({
+    name: feet ? "snellenFeet" : "snellenMetres",
+    group: "acuity",
+    summary: `The Snellen fraction in ${feet ? "feet" : "metres"}, as written (${
+      feet ? "20/40" : "6/9, 4/5"
+    }), at any test distance.`,
+    params: [ACUITY, {
+      ...distance,
+      name: "testDistance",
+      optional: true,
+      default: feet ? 20 : 6,
+      doc: `test distance (default ${feet ? "20 ft" : "6 m"})`,
+    }],
+    returns: { type: "text", doc: "the fraction" },
+    sources: NOTATION_SOURCES,
+    example: feet ? 'snellenFeet("6/12")' : 'snellenMetres("20/25", 4 m)',
+    fn: (a, d) => formatSnellen(acuityOf(a), unit, d as number),
+  });
+}
 
 function setSize(x: unknown): number {
   if (typeof x === "string" || typeof x === "number") return letterSetSize(x);

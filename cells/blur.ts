@@ -52,15 +52,13 @@ const DEFOCUS: ParamSpec = {
   range: [-50, 50],
   doc: "defocus (either sign)",
 };
-const WAVELENGTH: ParamSpec = {
-  name: "wavelength",
-  type: "quantity",
-  unit: "nm",
-  range: [380, 780],
-  optional: true,
-  default: REFERENCE_VALUES.photopicWavelength.value,
-  doc: "wavelength (default 555 nm)",
-};
+const WAVELENGTH = optionalQuantity(
+  "wavelength",
+  "nm",
+  [380, 780],
+  REFERENCE_VALUES.photopicWavelength.value,
+  "wavelength (default 555 nm)",
+);
 const AGE: ParamSpec = {
   name: "age",
   type: "quantity",
@@ -77,6 +75,25 @@ const SLOPE: ParamSpec = {
   doc: "k in MAR ≈ k·A·ΔF, arcmin per mm per D (default 0.65, from memory)",
 };
 const ARCMIN = { type: "quantity", unit: "arcmin" } as const;
+
+/** An optional quantity parameter with its default (in `unit`). */
+function optionalQuantity(
+  name: string,
+  unit: string,
+  range: readonly [number, number],
+  fallback: number,
+  doc: string,
+): ParamSpec {
+  return { name, type: "quantity", unit, range, optional: true, default: fallback, doc };
+}
+
+const TEST_DISTANCE = optionalQuantity(
+  "testDistance",
+  "m",
+  [0.1, 1e6],
+  6,
+  "chart distance (default 6 m)",
+);
 const acuityOf = (x: unknown): Acuity => x as AcuityValue;
 
 /** Hofstetter's three amplitudes at an age, as a value. */
@@ -283,15 +300,7 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       "Extra minus an eye of a given age can absorb by accommodating without losing acuity at a test distance.",
     params: [
       AGE,
-      {
-        name: "testDistance",
-        type: "quantity",
-        unit: "m",
-        range: [0.1, 1e6],
-        optional: true,
-        default: 6,
-        doc: "chart distance (default 6 m)",
-      },
+      TEST_DISTANCE,
       {
         name: "level",
         type: "text",
@@ -314,42 +323,16 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     params: [
       { name: "rx", type: "quantity", unit: "D", doc: "the eye's correction at infinity" },
       PUPIL,
-      {
-        name: "amplitude",
-        type: "quantity",
-        unit: "D",
-        range: [0, 30],
-        optional: true,
-        default: 0,
-        doc: "accommodation available (default 0)",
-      },
-      {
-        name: "span",
-        type: "quantity",
-        unit: "D",
-        range: [0.25, 10],
-        optional: true,
-        default: 2,
-        doc: "powers from rx + span to rx − span (default 2 D)",
-      },
-      {
-        name: "step",
-        type: "quantity",
-        unit: "D",
-        range: [0.05, 2],
-        optional: true,
-        default: 0.25,
-        doc: "step between powers (default 0.25 D)",
-      },
-      {
-        name: "testDistance",
-        type: "quantity",
-        unit: "m",
-        range: [0.1, 1e6],
-        optional: true,
-        default: 6,
-        doc: "chart distance (default 6 m)",
-      },
+      optionalQuantity("amplitude", "D", [0, 30], 0, "accommodation available (default 0)"),
+      optionalQuantity(
+        "span",
+        "D",
+        [0.25, 10],
+        2,
+        "powers from rx + span to rx − span (default 2 D)",
+      ),
+      optionalQuantity("step", "D", [0.05, 2], 0.25, "step between powers (default 0.25 D)"),
+      TEST_DISTANCE,
     ],
     returns: { type: "table", doc: "lens (D), va (logMAR), residual (D)" },
     sources: ["smith-1991", "test-distance-vergence"],
