@@ -1,16 +1,25 @@
 /**
- * Minimal renderers for prose and plots, used until the export's section renderers can be
- * passed in: prose as escaped paragraphs and headings, a plot as a captioned placeholder
- * listing its options.
+ * Prose and plots as the export renders them: Markdown through the export's renderer, plot
+ * blocks through its plot renderer, wrapped in the same figure markup.
  *
  * @module
  */
 
 import type { Notebook } from "../engine/engine.ts";
-import type { Block } from "../format/parse.ts";
+import type { PlotBlock } from "../format/parse.ts";
+import { renderMarkdown } from "../export/markdown.ts";
+import { renderPlot } from "../export/plot.ts";
 import type { Renderers } from "./_views.ts";
 
-/** Escape text for HTML. */
+/**
+ * Escape text for HTML.
+ *
+ * @example
+ * ```ts
+ * import { esc } from "./_markup.ts";
+ * esc("<b>"); // "&lt;b&gt;"
+ * ```
+ */
 export function esc(text: string): string {
   return text.replace(
     /[&<>"']/g,
@@ -18,19 +27,19 @@ export function esc(text: string): string {
   );
 }
 
-function prose(text: string): string {
-  return text.split(/\r?\n\s*\r?\n/).map((para) => para.trim()).filter(Boolean).map((para) => {
-    const h = /^(#{1,6})\s+(.*)$/s.exec(para);
-    return h ? `<h${h[1].length}>${esc(h[2])}</h${h[1].length}>` : `<p>${esc(para)}</p>`;
-  }).join("\n");
+function plot(nb: Notebook, block: PlotBlock): string {
+  const p = renderPlot(block, nb);
+  const id = `plot-${esc(p.name)}`;
+  const title = p.title ? `<div class="lx-plot-title">${esc(p.title)}</div>` : "";
+  if (!p.svg) {
+    const msgs = p.problems.map((d) => `<p>${esc(d.message)} (line ${d.line})</p>`).join("");
+    return `<figure class="lx-plot lx-problem" id="${id}">${title}${msgs}</figure>`;
+  }
+  const cap = p.caption ? `<figcaption>${esc(p.caption)}</figcaption>` : "";
+  return `<figure class="lx-plot" id="${id}" data-plot="${
+    esc(p.name)
+  }">${title}${p.svg}${cap}</figure>`;
 }
 
-function plot(_nb: Notebook, block: Block & { kind: "plot" }): string {
-  const opts = Object.entries(block.options).map(([k, o]) => `${k}: ${o.value}`).join(", ");
-  return `<figure class="plot"><figcaption>${esc(block.name ?? "plot")} (${
-    esc(opts)
-  })</figcaption></figure>`;
-}
-
-/** The minimal renderers. */
-export const PLAIN_RENDERERS: Renderers = { prose, plot };
+/** The export's renderers for prose and plots. */
+export const EXPORT_RENDERERS: Renderers = { prose: renderMarkdown, plot };

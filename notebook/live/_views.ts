@@ -8,7 +8,7 @@
 
 import { tableInfo } from "../../cells/table.ts";
 import type { Notebook } from "../engine/engine.ts";
-import type { Block, NotebookDoc, TableBlock } from "../format/parse.ts";
+import type { NotebookDoc, PlotBlock, TableBlock } from "../format/parse.ts";
 import { buildReport, type ReportSource } from "../report.ts";
 
 /** An error as the page shows it. */
@@ -121,7 +121,7 @@ export interface Renderers {
   /** Markdown prose to HTML. */
   prose(text: string): string;
   /** A plot block to HTML. */
-  plot(nb: Notebook, block: Block & { kind: "plot" }, index: number): string;
+  plot(nb: Notebook, block: PlotBlock): string;
 }
 
 /** Rows shown in a grid at most; a larger table is shown read-only in part. */
@@ -196,7 +196,7 @@ export function buildPageView(
       blocks.push({ kind: "calc", index: calcIndex++, cells: ids });
     } else if (b.kind === "plot") {
       const key = `plot${bi}`;
-      plots[key] = { key, html: renderers.plot(nb, b, bi) };
+      plots[key] = { key, html: renderers.plot(nb, b) };
       blocks.push({ kind: "plot", key });
     } else if (b.name && !tables[b.name]) {
       tables[b.name] = tableView(nb, b, tableText(b), diags);

@@ -36,7 +36,7 @@ import {
   type TextEdit,
 } from "./_splice.ts";
 import { bareName, insideFolder } from "./_paths.ts";
-import { PLAIN_RENDERERS } from "./_markup.ts";
+import { EXPORT_RENDERERS } from "./_markup.ts";
 import {
   buildPageView,
   type CellView,
@@ -171,7 +171,7 @@ export class LiveSession {
    * @throws {Error} when the file cannot be read or is not valid UTF-8.
    */
   static async open(path: string, options: { renderers?: Renderers } = {}): Promise<LiveSession> {
-    const s = new LiveSession(path, options.renderers ?? PLAIN_RENDERERS);
+    const s = new LiveSession(path, options.renderers ?? EXPORT_RENDERERS);
     await s.#readFromDisk();
     return s;
   }

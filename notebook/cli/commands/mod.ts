@@ -9,6 +9,7 @@ import { runCommand } from "./run.ts";
 import { checkCommand } from "./check.ts";
 import { evalCommand } from "./eval.ts";
 import { newCommand } from "./new.ts";
+import { liveCommand } from "./live.ts";
 import { exportCommand } from "./export.ts";
 import { formulasCommand } from "./formulas.ts";
 
@@ -19,5 +20,6 @@ export const COMMANDS: readonly Command[] = [
   evalCommand,
   newCommand,
   exportCommand,
+  liveCommand,
   formulasCommand,
 ];

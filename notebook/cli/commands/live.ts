@@ -1,0 +1,74 @@
+/**
+ * `lentil live FILE [--port N]`: edit a notebook in a local web page. Serves on 127.0.0.1
+ * only, on a free port unless `--port` names one, behind an unguessable token in the
+ * printed address; runs until Ctrl-C.
+ *
+ * Permissions: the `lentil` task grants read and write (the notebook's folder is all this
+ * command touches: the file, the CSV files its tables name, their `.bak` backups and
+ * temporary files) and network on 127.0.0.1 only. Deno cannot narrow read and write to
+ * one folder once granted, so run it as
+ * `deno run --allow-read=DIR --allow-write=DIR --allow-net=127.0.0.1 notebook/cli/main.ts live FILE`
+ * to confine it further; it spawns nothing and needs no other permission.
+ *
+ * @module
+ */
+
+import { basename } from "node:path";
+import type { Command } from "../command.ts";
+import { startLiveServer } from "../../live/server.ts";
+import { NotebookFileError, readNotebookBytes } from "../../load.ts";
+
+/** The `live` command. */
+export const liveCommand: Command = {
+  name: "live",
+  summary: "edit a notebook in a local web page, with results updated as you type",
+  usage: "FILE [--port N]",
+  help: "Serves FILE as an editable page on 127.0.0.1 and prints its address (with a token that\n" +
+    "only this run knows). Inputs, formulas and table rows are edited in place; every result\n" +
+    "that depends on an edit is recomputed at once. Save writes FILE back, changing only what\n" +
+    "was edited, and keeps the previous version as FILE.bak. Stop with Ctrl-C.",
+  options: {
+    port: { type: "string", doc: "port on 127.0.0.1 (default: a free one)", value: "N" },
+  },
+  positionals: [1, 1],
+  async run([file], options, io) {
+    const port = options.port === undefined ? 0 : Number(options.port);
+    if (!Number.isInteger(port) || port < 0 || port > 65535) {
+      io.err(`lentil live: --port expects a number from 0 to 65535, got "${options.port}"`);
+      return 2;
+    }
+    if (!file.endsWith(".lentil.md")) {
+      io.err(`${file}: notebook files end in .lentil.md`);
+      return 2;
+    }
+    try {
+      await readNotebookBytes(file);
+    } catch (e) {
+      if (e instanceof NotebookFileError) {
+        io.err(e.message);
+        return 1;
+      }
+      throw e;
+    }
+    let server;
+    try {
+      server = await startLiveServer(file, { port });
+    } catch (e) {
+      io.err(`lentil live: ${(e as Error).message}`);
+      return 1;
+    }
+    io.out(`editing ${basename(file)} at ${server.url}`);
+    io.out("stop with Ctrl-C");
+    const stop = () => void server.shutdown();
+    Deno.addSignalListener("SIGINT", stop);
+    try {
+      await server.finished;
+    } finally {
+      Deno.removeSignalListener("SIGINT", stop);
+    }
+    if (server.session.status().dirty) {
+      io.err("stopped with unsaved changes (they were not written)");
+    }
+    return 0;
+  },
+};

@@ -1,0 +1,238 @@
+/**
+ * The live server: one notebook, one page, on 127.0.0.1 only, on a free port, behind an
+ * unguessable token. Every request is checked for our own Host, no foreign Origin and the
+ * token; JSON bodies are validated with zod; requests are handled one at a time so edits
+ * never interleave.
+ *
+ * HTTP API (token as `?t=TOKEN` or header `X-Lentil-Token`; POST bodies are JSON):
+ *
+ * | method | path | body | answer |
+ * | --- | --- | --- | --- |
+ * | GET | `/` | | the page |
+ * | GET | `/client.js`, `/style.css` | | the page's script and style |
+ * | GET | `/api/state` | | `{view, status}` |
+ * | GET | `/api/disk` | | `{changed: [file…]}`: files changed on disk since read |
+ * | GET | `/api/source?file=NAME` | | text of a CSV file a table reads |
+ * | POST | `/api/cell` | `{id, expression}` | `{ok, recomputed, patch}` |
+ * | POST | `/api/cell/new` | `{block, line}` | same; `ok: false` with `error` when refused |
+ * | POST | `/api/cell/delete` | `{id}` | same |
+ * | POST | `/api/table` | `{name, rows: string[][]}` | same |
+ * | POST | `/api/undo`, `/api/redo` | `{}` | same |
+ * | POST | `/api/save` | `{}` | `{ok: true, written}` or 409 `{ok: false, conflict}` |
+ * | POST | `/api/reload` | `{}` | `{ok, patch}` (the page's edits stay on the undo stack) |
+ * | POST | `/api/keep-both` | `{name?}` | `{file, written, patch}` |
+ *
+ * @example
+ * ```ts ignore
+ * import { startLiveServer } from "./server.ts";
+ * const server = await startLiveServer("case.lentil.md");
+ * console.log(server.url); // http://127.0.0.1:PORT/?t=TOKEN
+ * await server.shutdown();
+ * ```
+ *
+ * @module
+ */
+
+import { z } from "zod";
+import { checkRequest, newToken, ownOrigins } from "./_guard.ts";
+import { UnsafePathError } from "./_paths.ts";
+import { CLIENT_JS } from "./_client.ts";
+import { pageHtml, STYLE_CSS } from "./_page.ts";
+import { EditRefused, type EditResult, LiveSession } from "./session.ts";
+import type { Renderers } from "./_views.ts";
+
+/** A running live server. */
+export interface LiveServer {
+  /** The page's address, token included. */
+  readonly url: string;
+  /** `http://127.0.0.1:PORT`. */
+  readonly origin: string;
+  /** The port. */
+  readonly port: number;
+  /** The token. */
+  readonly token: string;
+  /** The editing session. */
+  readonly session: LiveSession;
+  /** Stop serving. */
+  shutdown(): Promise<void>;
+  /** Settles when the server has stopped. */
+  readonly finished: Promise<void>;
+}
+
+/** Options for {@linkcode startLiveServer}. */
+export interface LiveServerOptions {
+  /** Port (default 0: a free one). */
+  readonly port?: number;
+  /** Renderers for prose and plots (default: the export's). */
+  readonly renderers?: Renderers;
+}
+
+const MAX_BODY = 8 * 1024 * 1024;
+const Id = z.string().min(1).max(300);
+const Line = z.string().max(20_000);
+const Empty = z.object({}).strict();
+const CellEdit = z.object({ id: Id, expression: Line }).strict();
+const NewCell = z.object({ block: z.number().int().min(0).max(10_000), line: Line }).strict();
+const DeleteCell = z.object({ id: Id }).strict();
+const Rows = z.object({
+  name: Id,
+  rows: z.array(z.array(z.string().max(2_000)).max(500)).max(100_000),
+}).strict();
+const KeepBoth = z.object({ name: z.string().min(1).max(200).optional() }).strict();
+
+const SECURITY_HEADERS: Record<string, string> = {
+  "content-security-policy":
+    "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data:; connect-src 'self'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'",
+  "referrer-policy": "no-referrer",
+  "x-content-type-options": "nosniff",
+  "cross-origin-resource-policy": "same-origin",
+  "cache-control": "no-store",
+};
+
+function respond(body: string, type: string, status = 200): Response {
+  return new Response(body, { status, headers: { ...SECURITY_HEADERS, "content-type": type } });
+}
+
+function json(data: unknown, status = 200): Response {
+  return respond(JSON.stringify(data), "application/json; charset=utf-8", status);
+}
+
+class BadRequest extends Error {}
+
+async function readJson<T>(req: Request, schema: z.ZodType<T>): Promise<T> {
+  const text = await req.text();
+  if (text.length > MAX_BODY) throw new BadRequest("request too large");
+  let data: unknown;
+  try {
+    data = JSON.parse(text);
+  } catch {
+    throw new BadRequest("the body is not JSON");
+  }
+  const parsed = schema.safeParse(data);
+  if (!parsed.success) {
+    throw new BadRequest(
+      parsed.error.issues.map((i) => `${i.path.join(".") || "body"}: ${i.message}`).join("; "),
+    );
+  }
+  return parsed.data;
+}
+
+/**
+ * Open `path` and serve its live page on 127.0.0.1.
+ *
+ * @example
+ * ```ts ignore
+ * import { startLiveServer } from "./server.ts";
+ * const s = await startLiveServer("case.lentil.md");
+ * const r = await fetch(`${s.origin}/api/state`, { headers: { "x-lentil-token": s.token } });
+ * await r.json();
+ * await s.shutdown();
+ * ```
+ * @throws {Error} when the notebook cannot be read.
+ */
+export async function startLiveServer(
+  path: string,
+  options: LiveServerOptions = {},
+): Promise<LiveServer> {
+  const session = await LiveSession.open(path, { renderers: options.renderers });
+  const token = newToken();
+  let port = 0;
+  let queue: Promise<unknown> = Promise.resolve();
+  const serial = <T>(fn: () => Promise<T>): Promise<T> => {
+    const run = queue.then(fn, fn);
+    queue = run.catch(() => {});
+    return run;
+  };
+  const edit = (r: EditResult) => json(r);
+
+  const route = async (req: Request): Promise<Response> => {
+    const url = new URL(req.url);
+    const key = `${req.method} ${url.pathname}`;
+    switch (key) {
+      case "GET /":
+        return respond(pageHtml(session.view.title), "text/html; charset=utf-8");
+      case "GET /client.js":
+        return respond(CLIENT_JS, "text/javascript; charset=utf-8");
+      case "GET /style.css":
+        return respond(STYLE_CSS, "text/css; charset=utf-8");
+      case "GET /api/state":
+        return json({ view: session.view, status: session.status() });
+      case "GET /api/disk":
+        return json({ changed: await session.changedFiles() });
+      case "GET /api/source": {
+        const file = url.searchParams.get("file") ?? "";
+        return respond(session.tableFile(file), "text/plain; charset=utf-8");
+      }
+      case "POST /api/cell": {
+        const b = await readJson(req, CellEdit);
+        return edit(session.setExpression(b.id, b.expression));
+      }
+      case "POST /api/cell/new": {
+        const b = await readJson(req, NewCell);
+        return edit(session.addCell(b.block, b.line));
+      }
+      case "POST /api/cell/delete": {
+        const b = await readJson(req, DeleteCell);
+        return edit(session.deleteCell(b.id));
+      }
+      case "POST /api/table": {
+        const b = await readJson(req, Rows);
+        return edit(session.setRows(b.name, b.rows));
+      }
+      case "POST /api/undo":
+        await readJson(req, Empty);
+        return edit(session.undo());
+      case "POST /api/redo":
+        await readJson(req, Empty);
+        return edit(session.redo());
+      case "POST /api/save": {
+        await readJson(req, Empty);
+        const r = await session.save();
+        return json(r, r.ok ? 200 : 409);
+      }
+      case "POST /api/reload":
+        await readJson(req, Empty);
+        return edit(await session.reload());
+      case "POST /api/keep-both": {
+        const b = await readJson(req, KeepBoth);
+        return json(await session.keepBoth(b.name));
+      }
+      default:
+        return json({ error: "not found" }, 404);
+    }
+  };
+
+  const handler = (req: Request): Promise<Response> | Response => {
+    const refused = checkRequest(req, { port, token });
+    if (refused) return json({ error: refused.reason }, refused.status);
+    return serial(async () => {
+      try {
+        return await route(req);
+      } catch (e) {
+        if (e instanceof BadRequest || e instanceof EditRefused) {
+          return json({ error: e.message }, 400);
+        }
+        if (e instanceof UnsafePathError) return json({ error: e.message }, 403);
+        console.error(e);
+        return json({ error: "internal error (see the terminal)" }, 500);
+      }
+    });
+  };
+
+  const server = Deno.serve({
+    hostname: "127.0.0.1",
+    port: options.port ?? 0,
+    onListen: () => {},
+  }, handler);
+  port = server.addr.port;
+  const origin = ownOrigins(port)[0];
+  return {
+    url: `${origin}/?t=${token}`,
+    origin,
+    port,
+    token,
+    session,
+    shutdown: () => server.shutdown(),
+    finished: server.finished,
+  };
+}
