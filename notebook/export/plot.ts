@@ -297,7 +297,7 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
 
   const { rows, step } = rowsOf([xc, yc, gc], info.rowCount);
   if (step > 1 && kind !== "histogram") {
-    const note = `Every ${step}th of ${info.rowCount.toLocaleString("en")} rows drawn.`;
+    const note = `One row in ${step} drawn, of ${info.rowCount.toLocaleString("en")}.`;
     caption = caption ? `${caption} ${note}` : note;
   }
   const x = xc.name;

@@ -1,0 +1,153 @@
+// Plot blocks: each kind renders SVG with its marks; problems are named; cell values read.
+import assert from "node:assert/strict";
+import { loadNotebook } from "../notebook/load.ts";
+import { Notebook } from "../notebook/engine/engine.ts";
+import type { PlotBlock } from "../notebook/format/parse.ts";
+import { MAX_PLOT_POINTS, PLOT_KINDS, renderPlot } from "../notebook/export/plot.ts";
+import { limitsOf, markOf, outlineOf, pointsOf } from "../notebook/export/_plot_values.ts";
+
+const FIXTURE = new URL("./fixtures/export-plots.lentil.md", import.meta.url).pathname;
+
+function plots(nb: Notebook): PlotBlock[] {
+  return nb.doc.blocks.filter((b): b is PlotBlock => b.kind === "plot");
+}
+
+const loaded = await loadNotebook(FIXTURE);
+if (!loaded.ok) throw new Error(loaded.diagnostic.message);
+const nb = loaded.notebook;
+const byName = new Map(plots(nb).map((b) => [b.name, renderPlot(b, nb)]));
+
+Deno.test("plot: the fixture has one plot of every kind, all without problems", () => {
+  const kinds = plots(nb).map((b) => b.options.kind.value).sort();
+  assert.deepEqual(kinds, [...PLOT_KINDS].sort());
+  for (const [name, p] of byName) {
+    assert.deepEqual(p.problems, [], `plot ${name}`);
+    assert.match(p.svg, /<svg[^>]*viewBox/);
+  }
+});
+
+Deno.test("plot curve: line, dots, the endpoint marked and the fitted curve dashed", () => {
+  const p = byName.get("focus")!;
+  assert.match(p.svg, /aria-label="line"/);
+  assert.equal(
+    (/aria-label="dot"[^>]*>([^]*?)<\/g>/.exec(p.svg)![1].match(/<circle/g) ?? []).length,
+    10,
+  );
+  assert.match(p.svg, /aria-label="rule"/);
+  assert.match(p.svg, /stroke-dasharray="5 4"/);
+  const ep = nb.value("ep");
+  const json = nb.language.describe(ep).value as { endpoint: number };
+  assert.ok(p.svg.includes(`ep ${json.endpoint}`), "endpoint label");
+  assert.equal(p.title, "Acuity through focus");
+});
+
+Deno.test("plot scatter: a dot a row, coloured by group, with the ellipse outline", () => {
+  const p = byName.get("vectors")!;
+  assert.equal((p.svg.match(/<circle/g) ?? []).length, 240);
+  assert.match(p.svg, /aria-label="line"/);
+  assert.ok(p.svg.includes("j0 [D]") && p.svg.includes("j45 [D]"));
+});
+
+Deno.test("plot histogram: bars counting every row", () => {
+  const p = byName.get("spread_j0")!;
+  const rects = /aria-label="rect"[^>]*>([^]*?)<\/g>/.exec(p.svg)![1];
+  assert.ok((rects.match(/<rect/g) ?? []).length >= 10);
+  assert.ok(p.svg.includes("count"));
+});
+
+Deno.test("plot agreement: dots, bias and the two limits labelled", () => {
+  const p = byName.get("methods")!;
+  assert.equal((p.svg.match(/<circle/g) ?? []).length, 240);
+  for (const t of ["bias 0.12", "lower limit -0.31", "upper limit 0.55"]) {
+    assert.ok(p.svg.includes(t), t);
+  }
+  assert.ok(p.svg.includes("difference, auto − subjective [D]"));
+});
+
+function one(text: string) {
+  const n = Notebook.fromText(text, "one.lentil.md");
+  return renderPlot(plots(n)[0], n);
+}
+
+const T = "```table t\na [D] | b | w [text]\n1 | 2 | x\n2 | 3 | y\n3 | 5 | z\n```\n\n";
+
+Deno.test("plot problems: unknown kind, table, column, option, cell; a text column", () => {
+  const cases: [string, RegExp][] = [
+    ["kind: pie\ntable: t", /kind "pie" is not one of curve, scatter, histogram, agreement/],
+    ["table: t", /needs `kind:`/],
+    ["kind: scatter\ntable: nope\nx-axis: a\ny-axis: b", /no table "nope"/],
+    [
+      "kind: scatter\ntable: t\nx-axis: zz\ny-axis: b",
+      /no column "zz" for x-axis \(columns: a, b, w\)/,
+    ],
+    ["kind: scatter\ntable: t\nx-axis: w\ny-axis: b", /column "w" for x-axis is not numeric/],
+    ["kind: scatter\ntable: t\nx-axis: a\ny-axis: b\ncolour: red", /unknown option "colour"/],
+    ["kind: curve\ntable: t\nx-axis: a\ny-axis: b\nmark: ghost", /no cell named "ghost" for mark/],
+    ["kind: scatter\ntable: t\nx-axis: a\ny-axis: b\nbins: 3", /bins applies to histogram/],
+    ["kind: histogram\ntable: t\nx-axis: a\nbins: 0", /bins: expected a whole number/],
+    ["kind: scatter\ntable: t\nx-axis: a", /needs `y-axis:`/],
+    [
+      "kind: scatter\ntable: t\nx-axis: a\ny-axis: b\ninvert-y: maybe",
+      /invert-y: expected yes or no/,
+    ],
+  ];
+  for (const [opts, re] of cases) {
+    const p = one(T + "```plot\n" + opts + "\n```\n");
+    assert.ok(p.problems.some((d) => re.test(d.message)), `${opts}: ${JSON.stringify(p.problems)}`);
+    assert.equal(p.svg, "");
+  }
+});
+
+Deno.test("plot: a cell that holds no curve is named as the problem", () => {
+  const p = one(
+    T +
+      "```calc\nk = 3\n```\n\n```plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\nfit: k\n```\n",
+  );
+  assert.ok(p.problems.some((d) => /fit: the cell holds no curve points/.test(d.message)));
+});
+
+Deno.test("plot: a large table is thinned to the point cap and the caption says so", () => {
+  const rows = Array.from({ length: MAX_PLOT_POINTS * 2 + 10 }, (_, i) => `${i} | ${i % 7}`);
+  const p = one(
+    "```table big\nx | y\n" + rows.join("\n") +
+      "\n```\n\n```plot\nkind: scatter\ntable: big\nx-axis: x\ny-axis: y\n```\n",
+  );
+  assert.deepEqual(p.problems, []);
+  const dots = (p.svg.match(/<circle/g) ?? []).length;
+  assert.ok(dots <= MAX_PLOT_POINTS && dots > MAX_PLOT_POINTS / 2, String(dots));
+  assert.match(p.caption ?? "", /One row in 3 drawn, of 8,010\./);
+});
+
+Deno.test("plot values: points, marks and limits in the shapes cells give them", () => {
+  assert.deepEqual(pointsOf([[0, 1], [2, 3]]), [{ x: 0, y: 1 }, { x: 2, y: 3 }]);
+  assert.deepEqual(
+    pointsOf({ fit: { curve: [{ power: 1, logMAR: 0.2 }, { power: 0, logMAR: 0 }] } }),
+    [
+      { x: 1, y: 0.2 },
+      { x: 0, y: 0 },
+    ],
+  );
+  assert.equal(pointsOf({ nothing: 1 }), undefined);
+  assert.deepEqual(markOf({ endpoint: 0.25, endpointLogMAR: -0.04 }), { x: 0.25, y: -0.04 });
+  assert.deepEqual(markOf(-0.5), { x: -0.5 });
+  assert.deepEqual(limitsOf([-0.3, 0.1, 0.5]), { lower: -0.3, bias: 0.1, upper: 0.5 });
+  assert.deepEqual(limitsOf({ bias: 0.1, sd: 0.2, lower: -0.292, upper: 0.492 }), {
+    bias: 0.1,
+    lower: -0.292,
+    upper: 0.492,
+  });
+  assert.deepEqual(limitsOf({ m: { bias: 0, lower: -1, upper: 1 } }), undefined);
+  // An ellipse given by centre, semi-axes and angle is traced for drawing: every traced
+  // point satisfies the ellipse's own equation.
+  const e = { cx: 1, cy: -1, semiMajor: 3, semiMinor: 1, angle: 30 };
+  const ring = outlineOf(e)!;
+  assert.equal(ring.length, 96);
+  const t = (30 * Math.PI) / 180;
+  for (const p of ring) {
+    const dx = p.x - 1;
+    const dy = p.y + 1;
+    const u = dx * Math.cos(t) + dy * Math.sin(t);
+    const v = -dx * Math.sin(t) + dy * Math.cos(t);
+    assert.ok(Math.abs((u / 3) ** 2 + v ** 2 - 1) < 1e-9);
+  }
+});
