@@ -15,12 +15,15 @@
  * @module
  */
 
-import { all, create, type MathJsInstance, type MathNode, type Unit } from "mathjs";
+import type { MathNode, Unit } from "mathjs";
 import type { Catalogue, FormulaSpec, ParamSpec } from "./catalogue.ts";
 import { Column, isTable, tableInfo } from "./table.ts";
 import { DEFAULT_DISPLAY, type DisplayOptions, getValueType, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
 import { CATALOGUE } from "./mod.ts";
+import { columnToArray, formulaMath, quantity, quantityParts, toNumberIn } from "./quantity.ts";
+
+export { LENTIL_UNITS } from "./quantity.ts";
 
 /** A formula call whose arguments do not fit its declaration. */
 export class FormulaArgumentError extends TypeError {
@@ -99,59 +102,6 @@ export interface Language {
   describe(x: unknown, options?: DisplayOptions): Described;
 }
 
-/**
- * The units Lentil documents. Cell names may not take these (they would shadow `12 mm`);
- * mathjs's other units stay usable but a cell of the same name takes precedence.
- */
-export const LENTIL_UNITS: readonly string[] = [
-  "D",
-  "dpt",
-  "prism",
-  "pdpt",
-  "mm",
-  "cm",
-  "m",
-  "um",
-  "nm",
-  "deg",
-  "arcmin",
-  "arcsec",
-  "rad",
-  "years",
-  "year",
-];
-
-/** Units whose values are shown in that unit rather than mathjs's choice. */
-const PREFERRED_UNITS = ["D", "prism", "mm", "deg", "arcmin", "um", "nm", "years", "m", "cm"];
-
-/** The parts of mathjs's typed-function that its type declarations leave out. */
-interface TypedRegistry {
-  addTypes(types: { name: string; test: (x: unknown) => boolean }[]): void;
-  addConversions(
-    conversions: { from: string; to: string; convert: (x: never) => unknown }[],
-  ): void;
-}
-
-function typedOf(math: MathJsInstance): TypedRegistry {
-  return math.typed as unknown as TypedRegistry;
-}
-
-function makeMath(): MathJsInstance {
-  const math = create(all, {});
-  math.createUnit("D", { definition: "1 m^-1", aliases: ["dpt", "dioptre", "diopter"] });
-  math.createUnit("prism", { aliases: ["pdpt"] });
-  typedOf(math).addTypes([{ name: "Column", test: (x: unknown) => x instanceof Column }]);
-  return math;
-}
-
-function columnToArray(math: MathJsInstance, c: Column): unknown[] {
-  if (c.data instanceof Float64Array) {
-    if (c.type === "quantity" && c.unit) return Array.from(c.data, (v) => math.unit(v, c.unit));
-    return Array.from(c.data);
-  }
-  return c.data;
-}
-
 let cached: Language | undefined;
 
 /**
@@ -167,44 +117,11 @@ export function getLanguage(): Language {
   return cached ??= buildLanguage(CATALOGUE);
 }
 
-/**
- * Build a language instance from a catalogue (tests use small catalogues).
- *
- * @example
- * ```ts
- * import { buildLanguage } from "./language.ts";
- * import { buildCatalogue } from "./catalogue.ts";
- * buildLanguage(buildCatalogue([], [])).isFunction("sqrt"); // true
- * ```
- */
-export function buildLanguage(catalogue: Catalogue): Language {
-  const math = makeMath();
-  typedOf(math).addConversions([
-    { from: "Column", to: "Array", convert: (c: Column) => columnToArray(math, c) },
-  ]);
+/** Build the language over the shared mathjs instance; called once, by getLanguage. */
+function buildLanguage(catalogue: Catalogue): Language {
+  const math = formulaMath();
   const parse = math.parse;
-  const unitOf = (n: number, u: string): Unit => math.unit(n, u);
-  const isUnitValue = (x: unknown): x is Unit => math.isUnit(x);
-
-  const toNumberIn = (x: unknown, unit: string): number => {
-    if (typeof x === "number") return x;
-    if (isUnitValue(x)) {
-      if (!unit) {
-        // A unit that cancels out (e.g. cm × D → ratio) counts as a pure number.
-        const simplified = (x as Unit).toSI();
-        if (simplified.dimensions.every((d: number) => d === 0)) {
-          return simplified.toNumber();
-        }
-        throw new TypeError(`expected a pure number, got ${x.toString()}`);
-      }
-      if (!x.equalBase(math.unit(1, unit))) {
-        throw new TypeError(`expected a quantity in ${unit}, got ${x.toString()}`);
-      }
-      return x.toNumber(unit);
-    }
-    if (typeof x === "boolean") throw new TypeError(`expected a number, got ${x}`);
-    throw new TypeError(`expected a number${unit ? ` in ${unit}` : ""}, got ${kindOf(x)}`);
-  };
+  const unitOf = quantity;
 
   const convertArg = (spec: FormulaSpec, p: ParamSpec, x: unknown): unknown => {
     if (x === undefined) {
@@ -242,7 +159,7 @@ export function buildLanguage(catalogue: Catalogue): Language {
         return x;
       case "list":
         if (math.isMatrix(x)) return (x as { toArray(): unknown[] }).toArray();
-        if (x instanceof Column) return columnToArray(math, x);
+        if (x instanceof Column) return columnToArray(x);
         if (Array.isArray(x)) return x;
         throw fail(`expected a list [..] or a column, got ${kindOf(x)}`);
       case "column":
@@ -335,21 +252,6 @@ export function buildLanguage(catalogue: Catalogue): Language {
     } catch {
       return false;
     }
-  };
-
-  const quantityParts = (x: unknown): { value: number; unit: string } | undefined => {
-    if (!isUnitValue(x)) return undefined;
-    for (const u of PREFERRED_UNITS) {
-      const probe = math.unit(1, u);
-      if (x.equalBase(probe)) {
-        const own = x.formatUnits();
-        const unit = PREFERRED_UNITS.includes(own) ? own : u;
-        return { value: x.toNumber(unit), unit };
-      }
-    }
-    const own = x.formatUnits();
-    if (own === "") return { value: x.toSI().toNumber(), unit: "" };
-    return { value: x.toNumber(), unit: own };
   };
 
   const describe = (x: unknown, options: DisplayOptions = DEFAULT_DISPLAY): Described => {

@@ -16,8 +16,6 @@ import { CORE_CONSTANTS, CORE_FORMULAS } from "./core.ts";
 import { RX_FORMULAS } from "./rx.ts";
 import { PRISM_FORMULAS } from "./prism.ts";
 import { LENS_FORMULAS } from "./lens.ts";
-import { useLanguage } from "./_values.ts";
-import { getLanguage } from "./language.ts";
 import { ACUITY_FORMULAS } from "./acuity.ts";
 import { BLUR_FORMULAS } from "./blur.ts";
 import { ENDPOINT_FORMULAS } from "./endpoint.ts";
@@ -37,6 +35,3 @@ export const CATALOGUE: Catalogue = buildCatalogue(
     ...CORE_CONSTANTS,
   ],
 );
-
-// The prescription, prism and lens cells build quantities through this hook; see cells/_values.ts.
-useLanguage(getLanguage);

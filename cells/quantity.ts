@@ -1,0 +1,175 @@
+/**
+ * Quantities of the formula language: the one mathjs instance that knows Lentil's units
+ * (diopter `D` = 1/m, prism dioptre `prism`), and small helpers to make, read and convert
+ * quantities. Cell modules that build results with units import this module, never the
+ * language itself, so any module can be loaded first.
+ *
+ * @example
+ * ```ts
+ * import { quantity, toNumberIn } from "./quantity.ts";
+ * toNumberIn(quantity(250, "mm"), "m"); // 0.25
+ * ```
+ *
+ * @module
+ */
+
+import { all, create, type MathJsInstance, type Unit } from "mathjs";
+import { Column } from "./table.ts";
+
+/**
+ * The units Lentil documents. Cell names may not take these (they would shadow `12 mm`);
+ * mathjs's other units stay usable but a cell of the same name takes precedence.
+ */
+export const LENTIL_UNITS: readonly string[] = [
+  "D",
+  "dpt",
+  "prism",
+  "pdpt",
+  "mm",
+  "cm",
+  "m",
+  "um",
+  "nm",
+  "deg",
+  "arcmin",
+  "arcsec",
+  "rad",
+  "years",
+  "year",
+];
+
+/** Units whose values are shown in that unit rather than mathjs's choice. */
+const PREFERRED_UNITS = ["D", "prism", "mm", "deg", "arcmin", "um", "nm", "years", "m", "cm"];
+
+/** The parts of mathjs's typed-function that its type declarations leave out. */
+interface TypedRegistry {
+  addTypes(types: { name: string; test: (x: unknown) => boolean }[]): void;
+  addConversions(
+    conversions: { from: string; to: string; convert: (x: never) => unknown }[],
+  ): void;
+}
+
+/** mathjs's typed-function registry of an instance. */
+export function typedOf(math: MathJsInstance): TypedRegistry {
+  return math.typed as unknown as TypedRegistry;
+}
+
+let shared: MathJsInstance | undefined;
+
+/**
+ * The shared mathjs instance with Lentil's units and the `Column` type registered.
+ *
+ * @example
+ * ```ts
+ * import { formulaMath } from "./quantity.ts";
+ * formulaMath().evaluate("1 / (0.5 m)").toNumber("D"); // 2
+ * ```
+ */
+export function formulaMath(): MathJsInstance {
+  if (shared) return shared;
+  const math = create(all, {});
+  math.createUnit("D", { definition: "1 m^-1", aliases: ["dpt", "dioptre", "diopter"] });
+  math.createUnit("prism", { aliases: ["pdpt"] });
+  typedOf(math).addTypes([{ name: "Column", test: (x: unknown) => x instanceof Column }]);
+  shared = math;
+  typedOf(math).addConversions([{ from: "Column", to: "Array", convert: columnToArray }]);
+  return math;
+}
+
+/**
+ * A column's values as a plain array: quantities for a quantity column, numbers or
+ * values otherwise. mathjs's own functions (`mean`, `max`, …) see columns this way.
+ *
+ * @example
+ * ```ts
+ * import { columnToArray } from "./quantity.ts";
+ * import { Column } from "./table.ts";
+ * columnToArray(new Column("x", "number", "", new Float64Array([1, 2]))); // [1, 2]
+ * ```
+ */
+export function columnToArray(c: Column): unknown[] {
+  if (c.data instanceof Float64Array) {
+    if (c.type === "quantity" && c.unit) return Array.from(c.data, (v) => quantity(v, c.unit));
+    return Array.from(c.data);
+  }
+  return c.data;
+}
+
+/**
+ * A quantity: `value` in `unit`.
+ *
+ * @example
+ * ```ts
+ * import { quantity } from "./quantity.ts";
+ * quantity(-2.5, "D").toString(); // "-2.5 D"
+ * ```
+ */
+export function quantity(value: number, unit: string): Unit {
+  return formulaMath().unit(value + 0, unit);
+}
+
+/**
+ * Whether `x` is a quantity (a mathjs Unit).
+ *
+ * @example
+ * ```ts
+ * import { isQuantity, quantity } from "./quantity.ts";
+ * isQuantity(quantity(1, "mm")); // true
+ * ```
+ */
+export function isQuantity(x: unknown): x is Unit {
+  return formulaMath().isUnit(x);
+}
+
+/**
+ * Read `x` as a number in `unit`. Bare numbers are taken as already in it; with `unit` ""
+ * a quantity whose units cancel (cm × D) counts as a pure number.
+ *
+ * @example
+ * ```ts
+ * import { quantity, toNumberIn } from "./quantity.ts";
+ * toNumberIn(quantity(2, "cm"), "mm"); // 20
+ * toNumberIn(3, "D"); // 3
+ * ```
+ * @throws {TypeError} when the units are not compatible.
+ */
+export function toNumberIn(x: unknown, unit: string): number {
+  if (typeof x === "number") return x;
+  if (isQuantity(x)) {
+    if (!unit) {
+      const si = x.toSI();
+      if (si.dimensions.every((d: number) => d === 0)) return si.toNumber();
+      throw new TypeError(`expected a pure number, got ${x.toString()}`);
+    }
+    if (!x.equalBase(quantity(1, unit))) {
+      throw new TypeError(`expected a quantity in ${unit}, got ${x.toString()}`);
+    }
+    return x.toNumber(unit);
+  }
+  if (typeof x === "boolean") throw new TypeError(`expected a number, got ${x}`);
+  throw new TypeError(`expected a number${unit ? ` in ${unit}` : ""}, got ${typeof x}`);
+}
+
+/**
+ * The number and display unit of a quantity (Lentil's own units preferred), or undefined
+ * when `x` is not a quantity.
+ *
+ * @example
+ * ```ts
+ * import { quantity, quantityParts } from "./quantity.ts";
+ * quantityParts(quantity(0.5, "m").pow(-1)); // { value: 2, unit: "D" }
+ * ```
+ */
+export function quantityParts(x: unknown): { value: number; unit: string } | undefined {
+  if (!isQuantity(x)) return undefined;
+  for (const u of PREFERRED_UNITS) {
+    if (x.equalBase(quantity(1, u))) {
+      const own = x.formatUnits();
+      const unit = PREFERRED_UNITS.includes(own) ? own : u;
+      return { value: x.toNumber(unit), unit };
+    }
+  }
+  const own = x.formatUnits();
+  if (own === "") return { value: x.toSI().toNumber(), unit: "" };
+  return { value: x.toNumber(), unit: own };
+}
