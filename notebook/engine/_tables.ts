@@ -1,15 +1,32 @@
 /**
  * Turning table blocks into table values: column kinds from the header (`name [unit]`,
  * `name [type]`), numbers and values read cell by cell with positioned problems, and
- * tables read from a CSV file beside the notebook.
+ * tables read from a CSV file beside the notebook, either all at once or streamed through
+ * csv-parse record by record into typed column arrays.
+ *
+ * Header convention, inline and in a CSV file alike: `name [unit]` for a quantity
+ * (`sph [D]`, `axis [deg]`, `vd [mm]`), `name [number]` or `[logMAR]`, `[letters]`,
+ * `[decimal]` for plain numbers, `name [text]`, or a value type (`rx [rx]`). A column of a
+ * notebook table block overrides the CSV header's bracket by name. A refraction column
+ * (sph, cyl, axis, add) must say its unit; other columns without a bracket are read as
+ * numbers when their first rows are all numbers, else as text.
+ *
+ * Every row that cannot be read is reported with its position and reason. With
+ * `bad rows: skip` such rows are excluded and counted; otherwise (the default) the table
+ * fails. Sphere, cylinder and axis values outside their ranges are bad rows; a cylinder
+ * column that mixes signs is accepted and the rows in the other form are transposed to the
+ * form of the first cylinder met (the same lens), with a note saying so.
  *
  * @module
  */
 
 import { parse as parseCsv } from "csv-parse/sync";
+import { parse as parseCsvStream } from "csv-parse";
 import { Column, makeTable, type TableValue } from "../../cells/table.ts";
 import { getValueType, listValueTypes } from "../../cells/types.ts";
 import type { Language } from "../../cells/language.ts";
+import { CYLINDER_RANGE, SPHERE_RANGE } from "../../lib/prescription.ts";
+import { transpose } from "../../lib/transpose.ts";
 import type { ColumnDef, TableBlock } from "../format/parse.ts";
 
 /** Labels accepted in a header for dimensionless numeric columns. */
@@ -41,6 +58,8 @@ export type ColumnKind =
 export interface TableHost {
   /** Read a text file, path relative to the notebook; throws when it cannot. */
   readText(path: string): string;
+  /** Open a file for streaming, path relative to the notebook (for `Notebook.load`). */
+  open?(path: string): AsyncIterable<Uint8Array>;
 }
 
 /** Table data before conversion: header and rows of text with positions. */
@@ -54,6 +73,37 @@ export interface RawTable {
   /** 1-based line of the header in that file. */
   readonly headerLine: number;
 }
+
+/** A table read and converted, or the problems that stopped it. */
+export interface BuiltTable {
+  /** The value, absent when the table failed. */
+  readonly value?: TableValue;
+  /** Every problem, rows' and header's. */
+  readonly problems: TableProblem[];
+  /** Notes that change nothing silently: normalised rows, excluded rows. */
+  readonly notes: TableProblem[];
+  /** Rows excluded (with `bad rows: skip`). */
+  readonly excluded: number;
+}
+
+/**
+ * Refraction columns that must carry a unit, by lower-case name, with the unit expected
+ * and the accepted range in that unit. Source: common-practice (ranges as the prescription
+ * parser accepts them).
+ */
+export const REFRACTION_COLUMNS: Readonly<
+  Record<
+    string,
+    { unit: string; range: readonly [number, number]; role: "sph" | "cyl" | "axis" | "add" }
+  >
+> = {
+  sph: { unit: "D", range: SPHERE_RANGE, role: "sph" },
+  sphere: { unit: "D", range: SPHERE_RANGE, role: "sph" },
+  cyl: { unit: "D", range: CYLINDER_RANGE, role: "cyl" },
+  cylinder: { unit: "D", range: CYLINDER_RANGE, role: "cyl" },
+  axis: { unit: "deg", range: [0, 180], role: "axis" },
+  add: { unit: "D", range: [0, 6], role: "add" },
+};
 
 /**
  * The kind of a column from its bracketed spec, or an error message.
@@ -81,6 +131,279 @@ export function readNumber(text: string): number | undefined {
   return NUMBER.test(text) ? Number(text) : undefined;
 }
 
+/** A growable Float64Array. */
+class NumberBuffer {
+  data = new Float64Array(1024);
+  length = 0;
+  push(x: number): void {
+    if (this.length === this.data.length) {
+      const next = new Float64Array(this.data.length * 2);
+      next.set(this.data);
+      this.data = next;
+    }
+    this.data[this.length++] = x;
+  }
+  take(): Float64Array {
+    const out = this.data.slice(0, this.length);
+    this.length = 0;
+    return out;
+  }
+}
+
+/** Header problems and the resolved kinds of a table's columns. */
+function resolveKinds(
+  columns: readonly ColumnDef[],
+  sample: readonly (readonly string[])[],
+  lang: Language,
+  file: string,
+  headerLine: number,
+): { kinds: ColumnKind[]; problems: TableProblem[] } {
+  const problems: TableProblem[] = [];
+  const at = (c: ColumnDef, message: string) =>
+    problems.push({ file, line: headerLine, col: c.col, message: `column ${c.name}: ${message}` });
+  const seen = new Set<string>();
+  const kinds = columns.map((c, ci): ColumnKind => {
+    if (seen.has(c.name)) at(c, "appears twice in the header");
+    seen.add(c.name);
+    const k = columnKind(c.spec, lang);
+    if (typeof k === "string") {
+      at(c, k);
+      return { type: "text" };
+    }
+    const rule = REFRACTION_COLUMNS[c.name.toLowerCase()];
+    if (rule && k.type === "infer") {
+      at(
+        c,
+        `a refraction column needs its unit: write ${c.name} [${rule.unit}] in the header, or declare it in the table block`,
+      );
+      return { type: "text" };
+    }
+    if (k.type !== "infer") return k;
+    const numeric = sample.every((r) => readNumber(r[ci] ?? "") !== undefined);
+    return numeric ? { type: "number", unit: "" } : { type: "text" };
+  });
+  return { kinds, problems };
+}
+
+/**
+ * Converts rows of text into typed columns, one row at a time: checks each cell, applies
+ * the refraction ranges and the cylinder-form rule, and keeps problems and notes. Columns
+ * can be taken in chunks (streaming) or all at the end.
+ */
+export class TableBuilder {
+  /** Problems found so far. */
+  readonly problems: TableProblem[] = [];
+  /** Rows seen so far (good and bad). */
+  rowsSeen = 0;
+  /** Bad rows so far. */
+  badRows = 0;
+  /** Rows transposed to the table's cylinder form. */
+  transposed = 0;
+  readonly #transposedRows: number[] = [];
+  readonly #badRowNumbers: number[] = [];
+  readonly #nums: (NumberBuffer | undefined)[];
+  readonly #vals: (unknown[] | undefined)[];
+  readonly #parsed: unknown[];
+  readonly #sph: number;
+  readonly #cyl: number;
+  readonly #axis: number;
+  #cylSign = 0;
+  #cylSignRow = 0;
+
+  /**
+   * @param columns header; @param kinds resolved kinds (no "infer"); @param file where
+   * positions point; @param keepProblems cap on problems kept (all are counted).
+   */
+  constructor(
+    readonly columns: readonly ColumnDef[],
+    readonly kinds: readonly ColumnKind[],
+    readonly file: string,
+    readonly keepProblems = 1000,
+  ) {
+    this.#nums = kinds.map((k) =>
+      k.type === "quantity" || k.type === "number" ? new NumberBuffer() : undefined
+    );
+    this.#vals = kinds.map((k) => (k.type === "quantity" || k.type === "number" ? undefined : []));
+    this.#parsed = new Array(kinds.length);
+    const role = (r: string) =>
+      columns.findIndex((c, i) =>
+        REFRACTION_COLUMNS[c.name.toLowerCase()]?.role === r && kinds[i].type === "quantity"
+      );
+    this.#sph = role("sph");
+    this.#cyl = role("cyl");
+    this.#axis = role("axis");
+  }
+
+  #problem(p: TableProblem): void {
+    if (this.problems.length < this.keepProblems) this.problems.push(p);
+  }
+
+  /** Add one row of text; returns false when the row is bad. */
+  add(cells: readonly string[], line: number, cols?: readonly number[]): boolean {
+    const ri = this.rowsSeen++;
+    const n = this.columns.length;
+    let bad = false;
+    if (cells.length !== n) {
+      this.#problem({
+        file: this.file,
+        line,
+        col: 1,
+        row: ri,
+        message: `row has ${cells.length} field${
+          cells.length === 1 ? "" : "s"
+        }, the header has ${n}`,
+      });
+      bad = true;
+    } else {
+      for (let ci = 0; ci < n; ci++) {
+        const k = this.kinds[ci];
+        const text = cells[ci];
+        const col = this.columns[ci];
+        const at = (message: string) => {
+          this.#problem({ file: this.file, line, col: cols?.[ci] ?? ci + 1, row: ri, message });
+          bad = true;
+        };
+        if (k.type === "quantity" || k.type === "number") {
+          const x = readNumber(text);
+          if (x === undefined) {
+            at(`column ${col.name}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`);
+            this.#parsed[ci] = NaN;
+            continue;
+          }
+          const rule = REFRACTION_COLUMNS[col.name.toLowerCase()];
+          if (rule && k.type === "quantity" && k.unit === rule.unit && !Number.isNaN(x)) {
+            if (x < rule.range[0] || x > rule.range[1]) {
+              at(
+                `column ${col.name}: ${text} ${k.unit} is outside the accepted range ${
+                  rule.range[0]
+                } to ${rule.range[1]} ${k.unit}`,
+              );
+            }
+          }
+          this.#parsed[ci] = x;
+        } else if (k.type === "value") {
+          const t = getValueType(k.name)!;
+          try {
+            this.#parsed[ci] = text === "" ? null : t.fromText ? t.fromText(text) : text;
+          } catch (e) {
+            at(`column ${col.name}: ${(e as Error).message}`);
+          }
+        } else this.#parsed[ci] = text;
+      }
+    }
+    if (bad) {
+      this.badRows++;
+      if (this.#badRowNumbers.length < 20) this.#badRowNumbers.push(ri + 1);
+      return false;
+    }
+    this.#normaliseCylinder(ri);
+    for (let ci = 0; ci < n; ci++) {
+      const b = this.#nums[ci];
+      if (b) b.push(this.#parsed[ci] as number);
+      else this.#vals[ci]!.push(this.#parsed[ci]);
+    }
+    return true;
+  }
+
+  #normaliseCylinder(ri: number): void {
+    if (this.#cyl < 0) return;
+    const c = this.#parsed[this.#cyl] as number;
+    if (!(c !== 0 && Number.isFinite(c))) return;
+    const sign = Math.sign(c);
+    if (this.#cylSign === 0) {
+      this.#cylSign = sign;
+      this.#cylSignRow = ri + 1;
+      return;
+    }
+    if (sign === this.#cylSign || this.#sph < 0 || this.#axis < 0) return;
+    const t = transpose({
+      sphere: this.#parsed[this.#sph] as number,
+      cylinder: c,
+      axis: this.#parsed[this.#axis] as number,
+    });
+    this.#parsed[this.#sph] = t.sphere;
+    this.#parsed[this.#cyl] = t.cylinder;
+    this.#parsed[this.#axis] = t.axis;
+    this.transposed++;
+    if (this.#transposedRows.length < 10) this.#transposedRows.push(ri + 1);
+  }
+
+  /** Rows held and not yet taken. */
+  get pending(): number {
+    const b = this.#nums.find((x) => x);
+    return b ? b.length : (this.#vals.find((x) => x)?.length ?? 0);
+  }
+
+  /** Take the good rows held so far as columns (and start a new chunk). */
+  take(): Column[] {
+    return this.columns.map((c, ci) => {
+      const k = this.kinds[ci];
+      const b = this.#nums[ci];
+      if (b) {
+        const data = b.take();
+        return k.type === "quantity"
+          ? new Column(c.name, "quantity", k.unit, data)
+          : new Column(c.name, "number", (k as { unit: string }).unit, data);
+      }
+      const vals = this.#vals[ci]!;
+      this.#vals[ci] = [];
+      return new Column(c.name, k.type === "value" ? k.name : "text", "", vals);
+    });
+  }
+
+  /** Notes on what was accepted and changed, positioned at `where`. */
+  notes(
+    tableName: string,
+    where: { file: string; line: number; col: number },
+    withBadRows = true,
+  ): TableProblem[] {
+    const out: TableProblem[] = [];
+    if (this.transposed) {
+      const cyl = this.columns[this.#cyl].name;
+      const form = this.#cylSign < 0 ? "minus" : "plus";
+      const other = this.#cylSign < 0 ? "plus" : "minus";
+      const rows = this.#transposedRows.join(", ") + (this.transposed > 10 ? ", …" : "");
+      out.push({
+        ...where,
+        message:
+          `table ${tableName}: column ${cyl} mixes cylinder signs; ${this.transposed} row${
+            this.transposed === 1 ? "" : "s"
+          } in ${other}-cylinder form (row ${rows}) ${
+            this.transposed === 1 ? "was" : "were"
+          } transposed to ${form}-cylinder form, ` +
+          `the form of row ${this.#cylSignRow} (the same lenses)`,
+      });
+    }
+    if (this.badRows && withBadRows) {
+      const rows = this.#badRowNumbers.join(", ") + (this.badRows > 20 ? ", …" : "");
+      out.push({
+        ...where,
+        message: `table ${tableName}: ${this.badRows} bad row${
+          this.badRows === 1 ? "" : "s"
+        } (row ${rows}) of ${this.rowsSeen}`,
+      });
+    }
+    return out;
+  }
+}
+
+function finish(
+  name: string,
+  builder: TableBuilder,
+  headerProblems: TableProblem[],
+  skipBad: boolean,
+  where: { file: string; line: number; col: number },
+  extra: { file?: string },
+): BuiltTable {
+  const problems = [...headerProblems, ...builder.problems];
+  const notes = builder.notes(name, where, skipBad);
+  if (headerProblems.length || (builder.badRows && !skipBad)) {
+    return { problems, notes, excluded: 0 };
+  }
+  const value = makeTable(name, builder.take(), { excluded: builder.badRows, file: extra.file });
+  return { value, problems, notes, excluded: builder.badRows };
+}
+
 /**
  * Convert raw table text into a table value. Rows with problems are reported; with
  * `skipBad` they are excluded and counted, otherwise the table fails with every problem.
@@ -90,110 +413,85 @@ export function buildTable(
   raw: RawTable,
   lang: Language,
   skipBad: boolean,
-  extra: { file?: string } = {},
-): { value?: TableValue; problems: TableProblem[]; excluded: number } {
-  const problems: TableProblem[] = [];
-  const kinds: ColumnKind[] = raw.columns.map((c) => {
-    const k = columnKind(c.spec, lang);
-    if (typeof k === "string") {
-      problems.push({
-        file: raw.file,
-        line: raw.headerLine,
-        col: c.col,
-        message: `column ${c.name}: ${k}`,
-      });
-      return { type: "text" };
-    }
-    return k;
-  });
-  // Inferred columns: numeric when every non-empty cell is a number.
-  const resolved: ColumnKind[] = kinds.map((k, ci) => {
-    if (k.type !== "infer") return k;
-    const numeric = raw.rows.every((r) => readNumber(r.cells[ci] ?? "") !== undefined);
-    return numeric ? { type: "number", unit: "" } : { type: "text" };
-  });
-  const badRows = new Set<number>();
-  const values: unknown[][] = raw.columns.map(() => []);
-  raw.rows.forEach((r, ri) => {
-    if (r.cells.length !== raw.columns.length) {
-      problems.push({
-        file: raw.file,
-        line: r.line,
-        col: 1,
-        row: ri,
-        message: `row has ${r.cells.length} field${
-          r.cells.length === 1 ? "" : "s"
-        }, the header has ${raw.columns.length}`,
-      });
-      badRows.add(ri);
-      return;
-    }
-    resolved.forEach((k, ci) => {
-      const text = r.cells[ci];
-      const at = (message: string) => {
-        problems.push({ file: raw.file, line: r.line, col: r.cols[ci] ?? 1, row: ri, message });
-        badRows.add(ri);
-      };
-      const col = raw.columns[ci];
-      if (k.type === "quantity" || k.type === "number") {
-        const n = readNumber(text);
-        if (n === undefined) {
-          at(`column ${col.name}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`);
-        }
-        values[ci][ri] = n ?? NaN;
-      } else if (k.type === "value") {
-        const t = getValueType(k.name)!;
-        try {
-          values[ci][ri] = text === "" ? null : t.fromText ? t.fromText(text) : text;
-        } catch (e) {
-          at(`column ${col.name}: ${(e as Error).message}`);
-          values[ci][ri] = null;
-        }
-      } else values[ci][ri] = text;
-    });
-  });
-  const headerProblems = problems.filter((p) => p.row === undefined);
-  if (headerProblems.length || (badRows.size && !skipBad)) return { problems, excluded: 0 };
-  const keep = raw.rows.map((_, i) => i).filter((i) => !badRows.has(i));
-  const columns = raw.columns.map((c, ci) => {
-    const k = resolved[ci];
-    const vals = keep.map((i) => values[ci][i]);
-    if (k.type === "quantity") {
-      return new Column(c.name, "quantity", k.unit, Float64Array.from(vals as number[]));
-    }
-    if (k.type === "number") {
-      return new Column(c.name, "number", k.unit, Float64Array.from(vals as number[]));
-    }
-    if (k.type === "value") return new Column(c.name, k.name, "", vals);
-    return new Column(c.name, "text", "", vals);
-  });
-  const excluded = badRows.size;
-  return { value: makeTable(name, columns, { excluded, file: extra.file }), problems, excluded };
+  extra: { file?: string; where?: { file: string; line: number; col: number } } = {},
+): BuiltTable {
+  const { kinds, problems } = resolveKinds(
+    raw.columns,
+    raw.rows.map((r) => r.cells),
+    lang,
+    raw.file,
+    raw.headerLine,
+  );
+  const builder = new TableBuilder(raw.columns, kinds, raw.file, Infinity);
+  for (const r of raw.rows) builder.add(r.cells, r.line, r.cols);
+  const where = extra.where ?? { file: raw.file, line: raw.headerLine, col: 1 };
+  return finish(name, builder, problems, skipBad, where, extra);
+}
+
+/** Whether a table file path is a plain path beside the notebook. */
+function plainPath(path: string): boolean {
+  return !(path.includes("..") || path.startsWith("/") || /^[A-Za-z]:/.test(path));
 }
 
 /**
- * Read the raw text of a table block: inline rows, or a CSV file named by `file:`.
- * Header conventions in a CSV are the same as inline: `sph [D],cyl [D],axis [deg]`.
- * Columns declared in the block override the CSV header's specs by name.
+ * Column definitions from a CSV header line: `name [spec]` cells, with the table block's
+ * declared columns overriding specs by name. Declared columns missing from the file are
+ * problems.
  */
-export function readRawTable(
+export function csvColumns(
+  header: readonly string[],
   block: TableBlock,
   notebookFile: string,
-  host: TableHost,
-): { raw?: RawTable; problem?: TableProblem } {
-  const fileOpt = block.options.file;
-  if (!fileOpt) {
-    return {
-      raw: {
-        columns: block.columns.map((c) => ({ ...c })),
-        rows: block.rows.map((r) => ({ cells: r.cells, line: r.line, cols: r.cols })),
+  path: string,
+): { columns: ColumnDef[]; problems: TableProblem[] } {
+  const declared = new Map(block.columns.map((c) => [c.name, c]));
+  const problems: TableProblem[] = [];
+  const columns: ColumnDef[] = header.map((h, i) => {
+    const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[([^\]]*)\])?\s*$/.exec(h);
+    if (!m) {
+      problems.push({
+        file: path,
+        line: 1,
+        col: i + 1,
+        message: `header cell "${h}" should be a name, optionally with [unit] (letters, digits, _)`,
+      });
+    }
+    const name = m ? m[1] : h.trim() || `column${i + 1}`;
+    const spec = declared.get(name)?.spec ?? (m?.[2] ?? "").trim();
+    return { name, spec, col: i + 1 };
+  });
+  const names = new Set(columns.map((c) => c.name));
+  for (const d of block.columns) {
+    if (!names.has(d.name)) {
+      problems.push({
         file: notebookFile,
-        headerLine: block.headerLine,
-      },
-    };
+        line: block.headerLine,
+        col: d.col,
+        message: `column ${d.name} is declared but ${path} has no such column (its header has: ${
+          [...names].join(", ")
+        })`,
+      });
+    }
   }
+  return { columns, problems };
+}
+
+function csvError(path: string, e: unknown): TableProblem {
+  const err = e as Error & { lines?: number; code?: string };
+  const why = err.code === "CSV_QUOTE_NOT_CLOSED"
+    ? "a quoted field is never closed (the file ends inside quotes)"
+    : err.message.replace(/^Invalid Record Length: |^Quote Not Closed: /, "");
+  return { file: path, line: err.lines ?? 1, col: 1, message: `CSV cannot be read: ${why}` };
+}
+
+/** The `file:` option of a block checked, or a problem. */
+function tableFile(
+  block: TableBlock,
+  notebookFile: string,
+): { path?: string; problem?: TableProblem } {
+  const fileOpt = block.options.file!;
   const path = fileOpt.value;
-  if (path.includes("..") || path.startsWith("/") || /^[A-Za-z]:/.test(path)) {
+  if (!plainPath(path)) {
     return {
       problem: {
         file: notebookFile,
@@ -204,42 +502,190 @@ export function readRawTable(
       },
     };
   }
-  let text: string;
-  try {
-    text = host.readText(path);
-  } catch (e) {
-    const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
+  return { path };
+}
+
+function unreadable(block: TableBlock, notebookFile: string, path: string, e: unknown) {
+  const fileOpt = block.options.file!;
+  const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
+  return {
+    file: notebookFile,
+    line: fileOpt.line,
+    col: fileOpt.col,
+    message: `cannot read table file "${path}": ${why}`,
+  };
+}
+
+/** csv-parse options shared by the whole-file and the streamed readers (RFC 4180 and BOM). */
+const CSV_OPTIONS = {
+  info: true,
+  relax_column_count: true,
+  skip_empty_lines: true,
+  bom: true,
+  trim: true,
+} as const;
+
+/**
+ * Read the raw text of a table block: inline rows, or a CSV file named by `file:`.
+ * Header conventions in a CSV are the same as inline: `sph [D],cyl [D],axis [deg]`.
+ * Columns declared in the block override the CSV header's specs by name.
+ */
+export function readRawTable(
+  block: TableBlock,
+  notebookFile: string,
+  host: TableHost,
+): { raw?: RawTable; problem?: TableProblem; problems?: TableProblem[] } {
+  if (!block.options.file) {
     return {
-      problem: {
+      raw: {
+        columns: block.columns.map((c) => ({ ...c })),
+        rows: block.rows.map((r) => ({ cells: r.cells, line: r.line, cols: r.cols })),
         file: notebookFile,
-        line: fileOpt.line,
-        col: fileOpt.col,
-        message: `cannot read table file "${path}": ${why}`,
+        headerLine: block.headerLine,
       },
     };
+  }
+  const { path, problem } = tableFile(block, notebookFile);
+  if (problem) return { problem };
+  let text: string;
+  try {
+    text = host.readText(path!);
+  } catch (e) {
+    return { problem: unreadable(block, notebookFile, path!, e) };
   }
   let records: { record: string[]; info: { lines: number } }[];
   try {
-    records = parseCsv(text, {
-      info: true,
-      relax_column_count: true,
-      skip_empty_lines: true,
-      bom: true,
-    }) as unknown as { record: string[]; info: { lines: number } }[];
+    records = parseCsv(text, CSV_OPTIONS) as unknown as {
+      record: string[];
+      info: { lines: number };
+    }[];
   } catch (e) {
-    const err = e as Error & { lines?: number };
+    return { problem: csvError(path!, e) };
+  }
+  if (!records.length) {
     return {
       problem: {
-        file: path,
-        line: err.lines ?? 1,
+        file: path!,
+        line: 1,
         col: 1,
-        message: `CSV cannot be read: ${
-          err.message.replace(/^Invalid Record Length: |^Quote Not Closed: /, "")
-        }`,
+        message: "CSV file is empty (expected a header line)",
       },
     };
   }
-  if (!records.length) {
+  const { columns, problems } = csvColumns(records[0].record, block, notebookFile, path!);
+  if (problems.length) return { problem: problems[0], problems };
+  const rows = records.slice(1).map((r) => ({
+    cells: r.record,
+    line: r.info.lines,
+    cols: r.record.map((_, i) => i + 1),
+  }));
+  return { raw: { columns, rows, file: path!, headerLine: 1 } };
+}
+
+/** One CSV record with the line it ends on. */
+export interface CsvRecord {
+  /** Fields, trimmed. */
+  readonly cells: string[];
+  /** 1-based line where the record ends. */
+  readonly line: number;
+}
+
+/**
+ * Stream the records of CSV bytes through csv-parse, in batches (bounded memory).
+ * Throws a {@linkcode TableProblem}-shaped error object on a CSV that cannot be read.
+ *
+ * @example
+ * ```ts ignore
+ * for await (const batch of csvBatches(Deno.open("a.csv").readable, "a.csv")) console.log(batch.length);
+ * ```
+ */
+export async function* csvBatches(
+  source: AsyncIterable<Uint8Array>,
+  path: string,
+  batchSize = 4096,
+): AsyncGenerator<CsvRecord[]> {
+  const parser = parseCsvStream(CSV_OPTIONS);
+  const pump = (async () => {
+    try {
+      for await (const chunk of source) {
+        if (parser.destroyed) break;
+        if (!parser.write(chunk)) {
+          await new Promise<void>((r) => {
+            if (parser.destroyed) return r();
+            parser.once("drain", r);
+            parser.once("close", r);
+          });
+        }
+      }
+      if (!parser.destroyed) parser.end();
+    } catch (e) {
+      parser.destroy(e as Error);
+    }
+  })();
+  let batch: CsvRecord[] = [];
+  try {
+    for await (const r of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) {
+      batch.push({ cells: r.record, line: r.info.lines });
+      if (batch.length >= batchSize) {
+        yield batch;
+        batch = [];
+      }
+    }
+  } catch (e) {
+    throw new CsvReadError(csvError(path, e));
+  } finally {
+    if (!parser.writableEnded) parser.destroy();
+    await pump;
+  }
+  if (batch.length) yield batch;
+}
+
+/** A CSV file that cannot be read past a point (e.g. it ends inside quotes). */
+export class CsvReadError extends Error {
+  /** @param problem where and why. */
+  constructor(readonly problem: TableProblem) {
+    super(problem.message);
+    this.name = "CsvReadError";
+  }
+}
+
+/** What a streamed CSV table looks like before its rows: header, kinds, and a builder. */
+export interface CsvTableStart {
+  /** Header columns. */
+  readonly columns: ColumnDef[];
+  /** The builder rows go into. */
+  readonly builder: TableBuilder;
+  /** Header problems (the table cannot be used when there are any). */
+  readonly problems: TableProblem[];
+}
+
+/**
+ * Open a CSV table block for streaming: reads the header and the first batch (to infer
+ * the kind of columns without a bracket), and returns the builder holding that batch and
+ * an iterator over the rest.
+ */
+export async function openCsvTable(
+  block: TableBlock,
+  notebookFile: string,
+  source: AsyncIterable<Uint8Array>,
+  lang: Language,
+  batchSize = 4096,
+): Promise<
+  { start: CsvTableStart; rest: AsyncIterator<CsvRecord[]>; path: string } | {
+    problem: TableProblem;
+  }
+> {
+  const path = block.options.file!.value;
+  const it = csvBatches(source, path, batchSize)[Symbol.asyncIterator]();
+  let first: CsvRecord[] = [];
+  try {
+    const r = await it.next();
+    if (!r.done) first = r.value;
+  } catch (e) {
+    if (e instanceof CsvReadError) return { problem: e.problem };
+    throw e;
+  }
+  if (!first.length) {
     return {
       problem: {
         file: path,
@@ -249,18 +695,60 @@ export function readRawTable(
       },
     };
   }
-  const header = records[0].record;
-  const declared = new Map(block.columns.map((c) => [c.name, c]));
-  const columns: ColumnDef[] = header.map((h, i) => {
-    const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[([^\]]*)\])?\s*$/.exec(h);
-    const name = m ? m[1] : h.trim() || `column${i + 1}`;
-    const spec = declared.get(name)?.spec ?? (m?.[2] ?? "").trim();
-    return { name, spec, col: i + 1 };
-  });
-  const rows = records.slice(1).map((r) => ({
-    cells: r.record.map((c) => c.trim()),
-    line: r.info.lines,
-    cols: r.record.map((_, i) => i + 1),
-  }));
-  return { raw: { columns, rows, file: path, headerLine: 1 } };
+  const header = csvColumns(first[0].cells, block, notebookFile, path);
+  const rows = first.slice(1);
+  const { kinds, problems } = resolveKinds(
+    header.columns,
+    rows.map((r) => r.cells),
+    lang,
+    path,
+    1,
+  );
+  const builder = new TableBuilder(header.columns, kinds, path);
+  const all = [...header.problems, ...problems];
+  if (!all.length) { for (const r of rows) builder.add(r.cells, r.line); }
+  return { start: { columns: header.columns, builder, problems: all }, rest: it, path };
+}
+
+/**
+ * Read a CSV table block fully by streaming (for `Notebook.load`): the file is never held
+ * as text, rows go straight into typed column arrays.
+ */
+export async function readCsvTableStreamed(
+  block: TableBlock,
+  notebookFile: string,
+  host: TableHost,
+  lang: Language,
+): Promise<{ columns: ColumnDef[]; built?: BuiltTable; problem?: TableProblem }> {
+  const { path, problem } = tableFile(block, notebookFile);
+  if (problem) return { columns: [], problem };
+  let source: AsyncIterable<Uint8Array>;
+  try {
+    source = host.open!(path!);
+  } catch (e) {
+    return { columns: [], problem: unreadable(block, notebookFile, path!, e) };
+  }
+  let opened;
+  try {
+    opened = await openCsvTable(block, notebookFile, source, lang);
+  } catch (e) {
+    return { columns: [], problem: unreadable(block, notebookFile, path!, e) };
+  }
+  if ("problem" in opened) return { columns: [], problem: opened.problem };
+  const { start, rest } = opened;
+  if (start.problems.length) {
+    return { columns: start.columns, problem: start.problems[0] };
+  }
+  try {
+    for (let r = await rest.next(); !r.done; r = await rest.next()) {
+      for (const rec of r.value) start.builder.add(rec.cells, rec.line);
+    }
+  } catch (e) {
+    if (e instanceof CsvReadError) return { columns: start.columns, problem: e.problem };
+    throw e;
+  }
+  const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase() === "skip";
+  const where = { file: notebookFile, line: block.line, col: block.col };
+  const built = finish(block.name, start.builder, [], skip, where, { file: path });
+  return { columns: start.columns, built };
 }

@@ -19,7 +19,13 @@
 
 import type { MathNode } from "mathjs";
 import { getLanguage, type Language, LENTIL_UNITS } from "../../cells/language.ts";
-import { addColumn, type Column, makeTable, tableInfo, type TableValue } from "../../cells/table.ts";
+import {
+  addColumn,
+  type Column,
+  makeTable,
+  tableInfo,
+  type TableValue,
+} from "../../cells/table.ts";
 import { DEFAULT_DISPLAY, type DisplayOptions } from "../../cells/types.ts";
 import { listSources } from "../../shared/sources.ts";
 import type { Diagnostic } from "../format/diagnostic.ts";
@@ -27,7 +33,16 @@ import { type CellDef, type NotebookDoc, parseNotebook, type TableBlock } from "
 import { analyse, type Analysis, type TableShape } from "./_analyse.ts";
 import { DependencyGraph } from "./graph.ts";
 import { planColumn } from "./_columns.ts";
-import { buildTable, type RawTable, readRawTable, type TableHost } from "./_tables.ts";
+import {
+  buildTable,
+  type BuiltTable,
+  type RawTable,
+  readCsvTableStreamed,
+  readRawTable,
+  type TableHost,
+  type TableProblem,
+} from "./_tables.ts";
+import type { ColumnDef } from "../format/parse.ts";
 
 /** Why a node has no value. */
 export type ErrorKind =
@@ -96,6 +111,18 @@ export interface NotebookOptions {
   readonly host?: TableHost;
   /** Language instance (default: the shared one). */
   readonly language?: Language;
+  /** CSV tables already read (by {@linkcode Notebook.load}), by table name. */
+  readonly tables?: ReadonlyMap<string, PreparedTable>;
+}
+
+/** A CSV table read before the notebook is built. */
+export interface PreparedTable {
+  /** Header columns. */
+  readonly columns: readonly ColumnDef[];
+  /** The converted table, when the file could be read. */
+  readonly built?: BuiltTable;
+  /** Why the file could not be read. */
+  readonly problem?: TableProblem;
 }
 
 interface NodeDef {
@@ -142,6 +169,7 @@ export class Notebook {
   readonly display: DisplayOptions;
   readonly #lang: Language;
   readonly #host: TableHost;
+  readonly #preloaded?: ReadonlyMap<string, PreparedTable>;
   readonly #nodes = new Map<string, NodeDef>();
   readonly #state = new Map<string, NodeState>();
   readonly #scope = new Map<string, unknown>();
@@ -164,10 +192,38 @@ export class Notebook {
     return nb;
   }
 
+  /**
+   * Parse a notebook, stream its CSV tables through csv-parse (through `host.open`, never
+   * holding a file as text), and evaluate it.
+   *
+   * @example
+   * ```ts ignore
+   * const nb = await Notebook.load(text, "study.lentil.md", { host });
+   * ```
+   */
+  static async load(text: string, file: string, options: NotebookOptions = {}): Promise<Notebook> {
+    const doc = parseNotebook(text, file);
+    const lang = options.language ?? getLanguage();
+    const tables = new Map<string, PreparedTable>(options.tables ?? []);
+    const host = options.host;
+    if (host?.open) {
+      const seen = new Set<string>();
+      for (const block of doc.tables) {
+        if (seen.has(block.name) || !block.options.file || tables.has(block.name)) continue;
+        seen.add(block.name);
+        tables.set(block.name, await readCsvTableStreamed(block, file, host, lang));
+      }
+    }
+    const nb = new Notebook(doc, { ...options, tables });
+    nb.evaluateAll();
+    return nb;
+  }
+
   /** Prepare a parsed notebook; call {@linkcode evaluateAll} to evaluate. */
   constructor(doc: NotebookDoc, options: NotebookOptions = {}) {
     this.doc = doc;
     this.#lang = options.language ?? getLanguage();
+    this.#preloaded = options.tables;
     this.#host = options.host ?? {
       readText: () => {
         throw new Error("no folder to read table files from");
@@ -271,19 +327,6 @@ export class Notebook {
 
   #loadTable(node: NodeDef): void {
     const block = node.block!;
-    const { raw, problem } = readRawTable(block, this.doc.file, this.#host);
-    node.raw = raw;
-    if (problem) {
-      node.defError ??= {
-        kind: "data",
-        message: problem.message,
-        file: problem.file,
-        line: problem.line,
-        col: problem.col,
-      };
-      this.#staticDiagnostics.push({ ...problem, severity: "error" });
-      return;
-    }
     const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase();
     if (!["stop", "skip"].includes(skip)) {
       const o = block.options["bad rows"]!;
@@ -295,34 +338,71 @@ export class Notebook {
         severity: "error",
       });
     }
-    const built = buildTable(block.name, raw!, this.#lang, skip === "skip", {
-      file: block.options.file?.value,
-    });
-    for (const p of built.problems) {
+    let problems: TableProblem[] = [];
+    let built: BuiltTable | undefined;
+    const pre = node.id === block.name ? this.#preloaded?.get(block.name) : undefined;
+    if (pre) {
+      node.raw = { columns: pre.columns, rows: [], file: block.options.file!.value, headerLine: 1 };
+      if (pre.problem) problems = [pre.problem];
+      else built = pre.built;
+    } else {
+      const r = readRawTable(block, this.doc.file, this.#host);
+      node.raw = r.raw;
+      if (r.problem) problems = r.problems ?? [r.problem];
+      else {
+        built = buildTable(block.name, r.raw!, this.#lang, skip === "skip", {
+          file: block.options.file?.value,
+          where: { file: this.doc.file, line: block.line, col: block.col },
+        });
+      }
+    }
+    if (problems.length) {
+      const problem = problems[0];
+      node.defError ??= {
+        kind: "data",
+        message: problem.message,
+        file: problem.file,
+        line: problem.line,
+        col: problem.col,
+      };
+      for (const p of problems) this.#staticDiagnostics.push({ ...p, severity: "error" });
+      return;
+    }
+    for (const p of built!.problems) {
       this.#staticDiagnostics.push({
         file: p.file,
         line: p.line,
         col: p.col,
         message: p.message,
-        severity: built.value ? "warning" : "error",
+        severity: built!.value ? "warning" : "error",
       });
     }
-    if (!built.value) {
-      const first = built.problems[0];
-      const more = built.problems.length > 1
-        ? ` (and ${built.problems.length - 1} more problems)`
+    for (const p of built!.notes) {
+      this.#staticDiagnostics.push({
+        file: p.file,
+        line: p.line,
+        col: p.col,
+        message: p.message,
+        severity: "warning",
+      });
+    }
+    if (!built!.value) {
+      const first = built!.problems[0];
+      const more = built!.problems.length > 1
+        ? ` (and ${built!.problems.length - 1} more problems)`
         : "";
+      const row = first.row !== undefined ? `row ${first.row + 1}: ` : "";
       node.defError ??= {
         kind: "data",
-        message: `table ${block.name}: ${first.message}${more}`,
+        message: `table ${block.name}: ${row}${first.message}${more}`,
         file: first.file,
         line: first.line,
         col: first.col,
       };
       return;
     }
-    const info = tableInfo(built.value)!;
-    node.built = { columns: info.columns, excluded: built.excluded, file: info.file };
+    const info = tableInfo(built!.value)!;
+    node.built = { columns: info.columns, excluded: built!.excluded, file: info.file };
   }
 
   #shapes(): Map<string, TableShape> {
