@@ -6,6 +6,7 @@
 
 import { formatGoal, type Goal } from "./goal.ts";
 import * as engine from "./engine.ts";
+import * as exporting from "./export.ts";
 
 /** A bench module: measures, returns its goals and any lines of detail. */
 interface BenchModule {
@@ -14,6 +15,7 @@ interface BenchModule {
 
 const modules: [string, BenchModule][] = [
   ["engine", engine],
+  ["export", exporting],
 ];
 
 const goals: Goal[] = [];
