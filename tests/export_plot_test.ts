@@ -98,6 +98,16 @@ Deno.test("plot problems: unknown kind, table, column, option, cell; a text colu
   }
 });
 
+Deno.test("plot: `cell.part` reads a part of a record value", () => {
+  const base = T + "```calc\nk = 3\n```\n\n```plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\n";
+  const ok = one(base + "mark: k\n```\n");
+  assert.deepEqual(ok.problems, []);
+  const bad = one(base + "mark: k.endpoint\n```\n");
+  assert.ok(bad.problems.some((d) => /mark: k has no part "endpoint"/.test(d.message)));
+  const ghost = one(base + "mark: t.a\n```\n");
+  assert.ok(ghost.problems.some((d) => /no cell named "t" for mark/.test(d.message)));
+});
+
 Deno.test("plot: a cell that holds no curve is named as the problem", () => {
   const p = one(
     T +

@@ -87,7 +87,8 @@ export function pointsOf(v: unknown, depth = 0): XY[] | undefined {
 }
 
 /**
- * The outline of an ellipse given by its centre (`cx`, `cy`), semi-axes (`semiMajor`,
+ * The outline of an ellipse given by its centre (`cx`, `cy`, or `centreJ0`, `centreJ45`
+ * as the statistics cells give it), semi-axes (`semiMajor`,
  * `semiMinor`) and the major axis direction (`angle`, degrees from +x), traced at 96 points
  * for drawing. Undefined when the record is not such an ellipse.
  *
@@ -98,8 +99,8 @@ export function pointsOf(v: unknown, depth = 0): XY[] | undefined {
  * ```
  */
 export function outlineOf(o: Record<string, unknown>): XY[] | undefined {
-  const cx = num(o.cx);
-  const cy = num(o.cy);
+  const cx = num(o.cx) ?? num(o.centreJ0) ?? num(o.centreX) ?? num(o.centerX);
+  const cy = num(o.cy) ?? num(o.centreJ45) ?? num(o.centreY) ?? num(o.centerY);
   const a = num(o.semiMajor);
   const b = num(o.semiMinor);
   const angle = num(o.angle) ?? 0;

@@ -70,7 +70,7 @@ export const PLOT_OPTIONS: Readonly<Record<string, string>> = {
   "x-label": "label of the horizontal axis (default: the column and its unit)",
   "y-label": "label of the vertical axis",
   group: "column whose values colour the dots",
-  mark: "cell whose value marks a point or a power (curve)",
+  mark: "cell whose value marks a point or a power (curve); `cell.part` picks a part of a record",
   fit: "cell holding fitted curve points, drawn dashed (curve)",
   ellipse: "cell holding an outline, e.g. a confidence ellipse (scatter)",
   limits: "cell holding the bias and limits of agreement (agreement)",
@@ -141,16 +141,30 @@ function cellJson(ctx: Ctx, key: string): unknown {
   const name = opt(ctx, key);
   if (!name) return undefined;
   const o = ctx.block.options[key];
-  const r = ctx.nb.result(name);
-  if (!r) {
-    problem(ctx, `no cell named "${name}" for ${key}`, o);
+  // `cell` or `cell.part.part`: a part of a record value (e.g. `loa.J0`).
+  const [cellName, ...path] = name.split(".");
+  const r = ctx.nb.result(cellName);
+  if (!r || r.kind !== "cell") {
+    problem(ctx, `no cell named "${cellName}" for ${key}`, o);
     return undefined;
   }
   if (r.error) {
-    problem(ctx, `cell "${name}" for ${key} has an error: ${r.error.message}`, o);
+    problem(ctx, `cell "${cellName}" for ${key} has an error: ${r.error.message}`, o);
     return undefined;
   }
-  return ctx.nb.language.describe(r.value, ctx.nb.display).value;
+  let v = ctx.nb.language.describe(r.value, ctx.nb.display).value;
+  for (const [i, part] of path.entries()) {
+    const next = v !== null && typeof v === "object"
+      ? (v as Record<string, unknown>)[part]
+      : undefined;
+    if (next === undefined) {
+      const at = [cellName, ...path.slice(0, i)].join(".");
+      problem(ctx, `${key}: ${at} has no part "${part}"`, o);
+      return undefined;
+    }
+    v = next;
+  }
+  return v;
 }
 
 function axisLabel(ctx: Ctx, axis: "x" | "y", c: Column | undefined): string | undefined {
