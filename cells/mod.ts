@@ -19,6 +19,7 @@ import { LENS_FORMULAS } from "./lens.ts";
 import { ACUITY_FORMULAS } from "./acuity.ts";
 import { BLUR_FORMULAS } from "./blur.ts";
 import { ENDPOINT_FORMULAS } from "./endpoint.ts";
+import { STATS_FORMULAS } from "./stats.ts";
 
 /** Every formula and constant, checked for duplicate names. */
 export const CATALOGUE: Catalogue = buildCatalogue(
@@ -30,6 +31,7 @@ export const CATALOGUE: Catalogue = buildCatalogue(
     ...ACUITY_FORMULAS,
     ...BLUR_FORMULAS,
     ...ENDPOINT_FORMULAS,
+    ...STATS_FORMULAS,
   ],
   [
     ...CORE_CONSTANTS,

@@ -1,0 +1,110 @@
+import assert from "node:assert/strict";
+import * as ss from "simple-statistics";
+import { Notebook } from "../notebook/engine/engine.ts";
+import { getValueType } from "../cells/types.ts";
+import { getLanguage } from "../cells/language.ts";
+
+const lang = getLanguage();
+const num = (x: unknown, unit = "D") => lang.toNumberIn(x, unit);
+const close = (a: number, b: number, tol = 1e-12) =>
+  assert.ok(Math.abs(a - b) <= tol, `${a} vs ${b}`);
+
+const TABLE = [
+  "~~~table visits",
+  "eye [text] | sph [D] | cyl [D] | axis [deg] | sphB [D] | cylB [D] | axisB [deg] | va [logMAR]",
+  "R | +0.00 | +1.00 | 180 | -0.25 | +1.00 | 175 | 0.10",
+  "L | +0.00 | +1.00 | 90  | +0.25 | +0.75 | 95  | 0.00",
+  "R | -1.00 | -0.50 | 10  | -1.25 | -0.50 | 15  | 0.20",
+  "L | -2.00 | -0.75 | 170 | -2.00 | -0.50 | 165 | -0.10",
+  "~~~",
+].join("\n");
+
+function run(calc: string[]): Notebook {
+  return Notebook.fromText(TABLE + "\n\n~~~calc\n" + calc.join("\n") + "\n~~~\n", "s.lentil.md");
+}
+
+Deno.test("meanRx of +1.00 × 180 and +1.00 × 90 is a sphere of +0.50 D", () => {
+  // Thibos et al. 1997: averaging through power vectors
+  const nb = run(["avg = meanRx([0 D, 0 D], [1 D, 1 D], [180 deg, 90 deg])"]);
+  const m = nb.value("avg") as Record<string, unknown>;
+  close(num(m.sphere), 0.5);
+  close(num(m.cylinder), 0);
+  close(num(m.J0), 0);
+});
+
+Deno.test("summary of a column matches simple-statistics; summaryBy groups by eye", () => {
+  // checked against simple-statistics
+  const nb = run([
+    "s = summary(visits.va)",
+    "byEye = summaryBy(visits.va, visits.eye)",
+    "n = countOf(visits.va)",
+    "q = quantileOf(visits.va, 0.5)",
+  ]);
+  const va = [0.1, 0, 0.2, -0.1];
+  const s = nb.value("s") as Record<string, unknown>;
+  close(s.mean as number, ss.mean(va));
+  close(s.sd as number, ss.sampleStandardDeviation(va));
+  close(s.median as number, ss.median(va));
+  assert.equal(nb.value("n"), 4);
+  close(nb.value("q") as number, ss.median(va));
+  const by = nb.value("byEye") as Record<string, Record<string, unknown>>;
+  assert.deepEqual(Object.keys(by), ["R", "L"]);
+  close(by.R.mean as number, 0.15);
+  close(by.L.mean as number, -0.05);
+});
+
+Deno.test("vectorStats, ellipse95 and meanRxBy over three columns", () => {
+  // Thibos et al. 1997; χ² (2 d.f.) ellipse from any multivariate statistics text
+  const nb = run([
+    "v = vectorStats(visits.sph, visits.cyl, visits.axis)",
+    "ell = ellipse95(visits.sph, visits.cyl, visits.axis)",
+    "g = meanRxBy(visits.eye, visits.sph, visits.cyl, visits.axis)",
+  ]);
+  const v = nb.value("v") as Record<string, unknown>;
+  assert.equal(v.n, 4);
+  const e = nb.value("ell") as Record<string, unknown>;
+  close(num(e.centreJ0), num(v.meanJ0));
+  assert.ok(num(e.semiMajor) >= num(e.semiMinor));
+  const g = nb.value("g") as Record<string, Record<string, unknown>>;
+  assert.equal(g.R.n, 2);
+  assert.equal(nb.result("ell")?.sources.includes("chi2-ellipse"), true);
+});
+
+Deno.test("per-row vector differences compile, and rxAgreement gives limits on M, J0, J45", () => {
+  // Bland & Altman 1986 on power vectors (Thibos et al. 1997)
+  const nb = run([
+    "visits.dM = vectorM(sph, cyl) - vectorM(sphB, cylB)",
+    "visits.dJ0 = vectorJ0(cyl, axis) - vectorJ0(cylB, axisB)",
+    "agree = rxAgreement(visits.sph, visits.cyl, visits.axis, visits.sphB, visits.cylB, visits.axisB)",
+    "visits.zero = dM * 0",
+    "agreeM = agreement(visits.dM, visits.zero)",
+  ]);
+  assert.equal(nb.columnPath("visits.dM")?.path, "compiled");
+  const a = nb.value("agree") as Record<string, Record<string, unknown>>;
+  const d = nb.value("agreeM") as Record<string, unknown>;
+  assert.equal(nb.result("agreeM")?.error, undefined, nb.result("agreeM")?.error?.message);
+  close(num(a.M.bias), num(d.bias));
+  close(num(a.M.upper), num(d.upper));
+  close(num(a.M.upper) - num(a.M.bias), 1.96 * num(a.M.sd));
+});
+
+Deno.test("a prescription column works when the rx type is registered", () => {
+  // Thibos et al. 1997
+  if (!getValueType("rx")) return;
+  const text = [
+    "~~~table t",
+    "rx [rx]",
+    "+0.00 / +1.00 x 180",
+    "+0.00 / +1.00 x 90",
+    "~~~",
+    "~~~calc",
+    "avg = meanRx(t.rx)",
+    "~~~",
+    "",
+  ].join("\n");
+  const nb = Notebook.fromText(text, "rx.lentil.md");
+  const m = nb.value("avg") as Record<string, unknown>;
+  assert.ok(m, nb.result("avg")?.error?.message);
+  close(num(m.sphere), 0.5);
+  close(num(m.cylinder), 0);
+});
