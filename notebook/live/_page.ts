@@ -9,7 +9,8 @@ import { EXPORT_CSS } from "../export/style.ts";
 import { esc } from "./_markup.ts";
 
 /**
- * The page shell: a bar with the file's state and commands, and the notebook below.
+ * The page shell: a bar with the file's state and commands, and the notebook below. The
+ * token rides on the script and style addresses, since every request must carry it.
  *
  * @example
  * ```ts
@@ -17,15 +18,17 @@ import { esc } from "./_markup.ts";
  * pageHtml("Case <1>").includes("Case &lt;1&gt;"); // true
  * ```
  */
-export function pageHtml(title: string): string {
+export function pageHtml(title: string, token = ""): string {
+  const q = token ? `?t=${encodeURIComponent(token)}` : "";
   return `<!doctype html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
+<link rel="icon" href="data:,">
 <title>${esc(title)} · live</title>
-<link rel="stylesheet" href="style.css" id="lentil-style">
-<script src="client.js" defer id="lentil-script"></script>
+<link rel="stylesheet" href="style.css${q}" id="lentil-style">
+<script src="client.js${q}" defer id="lentil-script"></script>
 </head>
 <body>
 <header class="live-bar">

@@ -150,7 +150,7 @@ export async function startLiveServer(
     const key = `${req.method} ${url.pathname}`;
     switch (key) {
       case "GET /":
-        return respond(pageHtml(session.view.title), "text/html; charset=utf-8");
+        return respond(pageHtml(session.view.title, token), "text/html; charset=utf-8");
       case "GET /client.js":
         return respond(CLIENT_JS, "text/javascript; charset=utf-8");
       case "GET /style.css":
