@@ -34,7 +34,7 @@
  * import { Notebook } from "../engine/engine.ts";
  * import { renderPlot } from "./plot.ts";
  * const nb = Notebook.fromText(
- *   "```table t\nx | y\n1 | 2\n2 | 3\n```\n\n```plot\nkind: scatter\ntable: t\nx-axis: x\ny-axis: y\n```\n",
+ *   "~~~table t\nx | y\n1 | 2\n2 | 3\n~~~\n\n~~~plot\nkind: scatter\ntable: t\nx-axis: x\ny-axis: y\n~~~\n",
  *   "p.lentil.md",
  * );
  * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;
@@ -213,7 +213,7 @@ function rowsOf(columns: (Column | undefined)[], rowCount: number) {
  * ```ts
  * import { Notebook } from "../engine/engine.ts";
  * import { plotProblems } from "./plot.ts";
- * const nb = Notebook.fromText("```plot\nkind: pie\n```\n", "p.lentil.md");
+ * const nb = Notebook.fromText("~~~plot\nkind: pie\n~~~\n", "p.lentil.md");
  * plotProblems(nb.doc.blocks[0] as never, nb)[0].message.includes("kind"); // true
  * ```
  */
@@ -230,10 +230,11 @@ export function plotProblems(block: PlotBlock, nb: Notebook): Diagnostic[] {
  * import { Notebook } from "../engine/engine.ts";
  * import { renderPlot } from "./plot.ts";
  * const nb = Notebook.fromText(
- *   "```table t\nv [D]\n1\n2\n2\n```\n\n```plot h\nkind: histogram\ntable: t\nx-axis: v\n```\n",
+ *   "~~~table t\nv [D]\n1\n2\n2\n~~~\n\n~~~plot h\nkind: histogram\ntable: t\nx-axis: v\n~~~\n",
  *   "h.lentil.md",
  * );
- * renderPlot(nb.doc.blocks[1] as never, nb).problems.length; // 0
+ * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;
+ * renderPlot(block, nb).problems.length; // 0
  * ```
  */
 export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
