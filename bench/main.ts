@@ -7,6 +7,7 @@
 import { formatGoal, type Goal } from "./goal.ts";
 import * as engine from "./engine.ts";
 import * as exporting from "./export.ts";
+import * as live from "./live.ts";
 
 /** A bench module: measures, returns its goals and any lines of detail. */
 interface BenchModule {
@@ -16,6 +17,7 @@ interface BenchModule {
 const modules: [string, BenchModule][] = [
   ["engine", engine],
   ["export", exporting],
+  ["live", live],
 ];
 
 const goals: Goal[] = [];
