@@ -235,3 +235,17 @@ Deno.test("a byte-order mark, CRLF line endings and no final newline survive an 
     await Deno.remove(dir, { recursive: true });
   }
 });
+
+Deno.test("lentil live: usage errors exit without serving", async () => {
+  const { liveCommand } = await import("../notebook/cli/commands/live.ts");
+  const { captureIo } = await import("../notebook/cli/command.ts");
+  let io = captureIo();
+  assert.equal(await liveCommand.run(["x.lentil.md"], { port: "99999" }, io), 2);
+  assert.match(io.stderr(), /--port expects a number/);
+  io = captureIo();
+  assert.equal(await liveCommand.run(["notes.txt"], {}, io), 2);
+  assert.match(io.stderr(), /end in \.lentil\.md/);
+  io = captureIo();
+  assert.equal(await liveCommand.run(["/nonexistent/none.lentil.md"], {}, io), 1);
+  assert.match(io.stderr(), /no such file/);
+});
