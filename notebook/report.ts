@@ -99,9 +99,11 @@ export function buildReport(nb: Notebook): Report {
       }
       return n;
     });
+    // An input shows exactly what was typed; computed results show in the power step.
+    const options = r.input ? { ...nb.display, powerStep: 0 } : nb.display;
     const d = r.error
       ? { display: `error: ${r.error.message}`, value: null, unit: "" }
-      : lang.describe(r.value, nb.display);
+      : lang.describe(r.value, options);
     return {
       id: r.id,
       name: r.name,

@@ -72,7 +72,7 @@ Deno.test("cells carry name, expression, note, positions and input flag", () => 
   assert.equal(vd.input, true);
   assert.equal(ref.expression, 'rx("-2.00 # odd")');
   assert.equal(ref.note, "a note after a string with #");
-  assert.equal(ref.input, false);
+  assert.equal(ref.input, true); // a value read from text is an input
   assert.equal(shift.table, "trials");
   assert.equal(shift.name, "shift");
   assert.equal(NB.slice(vd.exprSpan.start, vd.exprSpan.end), "12 mm");
@@ -114,7 +114,8 @@ Deno.test("literal inputs are told from formulas", () => {
   for (const s of ["-2.25 D", "12 mm", "+0.50", "3", '"text"', "true", "[1, 2, 3]", "1e-3 m"]) {
     assert.equal(isLiteral(s), true, s);
   }
-  for (const s of ["a + 1", "vertexPower(1, 2)", "2 * 3", "-x"]) {
+  assert.equal(isLiteral('rx("-2.25 / -0.75 x 170")'), true);
+  for (const s of ["a + 1", "vertexPower(1, 2)", "2 * 3", "-x", 'f("a", 2)', 'rx("a") + 1']) {
     assert.equal(isLiteral(s), false, s);
   }
   assert.equal(noteStart("x = 1 # n"), 6);

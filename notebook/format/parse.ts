@@ -277,12 +277,14 @@ export function noteStart(line: string): number {
 
 /**
  * Whether an expression is a literal input: a signed number with an optional unit, text in
- * quotes, true/false, or a list of such.
+ * quotes, true/false, a list of such, or a value read from text by one call
+ * (`rx("-2.25 / -0.75 x 170")`, `acuity("6/9")`).
  *
  * @example
  * ```ts
  * import { isLiteral } from "./parse.ts";
  * isLiteral("-2.25 D"); // true
+ * isLiteral('rx("+1.00 DS")'); // true
  * isLiteral("a + 1"); // false
  * ```
  */
@@ -291,7 +293,8 @@ export function isLiteral(expr: string): boolean {
   const num = String.raw`[+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?(?:\s*[A-Za-z]+(?:\^-?\d+)?)?`;
   const str = String.raw`"(?:[^"\\]|\\.)*"|'(?:[^'\\]|\\.)*'`;
   const one = `(?:${num}|${str}|true|false)`;
-  return new RegExp(`^(?:${one}|\\[\\s*${one}(?:\\s*,\\s*${one})*\\s*\\])$`).test(e);
+  const fromText = `[A-Za-z_][A-Za-z0-9_]*\\(\\s*(?:${str})\\s*\\)`;
+  return new RegExp(`^(?:${one}|${fromText}|\\[\\s*${one}(?:\\s*,\\s*${one})*\\s*\\])$`).test(e);
 }
 
 function splitRow(text: string): { cells: string[]; cols: number[] } {
