@@ -119,7 +119,7 @@ Deno.test("page: a long table is cut with its row count stated; CSV embedded on 
     /<section class="lx-table-block" id="table-survey" data-rows="240">([^]*?)<\/section>/
       .exec(html);
   assert.ok(survey);
-  assert.ok(survey[1].includes("240 rows × 7 columns"));
+  assert.ok(survey[1].includes("240 rows × 10 columns"));
   assert.ok(survey[1].includes("first 10 of 240 rows shown"));
   const tbody = /<tbody>([^]*?)<\/tbody>/.exec(survey[1])![1];
   assert.equal((tbody.match(/<tr>/g) ?? []).length, 10);
@@ -128,7 +128,7 @@ Deno.test("page: a long table is cut with its row count stated; CSV embedded on 
   const csv = /id="table-survey"[^]*?<pre class="lx-csv">([^]*?)<\/pre>/.exec(full);
   assert.ok(csv);
   assert.equal(csv[1].trim().split("\n").length, 241);
-  assert.ok(csv[1].startsWith("eye,j0 [D],j45 [D]"));
+  assert.ok(csv[1].startsWith("eye,sph [D],cyl [D],axis [deg],autoM [D],subjM [D],j0 [D],j45 [D]"));
   assert.ok(full.includes('download="survey.csv" href="data:text/csv;charset=utf-8,'));
 });
 

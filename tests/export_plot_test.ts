@@ -4,6 +4,7 @@ import { loadNotebook } from "../notebook/load.ts";
 import { Notebook } from "../notebook/engine/engine.ts";
 import type { PlotBlock } from "../notebook/format/parse.ts";
 import { MAX_PLOT_POINTS, PLOT_KINDS, renderPlot } from "../notebook/export/plot.ts";
+import { formatNumber } from "../cells/display.ts";
 import { limitsOf, markOf, outlineOf, pointsOf } from "../notebook/export/_plot_values.ts";
 
 const FIXTURE = new URL("./fixtures/export-plots.lentil.md", import.meta.url).pathname;
@@ -58,9 +59,14 @@ Deno.test("plot histogram: bars counting every row", () => {
 Deno.test("plot agreement: dots, bias and the two limits labelled", () => {
   const p = byName.get("methods")!;
   assert.equal((p.svg.match(/<circle/g) ?? []).length, 240);
-  for (const t of ["bias 0.12", "lower limit -0.31", "upper limit 0.55"]) {
+  const loa = nb.language.describe(nb.value("loa")).value as Record<string, number>;
+  for (
+    const [label, key] of [["bias", "bias"], ["lower limit", "lower"], ["upper limit", "upper"]]
+  ) {
+    const t = `${label} ${formatNumber(loa[key])}`;
     assert.ok(p.svg.includes(t), t);
   }
+  assert.ok(loa.lower < loa.bias && loa.bias < loa.upper);
   assert.ok(p.svg.includes("difference, auto − subjective [D]"));
 });
 
