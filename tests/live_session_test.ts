@@ -6,13 +6,20 @@ import { backupPath } from "../notebook/live/save.ts";
 const FIXTURES = new URL("./fixtures/live/", import.meta.url);
 const SEEDS = new URL("../seeds/", import.meta.url);
 
-/** Copy a fixture notebook (and the CSV files beside it) into a fresh folder. */
-async function copyFixture(name: string): Promise<{ dir: string; path: string }> {
+/** Run `fn` on a copy of the live fixtures in a fresh folder, removed afterwards. */
+async function withCopy(
+  name: string,
+  fn: (dir: string, path: string) => Promise<void> | void,
+): Promise<void> {
   const dir = await Deno.makeTempDir({ prefix: "lentil-live-" });
-  for (const e of Deno.readDirSync(FIXTURES)) {
-    if (e.isFile) await Deno.copyFile(new URL(e.name, FIXTURES), join(dir, e.name));
+  try {
+    for (const e of Deno.readDirSync(FIXTURES)) {
+      if (e.isFile) await Deno.copyFile(new URL(e.name, FIXTURES), join(dir, e.name));
+    }
+    await fn(dir, join(dir, name));
+  } finally {
+    await Deno.remove(dir, { recursive: true });
   }
-  return { dir, path: join(dir, name) };
 }
 
 function notebooksIn(url: URL): URL[] {
@@ -56,8 +63,7 @@ Deno.test("round trip: every starter and fixture opened and saved without edits 
 });
 
 Deno.test("an input edit recomputes only its dependents and splices only the expression", async () => {
-  const { dir, path } = await copyFixture("counter.lentil.md");
-  try {
+  await withCopy("counter.lentil.md", async (_dir, path) => {
     const original = await Deno.readTextFile(path);
     const s = await LiveSession.open(path);
     const r = s.setExpression("spectacle", "-8.00 D");
@@ -69,14 +75,11 @@ Deno.test("an input edit recomputes only its dependents and splices only the exp
     await s.save();
     assert.equal(await Deno.readTextFile(path), s.text);
     assert.equal(await Deno.readTextFile(backupPath(path)), original);
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("an error shows at its cell and on dependents, and a fix clears both", async () => {
-  const { dir, path } = await copyFixture("counter.lentil.md");
-  try {
+  await withCopy("counter.lentil.md", async (_dir, path) => {
     const s = await LiveSession.open(path);
     s.setExpression("vd", "13 mm +");
     const v = s.view.cells;
@@ -87,14 +90,11 @@ Deno.test("an error shows at its cell and on dependents, and a fix clears both",
     assert.equal(v.other.error, undefined);
     s.setExpression("vd", "12 mm");
     assert.equal(s.view.cells.cornea.error, undefined);
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("undo and redo step through exact text states", async () => {
-  const { dir, path } = await copyFixture("counter.lentil.md");
-  try {
+  await withCopy("counter.lentil.md", async (_dir, path) => {
     const s = await LiveSession.open(path);
     const t0 = s.text;
     s.setExpression("vd", "14 mm");
@@ -116,14 +116,11 @@ Deno.test("undo and redo step through exact text states", async () => {
     assert.equal(s.text, t2);
     s.setExpression("other", "50 cm");
     assert.equal(s.status().canRedo, false, "a new edit clears redo");
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("a new cell that is not `name = expression` is refused and nothing changes", async () => {
-  const { dir, path } = await copyFixture("counter.lentil.md");
-  try {
+  await withCopy("counter.lentil.md", async (_dir, path) => {
     const s = await LiveSession.open(path);
     const t0 = s.text;
     const r = s.addCell(0, "just words");
@@ -136,14 +133,11 @@ Deno.test("a new cell that is not `name = expression` is refused and nothing cha
       s.text.includes("best = min(trials.va)\nworst = max(trials.va)   # typed in the page\n```"),
     );
     assert.ok(ok.patch.full, "a new cell changes the page's structure");
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("a CSV table is written to its file only when its rows were edited", async () => {
-  const { dir, path } = await copyFixture("counter.lentil.md");
-  try {
+  await withCopy("counter.lentil.md", async (dir, path) => {
     const csv = join(dir, "visits.csv");
     const before = await Deno.readTextFile(csv);
     const notebookBefore = await Deno.readTextFile(path);
@@ -165,14 +159,11 @@ Deno.test("a CSV table is written to its file only when its rows were edited", a
       notebookBefore.replace("other = 40 cm", "other = 41 cm"),
       "the notebook text is untouched by a CSV edit",
     );
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("a file changed on disk is never overwritten: save refuses; keep both writes a copy", async () => {
-  const { dir, path } = await copyFixture("counter.lentil.md");
-  try {
+  await withCopy("counter.lentil.md", async (dir, path) => {
     const s = await LiveSession.open(path);
     s.setExpression("spectacle", "-7.25 D");
     const behind = (await Deno.readTextFile(path)).replace(
@@ -191,14 +182,11 @@ Deno.test("a file changed on disk is never overwritten: save refuses; keep both 
     assert.ok(copy.includes("spectacle = -7.25 D"));
     assert.equal(s.path, join(dir, kept.file));
     assert.equal((await s.save()).ok, true, "the session goes on with the copy");
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("reload takes the disk's version and undo brings the page's edits back", async () => {
-  const { dir, path } = await copyFixture("counter.lentil.md");
-  try {
+  await withCopy("counter.lentil.md", async (_dir, path) => {
     const s = await LiveSession.open(path);
     s.setExpression("spectacle", "-7.25 D");
     const mine = s.text;
@@ -209,14 +197,11 @@ Deno.test("reload takes the disk's version and undo brings the page's edits back
     assert.deepEqual(await s.changedFiles(), []);
     s.undo();
     assert.equal(s.text, mine);
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("a byte-order mark, CRLF line endings and no final newline survive an edit", async () => {
-  const { dir, path } = await copyFixture("bom.lentil.md");
-  try {
+  await withCopy("bom.lentil.md", async (dir, path) => {
     const s = await LiveSession.open(path);
     s.setExpression("z", "3 mm");
     await s.save();
@@ -231,9 +216,7 @@ Deno.test("a byte-order mark, CRLF line endings and no final newline survive an 
     assert.equal(text.replace(/\r\n/g, "").includes("\n"), false, "only CRLF line endings");
     assert.ok(text.includes("1 | 2\r\n3 | 4\r\n```"));
     assert.ok(text.includes("y = x + 1 D # note\r\nw = y * 2\r\n```"));
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("lentil live: usage errors exit without serving", async () => {

@@ -27,6 +27,14 @@ export const CLIENT_JS = String.raw`"use strict";
     return e;
   }
 
+  function button(text, title, onClick, cls) {
+    var b = el("button", cls || "", text);
+    b.type = "button";
+    b.title = title;
+    b.addEventListener("click", onClick);
+    return b;
+  }
+
   function api(path, body) {
     var init = { method: body === undefined ? "GET" : "POST", headers: { "x-lentil-token": token },
       cache: "no-store", credentials: "omit" };
@@ -89,14 +97,11 @@ export const CLIENT_JS = String.raw`"use strict";
       else if (e.key === "Escape") { input.value = input.dataset.committed; }
     });
     input.addEventListener("change", function () { commitExpr(row, input); });
-    var remove = el("button", "live-remove", "×");
-    remove.type = "button";
-    remove.tabIndex = -1;
-    remove.title = "remove this line";
-    remove.setAttribute("aria-label", "remove " + c.id);
-    remove.addEventListener("click", function () {
+    var remove = button("×", "remove this line", function () {
       queue(function () { return api("api/cell/delete", { id: row.dataset.id }).then(applyResult); });
-    });
+    }, "live-remove");
+    remove.tabIndex = -1;
+    remove.setAttribute("aria-label", "remove " + c.id);
     var tdName = el("td", "lx-name"); tdName.append(name);
     var tdFormula = el("td", "lx-formula"); tdFormula.append(input, el("span", "lx-note"));
     var tdValue = el("td", "lx-value"); tdValue.append(el("output", "live-value"), el("div", "lx-error live-error"));
@@ -277,12 +282,7 @@ export const CLIENT_JS = String.raw`"use strict";
       if (t.editable) {
         var tools = el("td", "live-tools");
         [["↑", "move row up", -1], ["↓", "move row down", 1], ["×", "remove row", 0]].forEach(function (b) {
-          var btn = el("button", "", b[0]);
-          btn.type = "button";
-          btn.tabIndex = -1;
-          btn.title = b[1];
-          btn.setAttribute("aria-label", b[1] + " " + (r + 1));
-          btn.addEventListener("click", function () {
+          var btn = button(b[0], b[1], function () {
             var rows = cloneRows(view.tables[t.name]);
             if (b[2] === 0) rows.splice(r, 1);
             else {
@@ -292,6 +292,8 @@ export const CLIENT_JS = String.raw`"use strict";
             }
             sendRows(t.name, rows);
           });
+          btn.tabIndex = -1;
+          btn.setAttribute("aria-label", b[1] + " " + (r + 1));
           tools.append(btn);
         });
         tr.append(tools);
@@ -301,13 +303,11 @@ export const CLIENT_JS = String.raw`"use strict";
     grid.append(thead, body);
     sec.append(grid);
     if (t.editable) {
-      var add = el("button", "live-add-row", "+ row");
-      add.type = "button";
-      add.addEventListener("click", function () {
+      var add = button("+ row", "add a row at the end", function () {
         var rows = cloneRows(view.tables[t.name]);
         rows.push(t.columns.map(function () { return ""; }));
         sendRows(t.name, rows, [rows.length - 1, 0]);
-      });
+      }, "live-add-row");
       sec.append(add);
       wireGrid(sec, t.name);
     }
@@ -518,20 +518,13 @@ export const CLIENT_JS = String.raw`"use strict";
     banner.replaceChildren();
     banner.append(el("span", "", files.join(", ") + " changed on disk since this page read " +
       (files.length > 1 ? "them" : "it") + ". Nothing was overwritten."));
-    var reload = el("button", "", "Reload from disk");
-    reload.type = "button";
-    reload.id = "lentil-reload";
-    reload.title = "Show the file as it is on disk; Undo brings the page's edits back";
-    reload.addEventListener("click", function () {
+    var reload = button("Reload from disk", "Show the file as it is on disk; Undo brings the page's edits back", function () {
       queue(function () {
         return api("api/reload", {}).then(function (r) { applyResult(r); notice([]); say("reloaded from disk; Undo brings your edits back"); });
       });
     });
-    var both = el("button", "", "Keep both");
-    both.type = "button";
-    both.id = "lentil-keep-both";
-    both.title = "Write the page's version as a new file beside the original";
-    both.addEventListener("click", function () {
+    reload.id = "lentil-reload";
+    var both = button("Keep both", "Write the page's version as a new file beside the original", function () {
       queue(function () {
         return api("api/keep-both", {}).then(function (r) {
           applyPatch(r.patch);
@@ -540,6 +533,7 @@ export const CLIENT_JS = String.raw`"use strict";
         });
       });
     });
+    both.id = "lentil-keep-both";
     banner.append(reload, both);
     banner.hidden = false;
   }

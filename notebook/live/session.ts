@@ -613,7 +613,9 @@ export class LiveSession {
       dirty.map((rel) => [rel, rel.replace(/(\.[^./]+)?$/, `.edited-${tag}$1`)]),
     );
     for (const p of [copyPath, ...[...renames.values()].map((r) => insideFolder(this.#dir, r))]) {
-      if (await exists(p)) throw new EditRefused(`${basename(p)} exists; choose another name`);
+      if (await Deno.lstat(p).then(() => true, () => false)) {
+        throw new EditRefused(`${basename(p)} exists; choose another name`);
+      }
     }
     // Point the copy's tables at the CSV copies, last option first so offsets hold.
     let text = this.#text;
@@ -670,15 +672,6 @@ export class LiveSession {
       throw new EditRefused(`no table of this notebook reads "${rel}"`);
     }
     return this.#readCsv(rel);
-  }
-}
-
-async function exists(path: string): Promise<boolean> {
-  try {
-    await Deno.lstat(path);
-    return true;
-  } catch {
-    return false;
   }
 }
 
