@@ -128,7 +128,8 @@ export function refractionArrays(
   return { sph, cyl, axis };
 }
 
-function summaryRecord(s: Summary, unit: string): Record<string, unknown> {
+/** A summary as a record of the language (quantities in `unit`). */
+export function summaryRecord(s: Summary, unit: string): Record<string, unknown> {
   return {
     count: s.count,
     missing: s.missing,
@@ -146,7 +147,8 @@ function unitOf(c: Column): string {
   return c.type === "quantity" ? c.unit : "";
 }
 
-function meanRxRecord(v: VectorSummary): Record<string, unknown> {
+/** A vector summary as a mean-prescription record. */
+export function meanRxRecord(v: VectorSummary): Record<string, unknown> {
   return {
     sphere: qty(v.meanRx.sphere, "D"),
     cylinder: qty(v.meanRx.cylinder, "D"),
@@ -159,7 +161,46 @@ function meanRxRecord(v: VectorSummary): Record<string, unknown> {
   };
 }
 
-function agreementRecord(a: Agreement, unit: string): Record<string, unknown> {
+/** Vector statistics as a record of the language. */
+export function vectorStatsRecord(v: VectorSummary): Record<string, unknown> {
+  return {
+    n: v.n,
+    missing: v.missing,
+    meanM: qty(v.mean.m, "D"),
+    meanJ0: qty(v.mean.j0, "D"),
+    meanJ45: qty(v.mean.j45, "D"),
+    sdM: qty(v.sd.m, "D"),
+    sdJ0: qty(v.sd.j0, "D"),
+    sdJ45: qty(v.sd.j45, "D"),
+    covMJ0: v.cov.mJ0,
+    covMJ45: v.cov.mJ45,
+    covJ0J45: v.cov.j0J45,
+  };
+}
+
+/** The 95% ellipse of (J0, J45) as a record of the language. */
+export function ellipseRecord(
+  v: VectorSummary,
+  region: "mean" | "observations",
+): Record<string, unknown> {
+  const e = ellipseOf(
+    { x: v.mean.j0, y: v.mean.j45 },
+    { xx: v.sd.j0 ** 2, yy: v.sd.j45 ** 2, xy: v.cov.j0J45 },
+    v.n,
+    region,
+  );
+  return {
+    centreJ0: qty(e.cx, "D"),
+    centreJ45: qty(e.cy, "D"),
+    semiMajor: qty(e.semiMajor, "D"),
+    semiMinor: qty(e.semiMinor, "D"),
+    angle: qty(e.angle, "deg"),
+    n: v.n,
+  };
+}
+
+/** Agreement as a record of the language (quantities in `unit`). */
+export function agreementRecord(a: Agreement, unit: string): Record<string, unknown> {
   return {
     n: a.n,
     missing: a.missing,
@@ -412,20 +453,7 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
       "vectorStats([-1 D, -1.5 D, -2 D], [-0.5 D, -0.75 D, -0.25 D], [90 deg, 85 deg, 10 deg])",
     fn: (a, b, c) => {
       const r = refractionArrays(C(a), O(b), O(c));
-      const v = vectorSummary(r.sph, r.cyl, r.axis);
-      return {
-        n: v.n,
-        missing: v.missing,
-        meanM: qty(v.mean.m, "D"),
-        meanJ0: qty(v.mean.j0, "D"),
-        meanJ45: qty(v.mean.j45, "D"),
-        sdM: qty(v.sd.m, "D"),
-        sdJ0: qty(v.sd.j0, "D"),
-        sdJ45: qty(v.sd.j45, "D"),
-        covMJ0: v.cov.mJ0,
-        covMJ45: v.cov.mJ45,
-        covJ0J45: v.cov.j0J45,
-      };
+      return vectorStatsRecord(vectorSummary(r.sph, r.cyl, r.axis));
     },
   }),
   ...(["mean", "observations"] as const).map((region) =>
@@ -443,21 +471,7 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
       }([-1 D, -1.5 D, -2 D, -1 D], [-0.5 D, -0.75 D, -0.25 D, -1 D], [90 deg, 85 deg, 10 deg, 170 deg])`,
       fn: (a, b, c) => {
         const r = refractionArrays(C(a), O(b), O(c));
-        const v = vectorSummary(r.sph, r.cyl, r.axis);
-        const e = ellipseOf(
-          { x: v.mean.j0, y: v.mean.j45 },
-          { xx: v.sd.j0 ** 2, yy: v.sd.j45 ** 2, xy: v.cov.j0J45 },
-          v.n,
-          region,
-        );
-        return {
-          centreJ0: qty(e.cx, "D"),
-          centreJ45: qty(e.cy, "D"),
-          semiMajor: qty(e.semiMajor, "D"),
-          semiMinor: qty(e.semiMinor, "D"),
-          angle: qty(e.angle, "deg"),
-          n: v.n,
-        };
+        return ellipseRecord(vectorSummary(r.sph, r.cyl, r.axis), region);
       },
     })
   ),

@@ -12,6 +12,7 @@ import { newCommand } from "./new.ts";
 import { liveCommand } from "./live.ts";
 import { exportCommand } from "./export.ts";
 import { formulasCommand } from "./formulas.ts";
+import { streamCommand } from "./stream.ts";
 
 /** The commands. */
 export const COMMANDS: readonly Command[] = [
@@ -22,4 +23,5 @@ export const COMMANDS: readonly Command[] = [
   exportCommand,
   liveCommand,
   formulasCommand,
+  streamCommand,
 ];

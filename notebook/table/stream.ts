@@ -1,0 +1,553 @@
+/**
+ * Streaming mode: one pass over a large CSV table in bounded memory. Rows are read through
+ * csv-parse in chunks; each chunk's computed columns are evaluated with the plans compiled
+ * once (the column compiler, or row-wise where it cannot); running aggregates (Welford
+ * moments and co-moments) are fed; and the chunk is written to a new CSV through
+ * csv-stringify. Memory holds one chunk, never the file.
+ *
+ * Aggregates available in streaming mode: `countOf`, `meanOf`, `sdOf`, `summary` (count,
+ * missing, mean, SD, minimum and maximum; its quartiles and median are reported as not
+ * available), `meanRx`, `vectorStats`, `ellipse95`, `spread95`, `agreement` and
+ * `rxAgreement` over the streamed table's columns. Medians and quantiles need every value
+ * and are not computed (never approximated); other cells that read the streamed table are
+ * reported as not available. Cells that do not read it evaluate as usual.
+ *
+ * The output is written beside as `OUT.part` and renamed when the run completes; it never
+ * replaces the input, and an existing output is replaced only when asked.
+ *
+ * @module
+ */
+
+import { dirname, join, resolve } from "node:path";
+import { stringify } from "csv-stringify/sync";
+import type { MathNode } from "mathjs";
+import { getLanguage, type Language } from "../../cells/language.ts";
+import { Column, makeTable } from "../../cells/table.ts";
+import { DEFAULT_DISPLAY, typeOfValue } from "../../cells/types.ts";
+import {
+  agreementRecord,
+  columnNumbers,
+  ellipseRecord,
+  meanRxRecord,
+  refractionArrays,
+  vectorStatsRecord,
+} from "../../cells/stats.ts";
+import { agreementFrom } from "../../lib/agreement.ts";
+import { pushRefraction, RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
+import { toPowerVector } from "../../lib/power_vector.ts";
+import { parseNotebook, type TableBlock } from "../format/parse.ts";
+import { Notebook } from "../engine/engine.ts";
+import { type ColumnPlan, planColumn } from "../engine/_columns.ts";
+import {
+  CsvReadError,
+  type CsvRecord,
+  openCsvTable,
+  type TableBuilder,
+  type TableProblem,
+} from "../engine/_tables.ts";
+
+/** Options of a streaming run. */
+export interface StreamOptions {
+  /** The table to stream (default: the notebook's only table read from a file). */
+  readonly table?: string;
+  /** Output CSV path (relative to the working folder); none: aggregates only. */
+  readonly out?: string;
+  /** Replace an existing output file. */
+  readonly overwrite?: boolean;
+  /** Rows per chunk (default 16,384). */
+  readonly chunkRows?: number;
+  /** Called after each chunk with the rows read so far (for progress or memory sampling). */
+  readonly onChunk?: (rowsRead: number) => void;
+}
+
+/** One computed column of the streamed table and how it was evaluated. */
+export interface StreamedColumn {
+  /** Column name. */
+  readonly name: string;
+  /** Unit ("" when none). */
+  readonly unit: string;
+  /** "compiled" or "row-wise" (the path of the last chunk). */
+  readonly path: "compiled" | "row-wise";
+  /** Why it did not compile. */
+  readonly reason?: string;
+}
+
+/** One cell's outcome in streaming mode. */
+export interface StreamedCell {
+  /** Cell name. */
+  readonly name: string;
+  /** Value text as the report shows it, when available. */
+  readonly display?: string;
+  /** The value. */
+  readonly value?: unknown;
+  /** Why there is no value (an error, or not available in streaming mode). */
+  readonly unavailable?: string;
+}
+
+/** The outcome of a streaming run. */
+export interface StreamResult {
+  /** True when the whole file was read and, if asked, written. */
+  readonly ok: boolean;
+  /** The streamed table. */
+  readonly table: string;
+  /** Its CSV file. */
+  readonly input: string;
+  /** The output written, if any. */
+  readonly output?: string;
+  /** Data rows read (good and bad). */
+  readonly rowsRead: number;
+  /** Rows written to the output (or that would be). */
+  readonly rowsKept: number;
+  /** Bad rows excluded (with `bad rows: skip`). */
+  readonly excluded: number;
+  /** Computed columns. */
+  readonly columns: readonly StreamedColumn[];
+  /** Cells, in document order. */
+  readonly cells: readonly StreamedCell[];
+  /** Row problems (the first 1,000 kept) and a fatal problem, if any. */
+  readonly problems: readonly TableProblem[];
+  /** Notes: normalised rows, excluded rows. */
+  readonly notes: readonly TableProblem[];
+  /** Why the run stopped, when it did. */
+  readonly stopped?: string;
+}
+
+/** A streaming run that cannot start (no such table, output over the input, …). */
+export class StreamSetupError extends Error {
+  /** @param message what to change. */
+  constructor(message: string) {
+    super(message);
+    this.name = "StreamSetupError";
+  }
+}
+
+/** A running aggregate for one cell. */
+interface Aggregate {
+  push(cols: ReadonlyMap<string, Column>): void;
+  result(): unknown;
+  readonly note?: string;
+}
+
+const STREAMABLE = new Set([
+  "countOf",
+  "meanOf",
+  "sdOf",
+  "summary",
+  "meanRx",
+  "vectorStats",
+  "ellipse95",
+  "spread95",
+  "agreement",
+  "rxAgreement",
+]);
+
+/** The column names of `table.col` arguments of a call, or undefined when not all are. */
+function columnArgs(args: readonly MathNode[], table: string): string[] | undefined {
+  const names: string[] = [];
+  for (const a of args) {
+    const any = a as unknown as {
+      type: string;
+      object?: { type: string; name?: string };
+      index?: { dimensions: { value?: unknown }[]; isObjectProperty(): boolean };
+    };
+    if (
+      any.type !== "AccessorNode" || any.object?.type !== "SymbolNode" ||
+      any.object.name !== table || !any.index?.isObjectProperty()
+    ) return undefined;
+    names.push(String(any.index.dimensions[0].value));
+  }
+  return names;
+}
+
+/** A running aggregate for `fn(table.a, …)`, or a reason it is not available. */
+function aggregateFor(
+  fn: string,
+  cols: string[],
+  lang: Language,
+): Aggregate | string {
+  const get = (m: ReadonlyMap<string, Column>, name: string) => m.get(name)!;
+  const one = (combine: (r: RunningMoments, unit: string) => unknown, note?: string) => {
+    if (cols.length !== 1) return `${fn} takes one column`;
+    const r = new RunningMoments(1);
+    let unit = "";
+    return {
+      push(m: ReadonlyMap<string, Column>) {
+        const c = get(m, cols[0]);
+        unit = c.type === "quantity" ? c.unit : "";
+        for (const x of columnNumbers(c)) r.push1(x);
+      },
+      result: () => combine(r, unit),
+      note,
+    };
+  };
+  const q = (v: number, unit: string) => (unit ? lang.quantity(v + 0, unit) : v);
+  const vector = (finish: (r: RunningMoments) => unknown): Aggregate | string => {
+    if (cols.length !== 1 && cols.length !== 3) return `${fn} takes one rx column or three columns`;
+    const r = new RunningMoments(3);
+    return {
+      push(m) {
+        const cs = cols.map((c) => get(m, c));
+        const a = refractionArrays(cs[0], cs[1], cs[2]);
+        for (let i = 0; i < a.sph.length; i++) pushRefraction(r, a.sph[i], a.cyl[i], a.axis[i]);
+      },
+      result: () => finish(r),
+    };
+  };
+  switch (fn) {
+    case "countOf":
+      return one((r) => r.count);
+    case "meanOf":
+      return one((r, u) => q(r.mean(0), u));
+    case "sdOf":
+      return one((r, u) => q(r.sd(0), u));
+    case "summary":
+      return one(
+        (r, u) => ({
+          count: r.count,
+          missing: r.missing,
+          mean: q(r.mean(0), u),
+          sd: q(r.sd(0), u),
+          min: q(r.min(0), u),
+          max: q(r.max(0), u),
+        }),
+        "quartiles and median are not available in streaming mode (they need every value)",
+      );
+    case "meanRx":
+      return vector((r) => meanRxRecord(vectorSummaryFrom(r)));
+    case "vectorStats":
+      return vector((r) => vectorStatsRecord(vectorSummaryFrom(r)));
+    case "ellipse95":
+      return vector((r) => ellipseRecord(vectorSummaryFrom(r), "mean"));
+    case "spread95":
+      return vector((r) => ellipseRecord(vectorSummaryFrom(r), "observations"));
+    case "agreement": {
+      if (cols.length !== 2) return "agreement takes two columns";
+      const r = new RunningMoments(1);
+      let unit = "";
+      return {
+        push(m) {
+          const a = get(m, cols[0]);
+          unit = a.type === "quantity" ? a.unit : "";
+          const xa = columnNumbers(a);
+          const xb = columnNumbers(get(m, cols[1]), unit || undefined);
+          for (let i = 0; i < xa.length; i++) r.push1(xa[i] - xb[i]);
+        },
+        result: () => agreementRecord(agreementFrom(r, 0), unit),
+      };
+    }
+    case "rxAgreement": {
+      if (cols.length !== 2 && cols.length !== 6) return "rxAgreement takes two or six columns";
+      const r = new RunningMoments(3);
+      return {
+        push(m) {
+          const cs = cols.map((c) => get(m, c));
+          const [a, b] = cols.length === 2
+            ? [refractionArrays(cs[0]), refractionArrays(cs[1])]
+            : [refractionArrays(cs[0], cs[1], cs[2]), refractionArrays(cs[3], cs[4], cs[5])];
+          for (let i = 0; i < a.sph.length; i++) {
+            const va = toPowerVector({ sphere: a.sph[i], cylinder: a.cyl[i], axis: a.axis[i] });
+            const vb = toPowerVector({ sphere: b.sph[i], cylinder: b.cyl[i], axis: b.axis[i] });
+            r.push([va.m - vb.m, va.j0 - vb.j0, va.j45 - vb.j45]);
+          }
+        },
+        result: () => {
+          const part = (k: number) => agreementRecord(agreementFrom(r, k), "D");
+          return { n: r.count, M: part(0), J0: part(1), J45: part(2) };
+        },
+      };
+    }
+  }
+  return `${fn} is not available in streaming mode`;
+}
+
+/** Text of one output cell. */
+function cellText(v: unknown): string {
+  if (typeof v === "number") return Number.isNaN(v) ? "" : String(v);
+  if (v === null || v === undefined) return "";
+  if (typeof v === "string") return v;
+  const t = typeOfValue(v);
+  return t ? t.display(v, DEFAULT_DISPLAY) : String(v);
+}
+
+function header(c: Column): string {
+  if (c.type === "quantity" && c.unit) return `${c.name} [${c.unit}]`;
+  if (c.type === "number") return c.unit ? `${c.name} [${c.unit}]` : `${c.name} [number]`;
+  if (c.type === "text") return `${c.name} [text]`;
+  return `${c.name} [${c.type}]`;
+}
+
+async function sameFile(a: string, b: string): Promise<boolean> {
+  try {
+    return (await Deno.realPath(a)) === (await Deno.realPath(b));
+  } catch {
+    return resolve(a) === resolve(b);
+  }
+}
+
+/**
+ * Run a notebook in streaming mode over one of its CSV tables.
+ *
+ * @example
+ * ```ts ignore
+ * const r = await streamNotebook("study.lentil.md", { out: "results.csv" });
+ * console.log(r.rowsRead, r.excluded);
+ * ```
+ * @throws {StreamSetupError} when the run cannot start (see the message).
+ */
+export async function streamNotebook(
+  path: string,
+  options: StreamOptions = {},
+): Promise<StreamResult> {
+  const lang = getLanguage();
+  const text = await Deno.readTextFile(path);
+  const doc = parseNotebook(text, path);
+  const fileTables = doc.tables.filter((t) => t.options.file);
+  let block: TableBlock | undefined;
+  if (options.table) {
+    block = fileTables.find((t) => t.name === options.table);
+    if (!block) {
+      throw new StreamSetupError(
+        `no table "${options.table}" read from a file in ${path} (tables from files: ${
+          fileTables.map((t) => t.name).join(", ") || "none"
+        })`,
+      );
+    }
+  } else if (fileTables.length === 1) block = fileTables[0];
+  else {
+    throw new StreamSetupError(
+      fileTables.length
+        ? `${path} reads ${fileTables.length} tables from files; choose one with --table (${
+          fileTables.map((t) => t.name).join(", ")
+        })`
+        : `${path} has no table read from a file (a table block with a file: option)`,
+    );
+  }
+  const dir = dirname(path);
+  const input = join(dir, block.options.file!.value);
+  const out = options.out;
+  if (out) {
+    if (await sameFile(out, input)) {
+      throw new StreamSetupError(`refusing to write over the input ${input}; choose another --out`);
+    }
+    let exists = false;
+    try {
+      await Deno.lstat(out);
+      exists = true;
+    } catch (e) {
+      if (!(e instanceof Deno.errors.NotFound)) throw e;
+    }
+    if (exists && !options.overwrite) {
+      throw new StreamSetupError(`${out} exists; add --overwrite to replace it`);
+    }
+  }
+  const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase() === "skip";
+  const chunkRows = options.chunkRows ?? 16384;
+  let file: Deno.FsFile;
+  try {
+    file = await Deno.open(input);
+  } catch (e) {
+    const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
+    throw new StreamSetupError(`cannot read table file ${input}: ${why}`);
+  }
+  const opened = await openCsvTable(block, path, file.readable, lang, 4096);
+  const base = {
+    table: block.name,
+    input,
+    rowsRead: 0,
+    rowsKept: 0,
+    excluded: 0,
+    columns: [],
+    cells: [],
+    notes: [],
+  };
+  if ("problem" in opened) {
+    return { ...base, ok: false, problems: [opened.problem], stopped: opened.problem.message };
+  }
+  const { start, rest } = opened;
+  if (start.problems.length) {
+    await rest.return?.();
+    return { ...base, ok: false, problems: start.problems, stopped: start.problems[0].message };
+  }
+  const builder: TableBuilder = start.builder;
+
+  // The rest of the notebook, over an empty copy of the streamed table.
+  const emptyColumns = builder.columns.map((c, i) => {
+    const k = builder.kinds[i];
+    return k.type === "quantity" || k.type === "number"
+      ? new Column(c.name, k.type, k.unit, new Float64Array())
+      : new Column(c.name, k.type === "value" ? k.name : "text", "", []);
+  });
+  const nb = new Notebook(doc, {
+    tables: new Map([[block.name, {
+      columns: builder.columns,
+      built: {
+        value: makeTable(block.name, emptyColumns, { file: block.options.file!.value }),
+        problems: [],
+        notes: [],
+        excluded: 0,
+      },
+    }]]),
+  });
+  nb.evaluateAll();
+  const scope = new Map<string, unknown>(Object.entries(lang.constants));
+  const readsTable = (deps: readonly string[]) =>
+    deps.some((d) => d === block!.name || d.startsWith(`${block!.name}.`));
+  const results = nb.results();
+  for (const r of results) {
+    if (r.kind === "cell" && r.value !== undefined && !readsTable(r.deps)) {
+      scope.set(r.name, r.value);
+    }
+  }
+  const computed = nb.graph.order
+    .map((id) => nb.result(id)!)
+    .filter((r) => r.kind === "column" && r.table === block!.name);
+  const docIndex = new Map(
+    [...computed].sort((a, b) => a.line - b.line).map((r, i) => [r.name, i]),
+  );
+  const aggregates = new Map<string, Aggregate>();
+  const cells: StreamedCell[] = [];
+  for (const r of results) {
+    if (r.kind !== "cell") continue;
+    if (!readsTable(r.deps)) {
+      cells.push(
+        r.error
+          ? { name: r.name, unavailable: r.error.message }
+          : { name: r.name, value: r.value, display: lang.describe(r.value, nb.display).display },
+      );
+      continue;
+    }
+    const node = lang.parse(r.expression!) as unknown as {
+      type: string;
+      fn?: { type: string; name?: string };
+      args?: MathNode[];
+    };
+    const fn = node.type === "FunctionNode" && node.fn?.type === "SymbolNode" ? node.fn.name! : "";
+    const cols = fn ? columnArgs(node.args!, block.name) : undefined;
+    let agg: Aggregate | string = "only a single call of countOf, meanOf, sdOf, summary, meanRx, " +
+      "vectorStats, ellipse95, spread95, agreement or rxAgreement over the streamed table's columns " +
+      "is computed in streaming mode";
+    if (fn === "medianOf" || fn === "quantileOf" || fn === "summaryBy" || fn === "meanRxBy") {
+      agg = `${fn} needs every value at once; it is not computed in streaming mode`;
+    } else if (STREAMABLE.has(fn) && cols) agg = aggregateFor(fn, cols, lang);
+    if (typeof agg === "string") cells.push({ name: r.name, unavailable: agg });
+    else {
+      aggregates.set(r.name, agg);
+      cells.push({ name: r.name });
+    }
+  }
+
+  // Output.
+  const part = out ? `${out}.part` : undefined;
+  const sink = part
+    ? await Deno.open(part, { write: true, create: true, truncate: true })
+    : undefined;
+  const writer = sink?.writable.getWriter();
+  const enc = new TextEncoder();
+  let wroteHeader = false;
+  let plans: ColumnPlan[] | undefined;
+  const colInfo: StreamedColumn[] = [];
+  let rowsKept = 0;
+  let stopped: string | undefined;
+
+  const processChunk = async () => {
+    const data = builder.take();
+    const rows = data.length ? data[0].length : 0;
+    if (rows === 0 && wroteHeader) return;
+    const all: Column[] = [...data];
+    const byName = new Map(all.map((c) => [c.name, c]));
+    const planning = !plans;
+    if (planning) plans = [];
+    for (let i = 0; i < computed.length; i++) {
+      const r = computed[i];
+      const inputs = all.filter((c) => c.name !== r.name);
+      if (planning) {
+        const node = lang.parse(r.expression!);
+        plans!.push(planColumn(r.name, node, lang.compile(node), inputs, scope, lang));
+      }
+      const { column, path } = plans![i].run(inputs, rows);
+      all.push(column);
+      byName.set(column.name, column);
+      colInfo[docIndex.get(r.name)!] = {
+        name: r.name,
+        unit: column.unit,
+        path,
+        reason: plans![i].reason,
+      };
+    }
+    const shown = [...data, ...colInfo.map((c) => byName.get(c.name)!)];
+    for (const a of aggregates.values()) a.push(byName);
+    rowsKept += rows;
+    if (writer) {
+      const records: string[][] = [];
+      for (let i = 0; i < rows; i++) records.push(shown.map((c) => cellText(c.data[i])));
+      const csv = stringify(records, {
+        header: !wroteHeader,
+        columns: shown.map((c) => header(c)),
+        record_delimiter: "unix",
+      });
+      wroteHeader = true;
+      await writer.write(enc.encode(csv));
+    }
+    options.onChunk?.(builder.rowsSeen);
+  };
+
+  try {
+    const stopAtBad = () => {
+      if (!skip && builder.badRows) {
+        stopped = `bad row ${builder.problems[0].row! + 1}: ${builder.problems[0].message} ` +
+          `(the run stops at a bad row; add "bad rows: skip" to the table block to exclude and count them)`;
+        return true;
+      }
+      return false;
+    };
+    if (!stopAtBad()) {
+      if (builder.pending >= chunkRows) await processChunk();
+      for (let r = await rest.next(); !r.done; r = await rest.next()) {
+        for (const rec of r.value as CsvRecord[]) builder.add(rec.cells, rec.line);
+        if (stopAtBad()) break;
+        if (builder.pending >= chunkRows) await processChunk();
+      }
+      if (!stopped) await processChunk();
+    }
+  } catch (e) {
+    if (e instanceof CsvReadError) stopped = e.problem.message;
+    else throw e;
+  } finally {
+    await rest.return?.();
+    if (writer) await writer.close();
+  }
+  const problems = [...builder.problems];
+  if (stopped && !problems.some((p) => stopped!.includes(p.message))) {
+    problems.push({ file: input, line: 0, col: 0, message: stopped });
+  }
+  if (part) {
+    if (stopped) await Deno.remove(part).catch(() => {});
+    else await Deno.rename(part, out!);
+  }
+  const finished = cells.map((c) => {
+    const a = aggregates.get(c.name);
+    if (!a) return c;
+    if (stopped) return { name: c.name, unavailable: "the run stopped before the end of the file" };
+    try {
+      const value = a.result();
+      const display = lang.describe(value, nb.display).display;
+      return { name: c.name, value, display: a.note ? `${display} (${a.note})` : display };
+    } catch (e) {
+      return { name: c.name, unavailable: (e as Error).message };
+    }
+  });
+  return {
+    ok: !stopped,
+    table: block.name,
+    input,
+    output: stopped ? undefined : out,
+    rowsRead: builder.rowsSeen,
+    rowsKept,
+    excluded: builder.badRows,
+    columns: colInfo,
+    cells: finished,
+    problems,
+    notes: builder.notes(block.name, { file: path, line: block.line, col: block.col }, skip),
+    stopped,
+  };
+}
