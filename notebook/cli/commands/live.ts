@@ -8,7 +8,8 @@
  * temporary files) and network on 127.0.0.1 only. Deno cannot narrow read and write to
  * one folder once granted, so run it as
  * `deno run --allow-read=DIR --allow-write=DIR --allow-net=127.0.0.1 notebook/cli/main.ts live FILE`
- * to confine it further; it spawns nothing and needs no other permission.
+ * to confine it further. Once serving, it gives up any run, ffi, env and sys permission the
+ * process had: it spawns nothing and reads neither the environment nor the system.
  *
  * @module
  */
@@ -57,6 +58,8 @@ export const liveCommand: Command = {
       io.err(`lentil live: ${(e as Error).message}`);
       return 1;
     }
+    // Nothing below spawns, loads native code, reads the environment or the system.
+    for (const name of ["run", "ffi", "env", "sys"] as const) Deno.permissions.revokeSync({ name });
     io.out(`editing ${basename(file)} at ${server.url}`);
     io.out("stop with Ctrl-C");
     const stop = () => void server.shutdown();
