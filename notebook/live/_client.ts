@@ -172,6 +172,7 @@ export const CLIENT_JS = String.raw`"use strict";
     input.type = "text";
     input.spellcheck = false;
     input.placeholder = "new line: name = expression";
+    input.id = "new-cell-" + b.index;
     input.setAttribute("aria-label", "new cell in block " + (b.index + 1));
     var msg = el("div", "lx-error");
     input.addEventListener("keydown", function (e) {
