@@ -29,6 +29,10 @@ import { escapeHtml } from "./_escape.ts";
 import { renderMarkdown } from "./markdown.ts";
 import { renderPlot } from "./plot.ts";
 import { calcSection, plotFigure, sourcesSection, tableSection } from "./_sections.ts";
+
+// The figure and escaping the page uses, for other views of a notebook (the live page).
+export { plotFigure } from "./_sections.ts";
+export { escapeHtml } from "./_escape.ts";
 import { EXPORT_CSS } from "./style.ts";
 
 /** The page's Content-Security-Policy: nothing may load; inline styles and data: images only. */
