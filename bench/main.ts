@@ -8,6 +8,7 @@ import { formatGoal, type Goal } from "./goal.ts";
 import * as engine from "./engine.ts";
 import * as exporting from "./export.ts";
 import * as live from "./live.ts";
+import * as tables from "./tables.ts";
 
 /** A bench module: measures, returns its goals and any lines of detail. */
 interface BenchModule {
@@ -18,6 +19,7 @@ const modules: [string, BenchModule][] = [
   ["engine", engine],
   ["export", exporting],
   ["live", live],
+  ["tables", tables],
 ];
 
 const goals: Goal[] = [];

@@ -612,8 +612,13 @@ export async function* csvBatches(
         if (!parser.write(chunk)) {
           await new Promise<void>((r) => {
             if (parser.destroyed) return r();
-            parser.once("drain", r);
-            parser.once("close", r);
+            const done = () => {
+              parser.off("drain", done);
+              parser.off("close", done);
+              r();
+            };
+            parser.on("drain", done);
+            parser.on("close", done);
           });
         }
       }

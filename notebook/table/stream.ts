@@ -121,6 +121,12 @@ export class StreamSetupError extends Error {
   }
 }
 
+/** Rows stringified and written at a time. */
+const WRITE_SLICE = 256;
+
+/** Records read from csv-parse at a time. */
+const READ_BATCH = 256;
+
 /** A running aggregate for one cell. */
 interface Aggregate {
   push(cols: ReadonlyMap<string, Column>): void;
@@ -341,7 +347,7 @@ export async function streamNotebook(
     }
   }
   const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase() === "skip";
-  const chunkRows = options.chunkRows ?? 16384;
+  const chunkRows = options.chunkRows ?? 8192;
   let file: Deno.FsFile;
   try {
     file = await Deno.open(input);
@@ -349,7 +355,7 @@ export async function streamNotebook(
     const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
     throw new StreamSetupError(`cannot read table file ${input}: ${why}`);
   }
-  const opened = await openCsvTable(block, path, file.readable, lang, 4096);
+  const opened = await openCsvTable(block, path, file.readable, lang, READ_BATCH);
   const base = {
     table: block.name,
     input,
@@ -441,7 +447,7 @@ export async function streamNotebook(
   const sink = part
     ? await Deno.open(part, { write: true, create: true, truncate: true })
     : undefined;
-  const writer = sink?.writable.getWriter();
+  const writer = sink;
   const enc = new TextEncoder();
   let wroteHeader = false;
   let plans: ColumnPlan[] | undefined;
@@ -449,7 +455,7 @@ export async function streamNotebook(
   let rowsKept = 0;
   let stopped: string | undefined;
 
-  const processChunk = async () => {
+  const processChunk = () => {
     const data = builder.take();
     const rows = data.length ? data[0].length : 0;
     if (rows === 0 && wroteHeader) return;
@@ -478,15 +484,22 @@ export async function streamNotebook(
     for (const a of aggregates.values()) a.push(byName);
     rowsKept += rows;
     if (writer) {
-      const records: string[][] = [];
-      for (let i = 0; i < rows; i++) records.push(shown.map((c) => cellText(c.data[i])));
-      const csv = stringify(records, {
-        header: !wroteHeader,
-        columns: shown.map((c) => header(c)),
-        record_delimiter: "unix",
-      });
-      wroteHeader = true;
-      await writer.write(enc.encode(csv));
+      // Small slices keep what is alive between collections small (memory stays flat).
+      const columns = shown.map((c) => header(c));
+      for (let s = 0; s < rows || !wroteHeader; s += WRITE_SLICE) {
+        const records: string[][] = [];
+        for (let i = s; i < Math.min(rows, s + WRITE_SLICE); i++) {
+          records.push(shown.map((c) => cellText(c.data[i])));
+        }
+        const csv = stringify(records, {
+          header: !wroteHeader,
+          columns,
+          record_delimiter: "unix",
+        });
+        wroteHeader = true;
+        const bytes = enc.encode(csv);
+        for (let off = 0; off < bytes.length;) off += sink!.writeSync(bytes.subarray(off));
+      }
     }
     options.onChunk?.(builder.rowsSeen);
   };
@@ -501,20 +514,20 @@ export async function streamNotebook(
       return false;
     };
     if (!stopAtBad()) {
-      if (builder.pending >= chunkRows) await processChunk();
+      if (builder.pending >= chunkRows) processChunk();
       for (let r = await rest.next(); !r.done; r = await rest.next()) {
         for (const rec of r.value as CsvRecord[]) builder.add(rec.cells, rec.line);
         if (stopAtBad()) break;
-        if (builder.pending >= chunkRows) await processChunk();
+        if (builder.pending >= chunkRows) processChunk();
       }
-      if (!stopped) await processChunk();
+      if (!stopped) processChunk();
     }
   } catch (e) {
     if (e instanceof CsvReadError) stopped = e.problem.message;
     else throw e;
   } finally {
     await rest.return?.();
-    if (writer) await writer.close();
+    if (writer) writer.close();
   }
   const problems = [...builder.problems];
   if (stopped && !problems.some((p) => stopped!.includes(p.message))) {
