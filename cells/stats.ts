@@ -285,34 +285,26 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
       return col.data.filter((v) => v !== null && v !== undefined && v !== "").length;
     },
   }),
-  defineFormula({
-    name: "meanOf",
-    group: "statistics",
-    summary: "Mean of a numeric column, empty cells left out, in the column's unit.",
-    params: [COL("column", "a numeric column")],
-    returns: { type: "any", doc: "the mean" },
-    sources: ["welford-1962"],
-    example: "meanOf([-1.25 D, -1.5 D, -1 D])",
-    fn: (c) => {
-      const r = new RunningMoments(1);
-      for (const x of columnNumbers(C(c))) r.push1(x);
-      return qty(r.mean(0), unitOf(C(c)));
-    },
-  }),
-  defineFormula({
-    name: "sdOf",
-    group: "statistics",
-    summary: "Sample standard deviation (n − 1) of a numeric column, empty cells left out.",
-    params: [COL("column", "a numeric column")],
-    returns: { type: "any", doc: "the SD" },
-    sources: ["welford-1962"],
-    example: "sdOf([0.1, 0.2, 0.4])",
-    fn: (c) => {
-      const r = new RunningMoments(1);
-      for (const x of columnNumbers(C(c))) r.push1(x);
-      return qty(r.sd(0), unitOf(C(c)));
-    },
-  }),
+  ...([
+    ["meanOf", "Mean of a numeric column, empty cells left out, in the column's unit.", "mean"],
+    ["sdOf", "Sample standard deviation (n − 1) of a numeric column, empty cells left out.", "sd"],
+  ] as const).map(([name, summary, part]) =>
+    defineFormula({
+      name,
+      group: "statistics",
+      summary,
+      params: [COL("column", "a numeric column")],
+      returns: { type: "any", doc: `the ${part === "sd" ? "SD" : "mean"}` },
+      sources: ["welford-1962"],
+      example: `${name}([-1.25 D, -1.5 D, -1 D])`,
+      fn: (c) => {
+        const col = C(c);
+        const r = new RunningMoments(1);
+        for (const x of columnNumbers(col)) r.push1(x);
+        return qty(part === "sd" ? r.sd(0) : r.mean(0), unitOf(col));
+      },
+    })
+  ),
   defineFormula({
     name: "medianOf",
     group: "statistics",

@@ -1,4 +1,5 @@
 import assert from "node:assert/strict";
+import { seeded as rng } from "../bench/tables.ts";
 import * as ss from "simple-statistics";
 import jStatModule from "jstat";
 import {
@@ -17,18 +18,6 @@ const jStat = ((jStatModule as any).jStat ?? jStatModule) as any;
 
 const close = (a: number, b: number, tol = 1e-9, what = "") =>
   assert.ok(Math.abs(a - b) <= tol * Math.max(1, Math.abs(b)), `${what}: ${a} vs ${b}`);
-
-/** A seeded generator (mulberry32) for invented test data. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const r = rng(7);
 const sample = Array.from({ length: 997 }, () => -6 + 8 * r() + (r() < 0.1 ? 5 : 0));

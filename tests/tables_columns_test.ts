@@ -1,21 +1,11 @@
 import assert from "node:assert/strict";
+import { seeded as rng } from "../bench/tables.ts";
 import { getLanguage } from "../cells/language.ts";
 import { Column } from "../cells/table.ts";
 import { evaluateRowWise, planColumn } from "../notebook/engine/_columns.ts";
 import { Notebook } from "../notebook/engine/engine.ts";
 
 const lang = getLanguage();
-
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const N = 400;
 const g = rng(3);

@@ -210,7 +210,8 @@ function generate(
       if (s.type === "quantity" && s.unit) {
         const u = unitInfo(lang, s.unit);
         need(!!u, `unit ${s.unit} of column ${name}`);
-        const code = column(j);
+        // The language makes a quantity from `value + 0` (no signed zero); so does the loop.
+        const code = `(${column(j)}+0)`;
         return {
           code: u!.scale === 1 ? code : `(${code}*${konst(u!.scale)})`,
           ty: { kind: "qty", unit: s.unit, base: u!.base },
@@ -352,8 +353,9 @@ function generate(
       codes.push(pu!.scale === 1 ? g.code : `(${g.code}/${konst(pu!.scale)})`);
     });
     const f = fn(checkedFormula(spec));
-    const code = `${f}(${codes.join(",")})`;
+    const call = `${f}(${codes.join(",")})`;
     if (spec.returns.type === "quantity" && spec.returns.unit) {
+      const code = `(${call}+0)`;
       const ru = unitInfo(lang, spec.returns.unit);
       need(!!ru, `${spec.name}: unit of the result`);
       return {
@@ -361,7 +363,7 @@ function generate(
         ty: { kind: "qty", unit: spec.returns.unit, base: ru!.base },
       };
     }
-    return { code, ty: NUM };
+    return { code: call, ty: NUM };
   };
 
   const top = value(visit(node));
