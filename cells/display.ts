@@ -28,10 +28,9 @@ export function formatPower(value: number, step?: number, unit = "D"): string {
   const u = unit ? ` ${unit}` : "";
   if (!Number.isFinite(value)) return `${value}${u}`;
   if (step && step > 0) {
-    const stepped = Math.round(value / step) * step;
-    if (Math.abs(stepped - value) > 0.005) {
-      return `${signed(stepped)}${u} (exact ${signed(value)})`;
-    }
+    const shown = signed(Math.round(value / step) * step);
+    const exact = signed(value);
+    if (shown !== exact) return `${shown}${u} (exact ${exact})`;
   }
   return `${signed(value)}${u}`;
 }

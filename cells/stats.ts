@@ -11,7 +11,8 @@
  *
  * @example
  * ```ts
- * import { getLanguage } from "./language.ts";
+ * import { quantity, quantityParts, toNumberIn } from "./quantity.ts";
+import { rxValue } from "./rx.ts";
 import { getValueType } from "./types.ts";
  * const lang = getLanguage();
  * lang.describe(lang.compile(lang.parse("vectorM(-2 D, -1 D)")).evaluate({})).display; // "-2.50 D"
@@ -22,7 +23,8 @@ import { getValueType } from "./types.ts";
 
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { Column } from "./table.ts";
-import { getLanguage } from "./language.ts";
+import { quantity, quantityParts, toNumberIn } from "./quantity.ts";
+import { rxValue } from "./rx.ts";
 import { getValueType } from "./types.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
 import { CYLINDER_RANGE, SPHERE_RANGE } from "../lib/prescription.ts";
@@ -42,7 +44,7 @@ import { ellipseOf } from "../lib/ellipse.ts";
 
 /** A quantity of the shared language, made when a formula runs (never at module load). */
 function qty(value: number, unit: string): unknown {
-  return unit ? getLanguage().quantity(value + 0, unit) : value;
+  return unit ? quantity(value, unit) : value;
 }
 
 /**
@@ -60,10 +62,9 @@ export function asColumn(x: unknown, what: string): Column {
   if (list.every((v) => typeof v === "number")) {
     return new Column(what, "number", "", Float64Array.from(list as number[]));
   }
-  const lang = getLanguage();
-  const first = lang.quantityParts(list[0]);
+  const first = quantityParts(list[0]);
   if (first && first.unit) {
-    const data = Float64Array.from(list, (v) => lang.toNumberIn(v, first.unit));
+    const data = Float64Array.from(list, (v) => toNumberIn(v, first.unit));
     return new Column(what, "quantity", first.unit, data);
   }
   return new Column(what, typeof list[0] === "string" ? "text" : "any", "", list);
@@ -75,8 +76,7 @@ export function columnNumbers(c: Column, unit?: string): Float64Array {
     throw new LentilInputError(`column ${c.name} holds ${c.type} values, not numbers`);
   }
   if (!unit || c.unit === unit || c.type !== "quantity") return c.data;
-  const lang = getLanguage();
-  const f = lang.toNumberIn(lang.quantity(1, c.unit), unit);
+  const f = toNumberIn(quantity(1, c.unit), unit);
   return c.data.map((x) => x * f);
 }
 
@@ -150,9 +150,7 @@ function unitOf(c: Column): string {
 /** A vector summary as a mean-prescription record. */
 export function meanRxRecord(v: VectorSummary): Record<string, unknown> {
   return {
-    sphere: qty(v.meanRx.sphere, "D"),
-    cylinder: qty(v.meanRx.cylinder, "D"),
-    axis: qty(Math.round(v.meanRx.axis * 100) / 100, "deg"),
+    rx: rxValue(v.meanRx),
     M: qty(v.mean.m, "D"),
     J0: qty(v.mean.j0, "D"),
     J45: qty(v.mean.j45, "D"),

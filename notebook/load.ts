@@ -16,7 +16,6 @@ import { dirname, join } from "node:path";
 import { Notebook } from "./engine/engine.ts";
 import { decodeNotebook } from "./format/read.ts";
 import type { Diagnostic } from "./format/diagnostic.ts";
-import { parseNotebook } from "./format/parse.ts";
 
 /** A loaded notebook, or the reason it could not be read at all. */
 export type LoadResult =
@@ -59,24 +58,33 @@ export async function readNotebookBytes(path: string): Promise<Uint8Array> {
 }
 
 /**
- * Build a notebook from its bytes; CSV tables are read relative to `path`'s folder.
+ * Build and evaluate a notebook from its bytes; CSV tables are streamed from `path`'s folder.
  *
  * @example
  * ```ts
  * import { notebookFromBytes } from "./load.ts";
- * const r = notebookFromBytes(new TextEncoder().encode("~~~calc\nx = 1\n~~~\n"), "x.lentil.md");
+ * const r = await notebookFromBytes(new TextEncoder().encode("~~~calc\nx = 1\n~~~\n"), "x.lentil.md");
  * r.ok; // true
  * ```
  */
-export function notebookFromBytes(bytes: Uint8Array, path: string): LoadResult {
+export async function notebookFromBytes(bytes: Uint8Array, path: string): Promise<LoadResult> {
   const decoded = decodeNotebook(bytes, path);
   if (!decoded.ok) return decoded;
   const dir = dirname(path);
-  const notebook = new Notebook(parseNotebook(decoded.text, path), {
-    host: { readText: (rel) => Deno.readTextFileSync(join(dir, rel)) },
+  const notebook = await Notebook.load(decoded.text, path, {
+    host: {
+      readText: (rel) => Deno.readTextFileSync(join(dir, rel)),
+      open: (rel) => openStream(join(dir, rel)),
+    },
   });
-  notebook.evaluateAll();
   return { ok: true, notebook, bytes };
+}
+
+/** Open a file as a byte stream; a missing file fails here, at once, not mid-stream. */
+function openStream(path: string): AsyncIterable<Uint8Array> {
+  const file = Deno.openSync(path, { read: true });
+  // The stream closes the file when it ends or is cancelled.
+  return file.readable;
 }
 
 /**

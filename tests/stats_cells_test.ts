@@ -27,8 +27,9 @@ Deno.test("meanRx of +1.00 × 180 and +1.00 × 90 is a sphere of +0.50 D", () =>
   // Thibos et al. 1997: averaging through power vectors
   const nb = run(["avg = meanRx([0 D, 0 D], [1 D, 1 D], [180 deg, 90 deg])"]);
   const m = nb.value("avg") as Record<string, unknown>;
-  close(num(m.sphere), 0.5);
-  close(num(m.cylinder), 0);
+  const rx = (m.rx as { rx: { sphere: number; cylinder: number } }).rx;
+  close(rx.sphere, 0.5);
+  close(rx.cylinder, 0);
   close(num(m.J0), 0);
 });
 
@@ -105,6 +106,7 @@ Deno.test("a prescription column works when the rx type is registered", () => {
   const nb = Notebook.fromText(text, "rx.lentil.md");
   const m = nb.value("avg") as Record<string, unknown>;
   assert.ok(m, nb.result("avg")?.error?.message);
-  close(num(m.sphere), 0.5);
-  close(num(m.cylinder), 0);
+  const rx = (m.rx as { rx: { sphere: number; cylinder: number } }).rx;
+  close(rx.sphere, 0.5);
+  close(rx.cylinder, 0);
 });

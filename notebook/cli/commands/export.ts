@@ -56,7 +56,7 @@ export const exportCommand: Command = {
       }
       throw e;
     }
-    const loaded = notebookFromBytes(bytes, file);
+    const loaded = await notebookFromBytes(bytes, file);
     if (!loaded.ok) {
       io.err(formatDiagnostic(loaded.diagnostic));
       return 1;
