@@ -14,6 +14,7 @@ import { browserTest, watchPage } from "./_browser.ts";
 const ROOT = dirname(dirname(fileURLToPath(import.meta.url)));
 const FIXTURES = join(ROOT, "tests", "fixtures");
 const SCREENS = join(ROOT, "out", "screens");
+const TOUR = join(ROOT, "docs", "screens");
 
 async function exportTo(path: string, dir: string, embedData = false) {
   const r = await loadNotebook(path);
@@ -201,6 +202,7 @@ browserTest(
     seeds.sort();
     const files = [...seeds, join(FIXTURES, "export-plots.lentil.md")];
     await Deno.mkdir(SCREENS, { recursive: true });
+    await Deno.mkdir(TOUR, { recursive: true });
     await withTemp(async (dir) => {
       for (const file of files) {
         const { out } = await exportTo(file, dir);
@@ -213,6 +215,12 @@ browserTest(
         const png = join(SCREENS, basename(file).replace(/\.lentil\.md$/, ".png"));
         await page.screenshot({ path: png, fullPage: true });
         assert.ok((await Deno.stat(png)).size > 5000, png);
+        if (seeds.includes(file) && !file.endsWith("blank.lentil.md")) {
+          // The README's tour shows the top of each starter's page, as the browser draws it.
+          await page.setViewportSize({ width: 960, height: 1200 });
+          const tour = join(TOUR, basename(file).replace(/\.lentil\.md$/, ".png"));
+          await page.screenshot({ path: tour });
+        }
         await page.close();
       }
     });

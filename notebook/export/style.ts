@@ -56,8 +56,9 @@ thead th { border-bottom: 2px solid var(--ink); }
 sup.lx-fn { font-size: 0.72em; margin-left: 0.15em; }
 sup.lx-fn a { text-decoration: none; }
 .lx-flag { color: var(--warn); font-weight: 700; margin-left: 0.2em; }
+.lx-table-block { overflow-x: auto; }
 table.lx-data-table { width: auto; min-width: 50%; }
-table.lx-data-table th, table.lx-data-table td { padding: 0.2rem 0.9rem; }
+table.lx-data-table th, table.lx-data-table td { padding: 0.2rem 0.6rem; white-space: nowrap; }
 td.lx-num, th.lx-num { text-align: right; font-variant-numeric: tabular-nums; }
 .lx-table-cap { color: var(--muted); font-size: 0.88rem; margin: 0.3rem 0; }
 .lx-table-name { font-weight: 600; color: var(--ink); }
