@@ -142,3 +142,28 @@ export function insideEllipse(e: Ellipse, x: number, y: number): boolean {
   const b = e.semiMinor || 1e-300;
   return (u / a) ** 2 + (v / b) ** 2 <= 1 + 1e-12;
 }
+
+/**
+ * Points along an ellipse's outline, for drawing: `count` points evenly spaced in the
+ * parametric angle, starting at the end of the major axis. Source: chi2-ellipse (the
+ * ellipse itself); the parametric form x = cx + a·cos p·cos θ − b·sin p·sin θ,
+ * y = cy + a·cos p·sin θ + b·sin p·cos θ is plane geometry.
+ *
+ * @example
+ * ```ts
+ * import { ellipseOutline } from "./ellipse.ts";
+ * ellipseOutline({ cx: 0, cy: 0, semiMajor: 2, semiMinor: 1, angle: 0 }, 4)[0]; // { x: 2, y: 0 }
+ * ```
+ */
+export function ellipseOutline(
+  e: Pick<Ellipse, "cx" | "cy" | "semiMajor" | "semiMinor" | "angle">,
+  count = 96,
+): { x: number; y: number }[] {
+  const t = (e.angle * Math.PI) / 180;
+  const [ct, st] = [Math.cos(t), Math.sin(t)];
+  return Array.from({ length: count }, (_, i) => {
+    const p = (2 * Math.PI * i) / count;
+    const [u, w] = [e.semiMajor * Math.cos(p), e.semiMinor * Math.sin(p)];
+    return { x: e.cx + u * ct - w * st, y: e.cy + u * st + w * ct };
+  });
+}

@@ -1,10 +1,13 @@
 /**
  * Reading the JSON form of cell values for plots: a marked point (an endpoint), a list of
  * curve or outline points (a fitted through-focus curve, a confidence ellipse), and limits
- * of agreement. Nothing is computed here; the values come from cells.
+ * of agreement. Nothing is computed here; the values come from cells (an ellipse's outline is traced
+ * by `lib/ellipse.ts`).
  *
  * @module
  */
+
+import { ellipseOutline } from "../../lib/ellipse.ts";
 
 /** A plotted point. */
 export interface XY {
@@ -90,7 +93,7 @@ export function pointsOf(v: unknown, depth = 0): XY[] | undefined {
  * The outline of an ellipse given by its centre (`cx`, `cy`, or `centreJ0`, `centreJ45`
  * as the statistics cells give it), semi-axes (`semiMajor`,
  * `semiMinor`) and the major axis direction (`angle`, degrees from +x), traced at 96 points
- * for drawing. Undefined when the record is not such an ellipse.
+ * by `lib/ellipse.ts` for drawing. Undefined when the record is not such an ellipse.
  *
  * @example
  * ```ts
@@ -105,13 +108,7 @@ export function outlineOf(o: Record<string, unknown>): XY[] | undefined {
   const b = num(o.semiMinor);
   const angle = num(o.angle) ?? 0;
   if (cx === undefined || cy === undefined || a === undefined || b === undefined) return undefined;
-  const t = (angle * Math.PI) / 180;
-  const [ct, st] = [Math.cos(t), Math.sin(t)];
-  return Array.from({ length: 96 }, (_, i) => {
-    const p = (2 * Math.PI * i) / 96;
-    const [u, w] = [a * Math.cos(p), b * Math.sin(p)];
-    return { x: cx + u * ct - w * st, y: cy + u * st + w * ct };
-  });
+  return ellipseOutline({ cx, cy, semiMajor: a, semiMinor: b, angle }, 96);
 }
 
 /**
