@@ -156,7 +156,15 @@ function prefix(label: string, name: string): string {
 function lensChecks(ordered: Prescription, measured: Prescription, label: string) {
   const out: ToleranceCheck[] = [];
   const po = highestMeridian(ordered);
-  out.push(check(prefix(label, "sphere (highest meridian)"), po, highestMeridian(measured), sphereTolerance(po), "D"));
+  out.push(
+    check(
+      prefix(label, "sphere (highest meridian)"),
+      po,
+      highestMeridian(measured),
+      sphereTolerance(po),
+      "D",
+    ),
+  );
   // Compare cylinders in the ordered form (minus form for a spherical order).
   const form = ordered.cylinder > 0 ? toPlusCylinder : toMinusCylinder;
   const o = form(ordered);

@@ -61,7 +61,12 @@ Deno.test("verification: each quantity, the standard named, pass or fail and by 
   const onEdge = checkLens(ordered, { sphere: -2.51, cylinder: -0.62, axis: 175, add: 2.12 });
   assert.equal(onEdge.standard, TOLERANCE_STANDARD);
   assert.equal(onEdge.standard, "ANSI Z80.1-2015");
-  assert.deepEqual(onEdge.checks.map((c) => c.quantity), ["sphere (highest meridian)", "cylinder", "axis", "add"]);
+  assert.deepEqual(onEdge.checks.map((c) => c.quantity), [
+    "sphere (highest meridian)",
+    "cylinder",
+    "axis",
+    "add",
+  ]);
   assert.ok(onEdge.pass, JSON.stringify(onEdge.checks));
   for (const c of onEdge.checks) near(c.margin, 0, 1e-9, c.quantity);
   // just past every limit
