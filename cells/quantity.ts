@@ -157,7 +157,7 @@ export function toNumberIn(x: unknown, unit: string): number {
  * @example
  * ```ts
  * import { quantity, quantityParts } from "./quantity.ts";
- * quantityParts(quantity(0.5, "m").pow(-1)); // { value: 2, unit: "D" }
+ * quantityParts(quantity(250, "mm")); // { value: 250, unit: "mm" }
  * ```
  */
 export function quantityParts(x: unknown): { value: number; unit: string } | undefined {

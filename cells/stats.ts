@@ -11,9 +11,7 @@
  *
  * @example
  * ```ts
- * import { quantity, quantityParts, toNumberIn } from "./quantity.ts";
-import { rxValue } from "./rx.ts";
-import { getValueType } from "./types.ts";
+ * import { getLanguage } from "./language.ts";
  * const lang = getLanguage();
  * lang.describe(lang.compile(lang.parse("vectorM(-2 D, -1 D)")).evaluate({})).display; // "-2.50 D"
  * ```
