@@ -20,8 +20,9 @@ export const streamCommand: Command = {
     "the table and its computed columns to a new CSV. Medians and quantiles need every value\n" +
     "and are not computed here; run the notebook for those. The input is never written over.\n" +
     "Memory holds one chunk of rows, never the file. V8 collects lazily, so resident memory\n" +
-    "can rise well above what is alive; to hold it flat (about 220 MB for any file size) run\n" +
-    "with DENO_V8_FLAGS=--max-old-space-size=128.\n" +
+    "can rise well above what is alive; `deno task stream FILE …` runs this command with the\n" +
+    "V8 heap capped (--max-old-space-size=128), which holds it flat at about 230 MB for any\n" +
+    "file size.\n" +
     "Exit status: 0 when the whole file was read, 1 when a bad row or a broken file stopped\n" +
     "the run, 2 when it could not start.",
   options: {
