@@ -16,18 +16,7 @@ import { Column } from "../cells/table.ts";
 import { evaluateRowWise, planColumn } from "../notebook/engine/_columns.ts";
 import { streamNotebook } from "../notebook/table/stream.ts";
 import { type Goal, medianMs } from "./goal.ts";
-
-/** A seeded generator (mulberry32). */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seeded } from "../lib/seeded.ts";
 
 /** Invented refractions: sphere −8…+4 D and cylinder −3…0 D in 0.25 D steps, axis 1–180. */
 export function refractions(n: number, seed = 42) {

@@ -9,18 +9,7 @@
 
 import { fromPowerVector } from "../lib/power_vector.ts";
 import { formatPrescription } from "../lib/prescription_format.ts";
-
-/** A small seeded generator (mulberry32): the same seed gives the same numbers. */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seeded } from "../lib/seeded.ts";
 
 function normal(rand: () => number): number {
   const u = Math.max(rand(), 1e-12);

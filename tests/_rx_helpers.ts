@@ -8,18 +8,7 @@
 import assert from "node:assert/strict";
 import { toPowerMatrix } from "../lib/power_matrix.ts";
 import type { SpheroCylinder } from "../lib/spherocylinder.ts";
-
-/** A small seeded generator (mulberry32), so property tests are reproducible. */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seeded } from "../lib/seeded.ts";
 
 /** A random spherocylinder on the 0.25 D grid, axis 1–180. */
 export function randomRx(next: () => number): SpheroCylinder {

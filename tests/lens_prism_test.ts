@@ -9,7 +9,8 @@ import {
 } from "../lib/prism.ts";
 import { meridianPower } from "../lib/transpose.ts";
 import { LentilInputError, LentilRangeError } from "../lib/errors.ts";
-import { near, randomRx, seeded } from "./_rx_helpers.ts";
+import { near, randomRx } from "./_rx_helpers.ts";
+import { seeded } from "../lib/seeded.ts";
 
 Deno.test("Prentice's rule: spherical lenses", () => {
   // Prentice's rule P = c(cm) × F (common textbook result): 5.00 D, a point 4 mm from the

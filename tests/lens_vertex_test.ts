@@ -7,7 +7,8 @@ import {
   vertexSpheroCylinder,
 } from "../lib/vertex.ts";
 import { LentilRangeError } from "../lib/errors.ts";
-import { near, randomRx, seeded } from "./_rx_helpers.ts";
+import { near, randomRx } from "./_rx_helpers.ts";
+import { seeded } from "../lib/seeded.ts";
 
 Deno.test("vertex: the field-notes check values", () => {
   // field notes check value (vertex-formula): −10.00 D at 12 mm → −8.93 D at the cornea

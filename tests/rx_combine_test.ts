@@ -2,7 +2,8 @@ import assert from "node:assert/strict";
 import { combineLenses, lensDifference, overRefraction } from "../lib/combine.ts";
 import { fromPowerVector, toPowerVector } from "../lib/power_vector.ts";
 import type { SpheroCylinder } from "../lib/spherocylinder.ts";
-import { near, randomRx, sameLens, seeded } from "./_rx_helpers.ts";
+import { near, randomRx, sameLens } from "./_rx_helpers.ts";
+import { seeded } from "../lib/seeded.ts";
 
 const RAD = Math.PI / 180;
 

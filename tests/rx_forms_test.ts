@@ -15,7 +15,8 @@ import {
   transpose,
 } from "../lib/transpose.ts";
 import { LentilInputError } from "../lib/errors.ts";
-import { near, randomRx, sameLens, seeded } from "./_rx_helpers.ts";
+import { near, randomRx, sameLens } from "./_rx_helpers.ts";
+import { seeded } from "../lib/seeded.ts";
 
 const RAD = Math.PI / 180;
 

@@ -2,7 +2,8 @@ import assert from "node:assert/strict";
 import { parsePrescription, parsePrism } from "../lib/prescription.ts";
 import { formatAxis, formatPrescription, formatPrism } from "../lib/prescription_format.ts";
 import { LentilParseError } from "../lib/errors.ts";
-import { randomRx, seeded } from "./_rx_helpers.ts";
+import { randomRx } from "./_rx_helpers.ts";
+import { seeded } from "../lib/seeded.ts";
 
 const base = { sphere: -2.25, cylinder: -0.75, axis: 170 };
 

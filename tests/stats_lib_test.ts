@@ -1,5 +1,5 @@
 import assert from "node:assert/strict";
-import { seeded as rng } from "../bench/tables.ts";
+import { seeded as rng } from "../lib/seeded.ts";
 import * as ss from "simple-statistics";
 import jStatModule from "jstat";
 import {

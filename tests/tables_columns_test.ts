@@ -1,5 +1,5 @@
 import assert from "node:assert/strict";
-import { seeded as rng } from "../bench/tables.ts";
+import { seeded as rng } from "../lib/seeded.ts";
 import { getLanguage } from "../cells/language.ts";
 import { Column } from "../cells/table.ts";
 import { evaluateRowWise, planColumn } from "../notebook/engine/_columns.ts";
