@@ -1,6 +1,6 @@
 /**
- * Helpers for the prescription and lens tests: a seeded random source for property tests
- * and comparisons of lenses and numbers.
+ * Helpers for the prescription and lens tests: random lenses for property tests (from a
+ * seeded source, lib/seeded.ts) and comparisons of lenses and numbers.
  *
  * @module
  */
@@ -8,7 +8,6 @@
 import assert from "node:assert/strict";
 import { toPowerMatrix } from "../lib/power_matrix.ts";
 import type { SpheroCylinder } from "../lib/spherocylinder.ts";
-import { seeded } from "../lib/seeded.ts";
 
 /** A random spherocylinder on the 0.25 D grid, axis 1–180. */
 export function randomRx(next: () => number): SpheroCylinder {
