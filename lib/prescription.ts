@@ -83,6 +83,8 @@ const BASE_WORDS: Record<string, [number, number]> = {
   out: [-1, 0],
 };
 const PRISM_UNITS = new Set(["Δ", "∆", "pd", "prism", "p"]);
+/** Base words that may follow "base" (`base up`, `base in`); BU/BI/… stand alone. */
+const AFTER_BASE = new Set(["up", "down", "in", "out"]);
 
 class Reader {
   i = 0;
@@ -144,7 +146,7 @@ function readPrismPart(r: Reader, eye: Eye | undefined): Prism {
   let b = r.next();
   if (r.isWord(b, "b", "base")) {
     const after = r.peek();
-    if (after?.kind === "word" && after.text in BASE_WORDS && after.text.length > 2) {
+    if (after?.kind === "word" && AFTER_BASE.has(after.text)) {
       b = r.next();
     } else if (after?.kind === "number") {
       r.next();

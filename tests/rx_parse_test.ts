@@ -53,6 +53,16 @@ Deno.test("prescription: add, prism and eye", () => {
     horizontal: 0,
     vertical: -1,
   });
+  // "base up" and "base in" are written as often as "base out" (common practice, no source)
+  for (
+    const [text, prism] of [
+      ["R -1.00 DS 2 base in", { horizontal: 2, vertical: 0 }],
+      ["-1.00 DS 1.5 base up", { horizontal: 0, vertical: 1.5 }],
+      ["-1.00 DS 1.5 base down", { horizontal: 0, vertical: -1.5 }],
+      ["-1.00 DS 2 Δ base out", { horizontal: -2, vertical: 0 }],
+    ] as const
+  ) assert.deepEqual(parsePrescription(text).prism, prism, text);
+  assert.deepEqual(parsePrism("R 1 base up 2 base in").prism, { horizontal: 2, vertical: 1 });
   assert.deepEqual(parsePrism("L 2 Δ base out"), {
     prism: { horizontal: -2, vertical: 0 },
     eye: "L",
