@@ -408,7 +408,7 @@ export class Notebook {
   #shapes(): Map<string, TableShape> {
     const shapes = new Map<string, TableShape>();
     for (const n of this.#nodes.values()) {
-      if (n.kind !== "table" || n.id !== n.name) continue;
+      if (n.kind !== "table" || !ownsName(n)) continue;
       shapes.set(n.name, {
         data: new Set(n.raw?.columns.map((c) => c.name) ?? []),
         computed: new Set(),
@@ -426,7 +426,7 @@ export class Notebook {
     const shapes = this.#shapes();
     const cells = new Set<string>();
     for (const n of this.#nodes.values()) {
-      if (n.kind === "cell" && n.id === n.name) cells.add(n.name);
+      if (n.kind === "cell" && ownsName(n)) cells.add(n.name);
     }
     for (const n of this.#nodes.values()) this.#analyseNode(n, shapes, cells);
     this.#rebuildGraph();
@@ -505,7 +505,7 @@ export class Notebook {
     n.cell = { ...n.cell, expression, input: !n.table && isLiteralExpr(expression) };
     const cells = new Set<string>();
     for (const m of this.#nodes.values()) {
-      if (m.kind === "cell" && m.id === m.name) cells.add(m.name);
+      if (m.kind === "cell" && ownsName(m)) cells.add(m.name);
     }
     this.#analyseNode(n, this.#shapes(), cells);
     const after = [...(n.analysis?.deps ?? [])].sort().join("\n");
@@ -540,7 +540,7 @@ export class Notebook {
     const set = (st: Omit<NodeState, "sources" | "caution">) => {
       const state = { ...st, sources: sortSources(sources), caution };
       this.#state.set(id, state);
-      if (n.id === (n.table ? `${n.table}.${n.name}` : n.name) && n.kind !== "column") {
+      if (n.kind !== "column" && ownsName(n)) {
         if (state.error) this.#scope.delete(n.name);
         else this.#scope.set(n.name, state.value);
       }
@@ -742,6 +742,15 @@ export class Notebook {
   get graph(): DependencyGraph {
     return this.#graph;
   }
+}
+
+/**
+ * True when a cell or table node is the one that answers to its name in formulas: not a
+ * duplicate, and not named like a unit, function or constant (those keep their meaning, so
+ * `x = 1 mm` still reads millimetres when a cell is wrongly named `mm`).
+ */
+function ownsName(n: NodeDef): boolean {
+  return n.id === n.name && n.defError?.kind !== "name";
 }
 
 function isLiteralExpr(expression: string): boolean {
