@@ -49,17 +49,33 @@ export class ToleranceReportValue {
   constructor(readonly report: ToleranceReport) {}
 }
 
+/** A prism figure of a check with its base, as an optician reads it ("0.50 Δ BD"). */
+function prismText(quantity: string, v: number): string {
+  const amount = `${Math.abs(v).toFixed(2)} Δ`;
+  if (Math.round(Math.abs(v) * 100) === 0) return "0.00 Δ";
+  if (quantity.includes("imbalance")) return `${amount} (${v > 0 ? "R" : "L"} relatively base up)`;
+  if (quantity.includes("horizontal")) return `${amount} ${v > 0 ? "BI" : "BO"}`;
+  if (quantity.includes("vertical")) return `${amount} ${v > 0 ? "BU" : "BD"}`;
+  return `${v.toFixed(2)} Δ`;
+}
+
 function describeCheck(c: ToleranceCheck): string {
   const unit = c.unit === "deg" ? "°" : c.unit === "prism" ? " Δ" : " D";
-  const q = (v: number) => c.unit === "deg" ? `${formatNumber(v)}°` : formatQuantity(v, c.unit);
+  const q = (v: number) =>
+    c.unit === "deg"
+      ? `${formatNumber(v)}°`
+      : c.unit === "prism"
+      ? prismText(c.quantity, v)
+      : formatQuantity(v, c.unit);
   const size = (v: number) => `${c.unit === "deg" ? formatNumber(v) : v.toFixed(2)}${unit}`;
   const dev = `${c.deviation > 0 ? "+" : c.deviation < 0 ? "-" : ""}${size(Math.abs(c.deviation))}`;
+  const atLimit = size(Math.abs(c.margin)) === size(0);
   const verdict = c.pass
-    ? `pass, within by ${size(c.margin)}`
-    : `FAIL, outside by ${size(-c.margin)}`;
-  return `${c.quantity} ordered ${q(c.ordered)}, measured ${
+    ? atLimit ? "pass, at the limit" : `pass, ${size(c.margin)} inside the limit`
+    : `FAIL, ${atLimit ? "just" : size(-c.margin)} beyond the limit`;
+  return `${c.quantity}: ordered ${q(c.ordered)}, measured ${
     q(c.measured)
-  }: deviation ${dev}, tolerance ±${size(c.tolerance)}: ${verdict}`;
+  }, deviation ${dev}, tolerance ±${size(c.tolerance)}: ${verdict}`;
 }
 
 /** The `toleranceReport` value type. */

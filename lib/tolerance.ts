@@ -158,7 +158,7 @@ function lensChecks(ordered: Prescription, measured: Prescription, label: string
   const po = highestMeridian(ordered);
   out.push(
     check(
-      prefix(label, "sphere (highest meridian)"),
+      prefix(label, "sphere (meridian of highest absolute power)"),
       po,
       highestMeridian(measured),
       sphereTolerance(po),

@@ -62,7 +62,7 @@ Deno.test("verification: each quantity, the standard named, pass or fail and by 
   assert.equal(onEdge.standard, TOLERANCE_STANDARD);
   assert.equal(onEdge.standard, "ANSI Z80.1-2015");
   assert.deepEqual(onEdge.checks.map((c) => c.quantity), [
-    "sphere (highest meridian)",
+    "sphere (meridian of highest absolute power)",
     "cylinder",
     "axis",
     "add",

@@ -96,7 +96,28 @@ Deno.test("formulas: prism, thickness table, verification, near", () => {
   assert.match(report.display, /^ANSI Z80\.1-2015: FAIL/);
   assert.match(
     report.display,
-    /axis ordered 170°, measured 178°: deviation \+8°, tolerance ±5°: FAIL, outside by 3°/,
+    /axis: ordered 170°, measured 178°, deviation \+8°, tolerance ±5°: FAIL, 3° beyond the limit/,
+  );
+  // ANSI Z80.1-2015 values as in the field notes; wording is ours: the sphere is checked in the
+  // meridian of highest absolute power (not "the highest", i.e. vertical, meridian), a
+  // deviation equal to the tolerance passes "at the limit", prisms carry their base
+  const edge = lang.describe(
+    run('checkTolerance("-2.25 / -0.75 x 170", "-2.37 / -0.62 x 175")'),
+  ).display;
+  assert.match(edge, /sphere \(meridian of highest absolute power\): ordered -3\.00 D/);
+  assert.match(edge, /cylinder: .*tolerance ±0\.13 D: pass, at the limit/);
+  assert.match(edge, /sphere .*: pass, 0\.12 D inside the limit/);
+  const prism = lang.describe(
+    run('checkTolerance("R -2.00 DS 1 BD", "R -2.00 DS 0.5 BD 0.75 BO")'),
+  ).display;
+  assert.match(prism, /horizontal prism: ordered 0\.00 Δ, measured 0\.75 Δ BO, .*FAIL/);
+  assert.match(prism, /vertical prism: ordered 1\.00 Δ BD, measured 0\.50 Δ BD, .*FAIL/);
+  const pair = lang.describe(
+    run('checkPairTolerance("-2.00 DS", "-2.00 DS", "-2.00 DS 0.2 BD", "-2.00 DS 0.2 BU")'),
+  ).display;
+  assert.match(
+    pair,
+    /vertical imbalance: ordered 0\.00 Δ, measured 0\.40 Δ \(L relatively base up\)/,
   );
   assert.equal(show("nearDemand(40 cm)"), "+2.50 D");
   assert.equal(show("tentativeAdd(50 years, 40 cm).add"), "+1.25 D");
