@@ -74,6 +74,15 @@ function eyeFor(rx: SpheroCylinder, ...candidates: (string | undefined)[]): [Eye
   if (Math.abs(toPowerMatrix(rx)[0][1]) < 1e-9) return ["R", undefined];
   return [requireEye("for a lens with an oblique cylinder"), undefined];
 }
+/** A decentration as the lab order reads: "optical centre 2.50 mm in, 1.00 mm down". */
+function decentrationWords(horizontal: number, vertical: number): string {
+  const part = (v: number, plus: string, minus: string) =>
+    Math.round(Math.abs(v) * 100) === 0
+      ? ""
+      : `${Math.abs(v).toFixed(2)} mm ${v > 0 ? plus : minus}`;
+  const parts = [part(horizontal, "in", "out"), part(vertical, "up", "down")].filter((p) => p);
+  return parts.length ? `optical centre ${parts.join(", ")}` : "no decentration";
+}
 const RX: ParamSpec = { name: "rx", type: "rx", doc: "the lens" };
 const OFFSET = (name: string, doc: string): ParamSpec => ({
   name,
@@ -231,7 +240,7 @@ export const PRISM_FORMULAS: readonly FormulaSpec[] = [
     params: [RX, PRISM_PARAM, EYE_PARAM],
     returns: {
       type: "any",
-      doc: "record horizontal (mm, positive in), vertical (mm, positive up)",
+      doc: "record horizontal (mm, positive in), vertical (mm, positive up), and the move in words",
     },
     sources: ["prentice", "long-1976"],
     caution: true,
@@ -240,7 +249,11 @@ export const PRISM_FORMULAS: readonly FormulaSpec[] = [
       const pv = p as PrismValue;
       const [e] = eyeFor(rxOf(r), eye as string | undefined, pv.eye, rxOf(r).eye);
       const d = decentrationFor(rxOf(r), pv.prism, e);
-      return { horizontal: quantity(d.horizontal, "mm"), vertical: quantity(d.vertical, "mm") };
+      return {
+        horizontal: quantity(d.horizontal, "mm"),
+        vertical: quantity(d.vertical, "mm"),
+        move: decentrationWords(d.horizontal, d.vertical),
+      };
     },
   }),
 ];

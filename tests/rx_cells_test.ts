@@ -84,6 +84,16 @@ Deno.test("formulas: prism, thickness table, verification, near", () => {
   assert.equal(show('resolvePrism(2 prism, 90 deg, "L")'), "L: 2.00 Δ BU (2.00 Δ base 90°)");
   assert.equal(show('verticalImbalance("+3 DS", "+1 DS", 10 mm).imbalance'), "2.00 Δ");
   assert.equal(show('decentrationFor("+4.00 DS", "1 BI", "R").horizontal'), "2.50 mm");
+  // Prentice's rule (common textbook result): a plus lens is decentred toward the base, a minus
+  // lens away from it; the record says which way in words, not only by sign
+  assert.equal(
+    show('decentrationFor("+4.00 DS", "1 BI", "R").move'),
+    "optical centre 2.50 mm in",
+  );
+  assert.equal(
+    show('decentrationFor("-5.00 DS", "1 BI 0.5 BU", "L").move'),
+    "optical centre 2.00 mm out, 1.00 mm down",
+  );
   const table = run('thicknessByIndex("-6.00 DS", 60 mm, 1.5 mm)');
   assert.equal(tableInfo(table)?.rowCount, 6);
   assert.deepEqual(tableInfo(table)?.columns.map((c) => c.name), [
