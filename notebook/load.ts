@@ -14,7 +14,7 @@
 
 import { dirname, join } from "node:path";
 import { Notebook } from "./engine/engine.ts";
-import { decodeNotebook } from "./format/read.ts";
+import { decodeNotebookLenient } from "./format/read.ts";
 import type { Diagnostic } from "./format/diagnostic.ts";
 
 /** A loaded notebook, or the reason it could not be read at all. */
@@ -68,10 +68,10 @@ export async function readNotebookBytes(path: string): Promise<Uint8Array> {
  * ```
  */
 export async function notebookFromBytes(bytes: Uint8Array, path: string): Promise<LoadResult> {
-  const decoded = decodeNotebook(bytes, path);
-  if (!decoded.ok) return decoded;
+  const decoded = decodeNotebookLenient(bytes, path);
   const dir = dirname(path);
   const notebook = await Notebook.load(decoded.text, path, {
+    encoding: decoded.diagnostics,
     host: {
       readText: (rel) => Deno.readTextFileSync(join(dir, rel)),
       open: (rel) => openStream(join(dir, rel)),

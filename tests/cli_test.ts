@@ -84,7 +84,7 @@ Deno.test("check on a missing file or invalid UTF-8 gives a message, not a stack
     await Deno.writeFile(f, new Uint8Array([0x61, 0x0a, 0xff, 0x0a]));
     const r = await cli("check", f);
     assert.equal(r.code, 1);
-    assert.match(r.err, /bin\.lentil\.md:2:1: the file is not valid UTF-8/);
+    assert.match(r.out, /bin\.lentil\.md:2:1: this line is not valid UTF-8/);
     assert.doesNotMatch(r.err + r.out, /at .*\.ts:\d+/);
   });
 });

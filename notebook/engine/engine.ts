@@ -113,6 +113,11 @@ export interface NotebookOptions {
   readonly language?: Language;
   /** CSV tables already read (by {@linkcode Notebook.load}), by table name. */
   readonly tables?: ReadonlyMap<string, PreparedTable>;
+  /**
+   * Lines whose bytes are not UTF-8 (from `decodeNotebookLenient`): reported, and a cell or
+   * table on such a line is an error rather than a value read from replaced characters.
+   */
+  readonly encoding?: readonly Diagnostic[];
 }
 
 /** A CSV table read before the notebook is built. */
@@ -170,6 +175,7 @@ export class Notebook {
   readonly #lang: Language;
   readonly #host: TableHost;
   readonly #preloaded?: ReadonlyMap<string, PreparedTable>;
+  readonly #encoding: ReadonlyMap<number, Diagnostic>;
   readonly #nodes = new Map<string, NodeDef>();
   readonly #state = new Map<string, NodeState>();
   readonly #scope = new Map<string, unknown>();
@@ -224,6 +230,8 @@ export class Notebook {
     this.doc = doc;
     this.#lang = options.language ?? getLanguage();
     this.#preloaded = options.tables;
+    this.#encoding = new Map((options.encoding ?? []).map((d) => [d.line, d]));
+    this.#staticDiagnostics.push(...(options.encoding ?? []));
     this.#host = options.host ?? {
       readText: () => {
         throw new Error("no folder to read table files from");
@@ -268,6 +276,8 @@ export class Notebook {
           line: block.line,
           col: block.col,
         };
+      } else if (this.#badBytes(block.line, tableEnd(block))) {
+        node.defError = this.#badBytes(block.line, tableEnd(block));
       } else if (reserved(block.name)) {
         node.defError = {
           kind: "name",
@@ -303,6 +313,8 @@ export class Notebook {
           line: cell.line,
           col: cell.col,
         };
+      } else if (this.#badBytes(cell.line, cell.line)) {
+        node.defError = this.#badBytes(cell.line, cell.line);
       } else if (!cell.table && reserved(cell.name)) {
         node.defError = {
           kind: "name",
@@ -323,6 +335,16 @@ export class Notebook {
       }
       this.#nodes.set(id, node);
     }
+  }
+
+  /** The encoding error on the first line from `from` to `to` whose bytes are not UTF-8. */
+  #badBytes(from: number, to: number): CellError | undefined {
+    for (const [line, d] of this.#encoding) {
+      if (line >= from && line <= to) {
+        return { kind: "syntax", message: d.message, file: d.file, line: d.line, col: d.col };
+      }
+    }
+    return undefined;
   }
 
   #loadTable(node: NodeDef): void {
@@ -749,6 +771,10 @@ export class Notebook {
  * duplicate, and not named like a unit, function or constant (those keep their meaning, so
  * `x = 1 mm` still reads millimetres when a cell is wrongly named `mm`).
  */
+function tableEnd(block: TableBlock): number {
+  return Math.max(block.headerLine, ...block.rows.map((r) => r.line));
+}
+
 function ownsName(n: NodeDef): boolean {
   return n.id === n.name && n.defError?.kind !== "name";
 }

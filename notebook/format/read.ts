@@ -54,6 +54,55 @@ export function decodeNotebook(bytes: Uint8Array, file: string): DecodeResult {
   }
 }
 
+/** Text decoded with every invalid sequence shown as U+FFFD, and one diagnostic a line. */
+export interface LenientDecode {
+  /** The text (exactly the file's when `diagnostics` is empty). */
+  readonly text: string;
+  /** One error for each line that holds bytes that are not UTF-8 (at the first such byte). */
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+/**
+ * Decode bytes as UTF-8 so that the rest of a notebook can still be read and evaluated when
+ * some bytes are not UTF-8: each such line gets a positioned error, and the text shows the
+ * bad bytes as U+FFFD (for reading only: it is never written back).
+ *
+ * @example
+ * ```ts
+ * import { decodeNotebookLenient } from "./read.ts";
+ * const r = decodeNotebookLenient(new Uint8Array([0x61, 0x0a, 0x62, 0xff, 0x0a]), "bad.lentil.md");
+ * r.diagnostics.map((d) => `${d.line}:${d.col}`); // ["2:2"]
+ * ```
+ */
+export function decodeNotebookLenient(bytes: Uint8Array, file: string): LenientDecode {
+  const strict = decodeNotebook(bytes, file);
+  if (strict.ok) return { text: strict.text, diagnostics: [] };
+  const bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf ? 3 : 0;
+  const text = new TextDecoder("utf-8", { ignoreBOM: true }).decode(bytes.subarray(bom));
+  const diagnostics: Diagnostic[] = [];
+  const lines = new Set<number>();
+  let at = 0;
+  while (at < bytes.length && diagnostics.length < 50) {
+    const bad = at + firstInvalidUtf8(bytes.subarray(at));
+    if (bad >= bytes.length) break;
+    const before = new TextDecoder("utf-8").decode(bytes.subarray(bom, bad)).split("\n");
+    if (!lines.has(before.length)) {
+      lines.add(before.length);
+      diagnostics.push({
+        file,
+        line: before.length,
+        col: before[before.length - 1].length + 1,
+        message: `this line is not valid UTF-8 (byte 0x${
+          bytes[bad].toString(16).padStart(2, "0")
+        } at offset ${bad}); save the file as UTF-8`,
+        severity: "error",
+      });
+    }
+    at = bad + 1;
+  }
+  return { text, diagnostics };
+}
+
 /** Offset of the first byte that breaks UTF-8, or `bytes.length` when all are valid. */
 function firstInvalidUtf8(bytes: Uint8Array): number {
   let i = 0;
