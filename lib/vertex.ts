@@ -15,7 +15,8 @@
  * @module
  */
 
-import { checkFinite, checkRange, LentilRangeError } from "./errors.ts";
+import { checkFinite, checkRange, LentilInputError } from "./errors.ts";
+import { formatPower } from "./_power_text.ts";
 import { normaliseAxis, type SpheroCylinder } from "./spherocylinder.ts";
 import { toMinusCylinder } from "./transpose.ts";
 
@@ -28,14 +29,19 @@ import { toMinusCylinder } from "./transpose.ts";
  * import { effectivePower } from "./vertex.ts";
  * effectivePower(10, 0.012).toFixed(2); // "11.36"
  * ```
- * @throws {LentilRangeError} when the lens would be moved to its own focal point.
+ * @throws {LentilInputError} when the lens would be moved to its own focal point (no finite
+ * power there).
  */
 export function effectivePower(power: number, shift: number): number {
   checkFinite("power", power);
   checkFinite("vertex shift", shift);
   const denom = 1 - shift * power;
   if (Math.abs(denom) < 1e-9) {
-    throw new LentilRangeError("vertex shift", shift, -Infinity, Infinity, "m");
+    throw new LentilInputError(
+      `a ${formatPower(power)} lens moved ${(Math.abs(shift) * 1000).toFixed(1)} mm ${
+        shift > 0 ? "toward" : "away from"
+      } the eye lands on its own focal point: no lens of finite power there corrects the same eye`,
+    );
   }
   return power / denom;
 }

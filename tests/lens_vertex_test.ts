@@ -6,7 +6,7 @@ import {
   roundToStep,
   vertexSpheroCylinder,
 } from "../lib/vertex.ts";
-import { LentilRangeError } from "../lib/errors.ts";
+import { LentilInputError, LentilRangeError } from "../lib/errors.ts";
 import { near, randomRx } from "./_rx_helpers.ts";
 import { seeded } from "../lib/seeded.ts";
 
@@ -15,6 +15,15 @@ Deno.test("vertex: the field-notes check values", () => {
   assert.equal(effectivePower(-10, 0.012).toFixed(2), "-8.93");
   // field notes check value (vertex-formula): +10.00 D at 12 mm → +11.36 D at the cornea
   assert.equal(effectivePower(10, 0.012).toFixed(2), "11.36");
+  // F' = F / (1 − d·F) is infinite when d = 1/F (vertex formula): +40.00 D moved 25 mm toward
+  // the eye; the error says so in the trade's terms instead of an "accepted range" of ±∞
+  assert.throws(
+    () => effectivePower(40, 0.025),
+    (e: Error) =>
+      e instanceof LentilInputError &&
+      /\+40\.00 D lens moved 25\.0 mm toward the eye/.test(e.message) &&
+      !/Infinity/.test(e.message),
+  );
   assert.equal(
     vertexSpheroCylinder({ sphere: -10, cylinder: 0, axis: 180 }, 12, 0).sphere
       .toFixed(2),
