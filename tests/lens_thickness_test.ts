@@ -55,7 +55,26 @@ Deno.test("thickness: minus lens thin at the centre, plus lens thin at the edge"
   near(toric.backCurves[1], -8);
 });
 
+Deno.test("thickness: the front curve moves the difference between the two sags", () => {
+  // Jalie (from memory): a plano-concave −4.00 D lens has its whole power on the back, so the
+  // edge is the minimum plus the sag of that one surface; a plano-convex +4.00 D lens likewise
+  // at the centre. Any other front curve gives a meniscus whose two sags differ by more.
+  const y = 30;
+  const rx = { sphere: -4, cylinder: 0, axis: 180 };
+  const flat = lensThickness(rx, { index: 1.5, diameter: 60, minThickness: 2, frontCurve: 0 });
+  near(flat.edgeThick, 2 + sag(500 / 4, y));
+  const steep = lensThickness(rx, { index: 1.5, diameter: 60, minThickness: 2, frontCurve: 8 });
+  near(steep.edgeThick, 2 + sag(500 / 12, y) - sag(500 / 8, y));
+  assert.ok(steep.edgeThick > flat.edgeThick);
+  const plus = { sphere: 4, cylinder: 0, axis: 180 };
+  const convex = lensThickness(plus, { index: 1.5, diameter: 60, minThickness: 1, frontCurve: 4 });
+  near(convex.centre, 1 + sag(500 / 4, y));
+  near(convex.backCurves[0], 0);
+});
+
 Deno.test("thickness: higher index, thinner minus lens", () => {
+  // r = (n − 1)/F (Jalie, from memory): a higher index flattens both surfaces, so the same
+  // −6.00 D lens has a thinner edge
   const rows = thicknessByIndex({ sphere: -6, cylinder: 0, axis: 180 }, {
     diameter: 60,
     minThickness: 1.5,
@@ -93,14 +112,14 @@ Deno.test("thickness: values outside the accepted ranges are refused, naming the
 });
 
 Deno.test("frame diameter: farthest box corner", () => {
-  // common practice (boxing): 2·√((A/2 + dec)² + (B/2)²) + margin
+  // boxing (common practice, no source): 2·√((A/2 + dec)² + (B/2)²) + margin
   near(frameDiameter(50, 40, 3, 0), 2 * Math.hypot(28, 20));
   near(frameDiameter(50, 40, -3), 2 * Math.hypot(28, 20) + 2);
   assert.throws(() => frameDiameter(50, 40, 20), /decentration 20 mm/);
 });
 
 Deno.test("lens measure: true power for another index", () => {
-  // lens-measure correction (common practice): F_true = F_read × (n − 1)/(n_tool − 1)
+  // lens-measure correction (common practice, no source): F_true = F_read × (n − 1)/(n_tool − 1)
   near(trueLensPower(6, 1.5), 6 * 0.5 / 0.53);
   near(trueLensPower(-4, 1.67), -4 * 0.67 / 0.53);
   near(trueLensPower(4, 1.53), 4);

@@ -37,7 +37,8 @@ Deno.test("vertex: a spherocylinder goes meridian by meridian", () => {
   near(r.sphere, -10 / (1 + 0.12));
   near(r.sphere + r.cylinder, -12 / (1 + 0.144));
   assert.equal(r.axis, 90);
-  // moving a lens away from the eye (8 → 14 mm): F' = F / (1 + 0.006·F)
+  // vertex-formula, d negative when the lens moves away from the eye (8 → 14 mm):
+  // F' = F / (1 + 0.006·F)
   const away = vertexSpheroCylinder({ sphere: 5, cylinder: 1, axis: 30 }, 8, 14);
   near(away.sphere, 5 / (1 + 0.006 * 5));
   near(away.sphere + away.cylinder, 6 / (1 + 0.006 * 6));
@@ -82,7 +83,8 @@ Deno.test("contact-lens power: at the cornea, minus-cylinder form, rounded by th
 });
 
 Deno.test("rounding: nearest with halves toward plus, or always up or down", () => {
-  // common practice, no source: the rule is stated beside the result
+  // common practice, no source: between two steps a contact lens goes to the less minus (more
+  // plus) one; the rule is stated beside the result
   assert.equal(roundPower(-8.93, 0.25), -9);
   assert.equal(roundPower(-4.125, 0.25), -4);
   assert.equal(roundPower(4.125, 0.25), 4.25);
