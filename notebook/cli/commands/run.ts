@@ -8,6 +8,19 @@
 import type { Command } from "../command.ts";
 import { buildReport, type Report } from "../../report.ts";
 import { openNotebook } from "./_open.ts";
+import { type Diagnostic, formatDiagnostic } from "../../format/diagnostic.ts";
+import type { Notebook } from "../../engine/engine.ts";
+
+/**
+ * The problems `check` reports that no cell shows as its own error (an unterminated block, a
+ * CSV row with the wrong field count, a bad option line), so `run` does not hide them.
+ */
+function otherProblems(nb: Notebook, report: Report): Diagnostic[] {
+  const atCells = new Set(
+    report.cells.flatMap((c) => c.error ? [`${c.error.file}:${c.error.line}:${c.error.col}`] : []),
+  );
+  return nb.diagnostics().filter((d) => !atCells.has(`${d.file}:${d.line}:${d.col}`));
+}
 
 /**
  * Plain-text rendering of a report, one line a cell.
@@ -58,13 +71,15 @@ export const runCommand: Command = {
   help:
     "Evaluates FILE (a *.lentil.md notebook) and prints each cell: name, value with unit, and\n" +
     "the numbers of the sources it used, then the numbered sources and any cautions.\n" +
-    "Exit status: 0 when every cell evaluated, 1 when any cell has an error.",
+    "Problems no cell shows (an unterminated block, a bad CSV row) are listed at the end.\n" +
+    "Exit status: 0 when every cell evaluated, 1 when any cell or the file has an error.",
   options: { json: { type: "boolean", doc: "print the results as JSON" } },
   positionals: [1, 1],
   async run([file], options, io) {
     const opened = await openNotebook(file, io);
     if (!opened) return 1;
     const report = buildReport(opened);
+    const problems = otherProblems(opened, report);
     if (options.json) {
       const cells = report.cells.map((c) => ({
         name: c.id,
@@ -78,14 +93,23 @@ export const runCommand: Command = {
         ...(c.error ? { error: c.error } : {}),
       }));
       io.out(
-        JSON.stringify({ cells, sources: report.sources, cautions: report.cautions }, null, 2),
+        JSON.stringify(
+          { cells, sources: report.sources, cautions: report.cautions, problems },
+          null,
+          2,
+        ),
       );
     } else {
       const front = opened.doc.front;
       const title = [front.title ?? file, front.case ? `(case ${front.case})` : ""].filter(Boolean)
         .join(" ");
       io.out(renderReportText(report, title));
+      if (problems.length) {
+        io.out(["", "Problems", ...problems.map((d) => `  ${formatDiagnostic(d)}`)].join("\n"));
+      }
     }
-    return report.cells.some((c) => c.error) ? 1 : 0;
+    return report.cells.some((c) => c.error) || problems.some((d) => d.severity === "error")
+      ? 1
+      : 0;
   },
 };
