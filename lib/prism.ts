@@ -116,9 +116,11 @@ export function prismFromVector(x: number, y: number, eye: Eye): Prism {
 export function resolvePrism(amount: number, base: number, eye: Eye): Prism {
   checkRange("prism amount", amount, 0, 50, "Δ");
   checkRange("prism base", base, 0, 360, "deg");
-  const x = amount * Math.cos(base * RAD);
-  const y = amount * Math.sin(base * RAD);
-  return prismFromVector(Math.abs(x) < 1e-12 ? 0 : x, Math.abs(y) < 1e-12 ? 0 : y, eye);
+  // Trim the last bits of cos/sin so that 2 Δ base 120 gives exactly 1 Δ out, not 0.9999…
+  const trim = (v: number) => Math.round(v * 1e12) / 1e12 + 0;
+  const x = trim(amount * Math.cos(base * RAD));
+  const y = trim(amount * Math.sin(base * RAD));
+  return prismFromVector(x, y, eye);
 }
 
 /**

@@ -56,6 +56,10 @@ Deno.test("prism: base directions per eye and 360-degree notation", () => {
   const r = resolvePrism(2, 30, "R");
   near(r.horizontal, Math.sqrt(3));
   near(r.vertical, 1);
+  // 2 Δ base 120 for the right eye: cos 120° = −½, so exactly 1 Δ base out (no 0.9999…
+  // in the record), sin 120° = √3/2 up (common practice, no source)
+  assert.equal(resolvePrism(2, 120, "R").horizontal, -1);
+  assert.equal(resolvePrism(4, 210, "L").vertical, -2);
   const l = resolvePrism(2, 30, "L");
   near(l.horizontal, -Math.sqrt(3)); // base 30° is up and out for the left eye
   // compounding 3 Δ BI with 4 Δ BU → 5 Δ (3-4-5 triangle; common practice)
