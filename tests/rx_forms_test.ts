@@ -38,6 +38,10 @@ Deno.test("transpose: S/C×α ↔ (S+C)/−C×(α±90)", () => {
     axis: 180,
   });
   assert.equal(toMinusCylinder({ sphere: -3, cylinder: 0.75, axis: 80 }).cylinder, -0.75);
+  // the new axis is α + 90 or α − 90, whichever lies in 1–180 (TABO; ISO 13666, from memory)
+  for (const [a, b] of [[10, 100], [90, 180], [91, 1], [180, 90], [100, 10]]) {
+    assert.equal(transpose({ sphere: -1, cylinder: -1, axis: a }).axis, b, `axis ${a}`);
+  }
 });
 
 Deno.test("property: transposing twice is the identity; transposition keeps the lens", () => {
