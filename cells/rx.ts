@@ -50,8 +50,12 @@ import {
 
 /** A prescription as a value of the formula language. */
 export class RxValue {
-  /** @param rx the prescription record. */
-  constructor(readonly rx: Prescription) {}
+  /**
+   * @param rx the prescription record.
+   * @param exactOnly shown exact, never stepped to the notebook's power step (for a figure
+   * that sits beside its own rounded form, as the contact-lens power does).
+   */
+  constructor(readonly rx: Prescription, readonly exactOnly = false) {}
 
   /** The trade's text, exact to 0.01 D and whole degrees. */
   toString(): string {
@@ -67,7 +71,7 @@ export function rxValue(rx: Prescription): RxValue {
 function displayRx(v: RxValue, options: DisplayOptions): string {
   const exact = formatPrescription(v.rx);
   const step = options.powerStep;
-  if (!(step >= 0.01 && step <= 1)) return exact;
+  if (v.exactOnly || !(step >= 0.01 && step <= 1)) return exact;
   const stepped = formatPrescription(roundToStep(v.rx, step));
   return stepped === exact ? exact : `${stepped} (exact ${exact})`;
 }
@@ -384,7 +388,7 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
       const exact = cornealPower(rxOf(r), v as number);
       const how = ruleOf(rule);
       return {
-        atCornea: rxValue(exact),
+        atCornea: new RxValue(exact, true),
         rounded: rxValue(roundToStep(exact, step as number, how)),
         rule: `${ROUNDING_RULES[how]}, step ${(step as number).toFixed(3).replace(/0$/, "")} D`,
       };

@@ -25,6 +25,12 @@ Deno.test("rx value type: text or value, shown in the trade's way", () => {
     show('vertexRx("-10.00 / -2.00 x 90", 12 mm, 8 mm)'),
     "-9.50 / -2.00 × 90 (exact -9.62 / -1.83 × 90)",
   );
+  // vertex-formula at 12 mm: −6.00 / −1.50 × 180 → −5.60 / −1.28 × 180 at the cornea. The
+  // exact figure is shown exact, so it cannot be mistaken for a rounding by another rule than
+  // the one stated beside the rounded power
+  const cl = lang.describe(run('contactLensPower("-6.00 / -1.50 x 180", 12 mm, 0.25 D, "minus")'))
+    .display;
+  assert.match(cl, /^atCornea: -5\.60 \/ -1\.28 × 180, rounded: -5\.75 \/ -1\.25 × 180, rule: /);
   assert.deepEqual(lang.describe(run('rx("L: +1.00 DS add +2.50 1 BU")')).value, {
     sphere: 1,
     cylinder: 0,
