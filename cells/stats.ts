@@ -23,7 +23,8 @@ import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts"
 import { Column } from "./table.ts";
 import { quantity, quantityParts, toNumberIn } from "./quantity.ts";
 import { rxValue } from "./rx.ts";
-import { getValueType } from "./types.ts";
+import { defineValueType, type DisplayOptions, getValueType, typeOfValue } from "./types.ts";
+import { formatNumber, formatQuantity, signed } from "./display.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
 import { CYLINDER_RANGE, SPHERE_RANGE } from "../lib/prescription.ts";
 import { LentilInputError } from "../lib/errors.ts";
@@ -39,6 +40,58 @@ import {
 } from "../lib/stats.ts";
 import { type Agreement, limitsOfAgreement, vectorAgreement } from "../lib/agreement.ts";
 import { ellipseOf } from "../lib/ellipse.ts";
+
+/**
+ * Records of statistics. They stay plain records (fields read as `s.sd`, quantities kept for
+ * arithmetic) but are shown as statistics, not as lens powers: dioptric values exact (two
+ * decimals, three below 0.1 D) rather than rounded to the notebook's power step, and spreads
+ * (SDs, semi-axes) without a sign.
+ */
+const STAT_RECORDS = new WeakSet<object>();
+
+/** Keys of spreads: never negative, shown without a sign. */
+const SPREAD_KEYS = new Set(["sd", "sdM", "sdJ0", "sdJ45", "semiMajor", "semiMinor"]);
+
+function statRecord<T extends Record<string, unknown>>(record: T): T {
+  STAT_RECORDS.add(record);
+  return record;
+}
+
+function showStat(key: string, v: unknown, options: DisplayOptions): string {
+  const q = quantityParts(v);
+  if (q) {
+    if (q.unit !== "D") return formatQuantity(q.value, q.unit);
+    if (!Number.isFinite(q.value)) return `${q.value} D`;
+    // Two decimals as powers are written; three for small values (a mean's ellipse, a bias).
+    const x = Math.round(q.value * 1000) / 1000;
+    if (x !== 0 && Math.abs(x) < 0.1) {
+      const digits = Math.abs(x).toFixed(3);
+      return SPREAD_KEYS.has(key) ? `${digits} D` : `${x > 0 ? "+" : "-"}${digits} D`;
+    }
+    return SPREAD_KEYS.has(key) ? `${Math.abs(q.value).toFixed(2)} D` : `${signed(q.value)} D`;
+  }
+  if (typeof v === "number") return formatNumber(v);
+  if (typeof v === "string") return v;
+  const t = typeOfValue(v);
+  return t ? t.display(v, options) : String(v);
+}
+
+function statJson(v: unknown): unknown {
+  const q = quantityParts(v);
+  if (q) return q.value;
+  if (v === null || typeof v !== "object") return v;
+  const t = typeOfValue(v);
+  return t ? t.json(v) : v;
+}
+
+defineValueType<Record<string, unknown>>({
+  name: "statistics",
+  summary: "a record of statistics (means, SDs, limits) with units",
+  is: (x): x is Record<string, unknown> => STAT_RECORDS.has(x as object),
+  display: (r, options) =>
+    Object.entries(r).map(([k, v]) => `${k}: ${showStat(k, v, options)}`).join(", "),
+  json: (r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, statJson(v)])),
+});
 
 /** A quantity of the shared language, made when a formula runs (never at module load). */
 function qty(value: number, unit: string): unknown {
@@ -128,7 +181,7 @@ export function refractionArrays(
 
 /** A summary as a record of the language (quantities in `unit`). */
 export function summaryRecord(s: Summary, unit: string): Record<string, unknown> {
-  return {
+  return statRecord({
     count: s.count,
     missing: s.missing,
     mean: qty(s.mean, unit),
@@ -138,7 +191,7 @@ export function summaryRecord(s: Summary, unit: string): Record<string, unknown>
     median: qty(s.median, unit),
     q3: qty(s.q3, unit),
     max: qty(s.max, unit),
-  };
+  });
 }
 
 function unitOf(c: Column): string {
@@ -147,19 +200,19 @@ function unitOf(c: Column): string {
 
 /** A vector summary as a mean-prescription record. */
 export function meanRxRecord(v: VectorSummary): Record<string, unknown> {
-  return {
+  return statRecord({
     rx: rxValue(v.meanRx),
     M: qty(v.mean.m, "D"),
     J0: qty(v.mean.j0, "D"),
     J45: qty(v.mean.j45, "D"),
     n: v.n,
     missing: v.missing,
-  };
+  });
 }
 
 /** Vector statistics as a record of the language. */
 export function vectorStatsRecord(v: VectorSummary): Record<string, unknown> {
-  return {
+  return statRecord({
     n: v.n,
     missing: v.missing,
     meanM: qty(v.mean.m, "D"),
@@ -171,7 +224,7 @@ export function vectorStatsRecord(v: VectorSummary): Record<string, unknown> {
     covMJ0: v.cov.mJ0,
     covMJ45: v.cov.mJ45,
     covJ0J45: v.cov.j0J45,
-  };
+  });
 }
 
 /** The 95% ellipse of (J0, J45) as a record of the language. */
@@ -185,26 +238,29 @@ export function ellipseRecord(
     v.n,
     region,
   );
-  return {
+  return statRecord({
+    region: region === "mean"
+      ? "95% confidence ellipse of the mean (J0, J45)"
+      : "ellipse expected to hold 95% of eyes (J0, J45)",
     centreJ0: qty(e.cx, "D"),
     centreJ45: qty(e.cy, "D"),
     semiMajor: qty(e.semiMajor, "D"),
     semiMinor: qty(e.semiMinor, "D"),
     angle: qty(e.angle, "deg"),
     n: v.n,
-  };
+  });
 }
 
 /** Agreement as a record of the language (quantities in `unit`). */
 export function agreementRecord(a: Agreement, unit: string): Record<string, unknown> {
-  return {
+  return statRecord({
     n: a.n,
     missing: a.missing,
     bias: qty(a.bias, unit),
     sd: qty(a.sd, unit),
     lower: qty(a.lower, unit),
     upper: qty(a.upper, unit),
-  };
+  });
 }
 
 function vectorsOf(r: { sph: Float64Array; cyl: Float64Array; axis: Float64Array }) {

@@ -110,3 +110,27 @@ Deno.test("a prescription column works when the rx type is registered", () => {
   close(rx.sphere, 0.5);
   close(rx.cylinder, 0);
 });
+
+Deno.test("statistics read as statistics: SDs unsigned, exact figures, ellipses say which region", () => {
+  // Display convention: common practice, no source. A standard deviation or a semi-axis is
+  // never negative and is no lens power, so it carries no sign and no power-step rounding.
+  const nb = run([
+    "s = summary([-1.25 D, -1.5 D, -1 D, -2 D])",
+    "v = vectorStats(visits.sph, visits.cyl, visits.axis)",
+    "ell = ellipse95(visits.sph, visits.cyl, visits.axis)",
+    "eyes = spread95(visits.sph, visits.cyl, visits.axis)",
+    "agree = agreement(visits.sph, visits.sphB)",
+  ]);
+  const shown = (name: string) => lang.describe(nb.value(name)).display;
+  assert.match(shown("s"), /mean: -1\.44 D, sd: 0\.43 D/);
+  assert.doesNotMatch(shown("s"), /exact|\+0\.43/);
+  assert.match(shown("v"), /sdM: \d\.\d\d\d? D/);
+  assert.doesNotMatch(shown("v"), /sd\w*: [+-]|exact/);
+  assert.match(shown("ell"), /^region: 95% confidence ellipse of the mean/);
+  assert.match(shown("eyes"), /^region: ellipse expected to hold 95% of eyes/);
+  assert.match(shown("ell"), /semiMajor: \d\.\d\d\d? D, semiMinor: \d\.\d\d\d? D/);
+  assert.match(shown("agree"), /bias: [+-]?\d\.\d\d\d? D, sd: \d\.\d\d\d? D, lower: -/);
+  // the fields are still quantities for arithmetic
+  const s = nb.value("s") as Record<string, unknown>;
+  close(num(s.sd), ss.sampleStandardDeviation([-1.25, -1.5, -1, -2]));
+});
