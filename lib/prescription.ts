@@ -265,6 +265,11 @@ export function parsePrescription(text: string): Prescription {
       add = power(r, a, "add", ADD_RANGE);
     } else if (t.kind === "number") {
       prisms.push(readPrismPart(r, eye));
+    } else if (["x", "×", "@", "axis"].includes(t.text)) {
+      r.fail(
+        `an axis needs a cylinder before it: write sphere / cylinder x axis, e.g. -2.00 / -0.50 x 90`,
+        t,
+      );
     } else {
       r.fail(
         `unexpected ${
