@@ -464,13 +464,17 @@ export class Notebook {
       tables: shapes,
       rowTable: n.table,
     });
-    if (n.table && shapes.has(n.table)) {
+    // A table that could not be read has no columns to see: its computed columns show the
+    // table's error (as a dependency), not "unknown name" for every column they use.
+    const table = n.table ? this.#nodes.get(n.table) : undefined;
+    const tableFailed = table?.kind === "table" && !!table.defError;
+    if (n.table && (shapes.has(n.table) || tableFailed)) {
       const deps = new Set(a.deps);
       deps.add(n.table);
       n.analysis = { ...a, deps };
     } else n.analysis = a;
     n.compiled = undefined;
-    if (a.problem) {
+    if (a.problem && !(tableFailed && a.problem.kind === "name")) {
       n.exprError = {
         kind: a.problem.kind,
         message: a.problem.message,
