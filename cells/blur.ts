@@ -319,7 +319,7 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     name: "throughFocus",
     group: "accommodation",
     summary:
-      "Predicted acuity against trial lens power around a correction, with an amplitude of accommodation (0 for none): a table of lens, va (logMAR) and residual defocus.",
+      "Predicted acuity against trial lens power around a correction, with an amplitude of accommodation (0 for none), from the blur approximation (Smith 1991, from memory): a table of lens, va (logMAR) and residual defocus.",
     params: [
       { name: "rx", type: "quantity", unit: "D", doc: "the eye's correction at infinity" },
       PUPIL,

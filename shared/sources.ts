@@ -182,7 +182,7 @@ const entries: readonly Source[] = [
   {
     id: "smith-1991",
     citation:
-      "Smith G. Relation between spherical refractive error and visual acuity. Optom Vis Sci 1991;68:591–598.",
+      "Smith G. Relation between spherical refractive error and visual acuity. Optom Vis Sci 1991;68:591–598. Used as an approximation: MAR ≈ k·pupil·defocus once blur dominates.",
     status: "from-memory",
     note:
       "An approximation: MAR grows roughly in proportion to pupil × defocus once blur dominates.",

@@ -188,3 +188,14 @@ Deno.test("through-focus prediction with and without accommodation", () => {
   const six = predictThroughFocus([-1 + 1 / 6], { rx: -1, pupil: 4 });
   close(six[0].residual, 0, 1e-12);
 });
+
+Deno.test("results from the blur-acuity approximation say they are approximations", async () => {
+  // Smith 1991 (from memory): MAR ≈ k·A·ΔF is an approximation; the cited source and every
+  // formula built on it say so where the result is shown
+  const { getSource } = await import("../shared/sources.ts");
+  const { BLUR_FORMULAS } = await import("../cells/blur.ts");
+  assert.match(getSource("smith-1991").citation, /approximation/);
+  const built = BLUR_FORMULAS.filter((f) => f.sources.includes("smith-1991"));
+  assert.ok(built.length >= 3);
+  for (const f of built) assert.match(f.summary, /approximation/, f.name);
+});
