@@ -53,6 +53,7 @@ function bruteDistinct(m: number, n: number, k: number): number {
 }
 
 Deno.test("no-repetition form against direct enumeration", () => {
+  // checked by direct enumeration of every ordered selection (no outside source needed)
   for (const [m, n] of [[3, 3], [5, 3], [6, 4], [8, 5], [10, 5]]) {
     for (let k = 0; k <= n; k++) {
       close(guessChanceDistinct(m, n, k), bruteDistinct(m, n, k), 1e-12, `m=${m} n=${n} k=${k}`);
@@ -71,6 +72,7 @@ Deno.test("forced-choice optotypes use the same tail", () => {
 });
 
 Deno.test("one or more of several lines in a row", () => {
+  // any probability text: P(one or more of L independent lines) = 1 − (1 − p)^L
   const p = guessChance(10, 5, 3);
   close(guessAnyLine(10, 5, 3, 1), p);
   close(guessAnyLine(10, 5, 3, 3), 1 - (1 - p) ** 3);
@@ -90,6 +92,7 @@ Deno.test("letter sets by their letters or a count", () => {
 });
 
 Deno.test("a letter set with fewer letters than needed is refused", () => {
+  // common practice, no source: a set smaller than the line cannot fill it without repetition
   assert.throws(
     () => guessChanceDistinct(3, 5, 4),
     (e) => e instanceof LentilInputError && /3 letters, fewer than the 4 needed/.test(e.message),

@@ -80,6 +80,7 @@ Deno.test("non-standard fractions: 20/25 at a 4 m chart is 4/5, and 4/5 reads as
 });
 
 Deno.test("every notation converts both ways", () => {
+  // ICO 1984 and ISO 8596: V = 1/MAR, logMAR = log10 MAR (round trips)
   for (const l of [-0.3, -0.1, 0, 0.18, 0.5, 1, 1.3]) {
     const a = acuityFromLogMAR(l);
     close(acuityFromDecimal(decimalOf(a)).logMAR, l, 1e-12);
@@ -107,6 +108,7 @@ Deno.test("Snellen with letters missed or added, and how it is written", () => {
 });
 
 Deno.test("parsing the other written forms", () => {
+  // ICO 1984, ISO 8596, Ferris 1982 (85 − 50·logMAR); written forms: common practice, no source
   close(parseAcuity("logMAR 0.3").logMAR, 0.3, 1e-12);
   close(parseAcuity("-0.1 logMAR").logMAR, -0.1, 1e-12);
   close(parseAcuity("MAR 2").logMAR, Math.log10(2), 1e-12);

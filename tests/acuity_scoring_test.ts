@@ -47,6 +47,7 @@ Deno.test("the per-letter value on lines of other lengths and steps", () => {
 });
 
 Deno.test("lines above the start, skipped lines and lines not attempted are stated", () => {
+  // Bailey & Lovie 1976 (0.02 per letter); counting unread lines: common practice, no source
   const read = [null, null, null, 5, 5, null, 5, 4, 3, 1, 0, null, null, null];
   const s = scoreChart(chart, read);
   assert.deepEqual(
@@ -62,6 +63,7 @@ Deno.test("lines above the start, skipped lines and lines not attempted are stat
 });
 
 Deno.test("a partial line on top and an uncredited line above a credited one", () => {
+  // more-than-half rule: common practice, no source
   const s = scoreChart(chart, [2, 5, 5, ...Array(11).fill(null)]);
   close(s.lineLogMAR, 0.8);
   assert.ok(s.notes.some((n) => /line 1 \(1\.00 logMAR\) was not credited/.test(n)));

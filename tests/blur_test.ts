@@ -100,6 +100,7 @@ Deno.test("Airy disc against 2.44·λ/A", () => {
 });
 
 Deno.test("combined blur, pinhole and the comparison with cones and optotypes", () => {
+  // root-sum-of-squares of blur and Airy diameters: a rule of thumb, common practice, no source
   const c = combinedBlur(3, 0.5);
   close(c.combined, Math.hypot(blurDisc(3, 0.5), airyDisc(3)), 1e-12);
   close(combinedBlur(3, 0).combined, airyDisc(3), 1e-12);
@@ -168,6 +169,7 @@ Deno.test("demand, usable accommodation and minus absorbed", () => {
 });
 
 Deno.test("through-focus prediction with and without accommodation", () => {
+  // vergence bookkeeping: common practice, no source; blur to MAR: Smith 1991 (from memory)
   const powers = powerRange(1, -3, 0.25);
   const none = predictThroughFocus(powers, { rx: -1, pupil: 4, testDistance: Infinity });
   const some = predictThroughFocus(powers, {

@@ -33,6 +33,7 @@ function shuffle<T>(xs: readonly T[], seed = 7): T[] {
 }
 
 Deno.test("active accommodation: the endpoint is the plus end of a flat minus plateau", () => {
+  // most plus for best acuity, plus end of the plateau: common practice, no source
   const r = findEndpoint(accommodating);
   close(r.endpoint, -0.25);
   assert.deepEqual(r.plateau, { from: -1.5, to: -0.25, width: 1.25, powers: 6, openMinus: true });
@@ -47,6 +48,7 @@ Deno.test("active accommodation: the endpoint is the plus end of a flat minus pl
 });
 
 Deno.test("no accommodation: a peaked table gives the peak and a closed plateau", () => {
+  // most plus for best acuity: common practice, no source; tables known by design
   const r = findEndpoint(peaked);
   close(r.endpoint, 0.5);
   assert.equal(r.plateau.width, 0);
@@ -64,6 +66,7 @@ Deno.test("no accommodation: a peaked table gives the peak and a closed plateau"
 });
 
 Deno.test("shuffled rows and repeated powers give the same answer", () => {
+  // common practice, no source: the order of the rows carries no meaning
   const repeated = [...accommodating, accommodating[3], accommodating[7]];
   for (
     const rows of [shuffle(accommodating), shuffle(repeated, 11), [...accommodating].reverse()]
@@ -80,6 +83,7 @@ Deno.test("shuffled rows and repeated powers give the same answer", () => {
 });
 
 Deno.test("tolerance: one letter by default", () => {
+  // Bailey & Lovie 1976: one letter is 0.02 logMAR on five-letter 0.1-step lines
   const rows = [
     { power: 0.5, logMAR: 0.2 },
     { power: 0.25, logMAR: 0.02 },
@@ -93,6 +97,7 @@ Deno.test("tolerance: one letter by default", () => {
 });
 
 Deno.test("warnings: a table that stops at the plus side, a gap, a plateau too long for the age", () => {
+  // common practice, no source; expected accommodation: Hofstetter 1950
   const plusEdge = findEndpoint([
     { power: 0, logMAR: 0 },
     { power: -0.25, logMAR: 0 },
@@ -143,6 +148,7 @@ Deno.test("bad trial tables: no rows, conflicting repeats, values out of range",
 });
 
 Deno.test("trial acuity as logMAR, Snellen text or letters read per line", () => {
+  // ICO 1984 (Snellen to logMAR); Bailey & Lovie 1976 (0.02 per letter)
   assert.equal(trialLogMAR(0.1, 1), 0.1);
   close(trialLogMAR("6/6", 1), 0, 1e-12);
   close(trialLogMAR("20/40", 1), Math.log10(2), 1e-12);
