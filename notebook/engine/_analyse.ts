@@ -119,6 +119,14 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
 
   node.traverse((n, path, parent) => {
     switch (n.type) {
+      case "BlockNode":
+        problem ??= {
+          message:
+            "one formula a cell: `;` separates formulas; write each as its own cell `name = expression`",
+          offset: Math.max(0, expression.search(/[;\n]/)),
+          kind: "syntax",
+        };
+        return;
       case "AssignmentNode":
       case "FunctionAssignmentNode":
         fail(

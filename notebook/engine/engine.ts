@@ -609,7 +609,31 @@ export class Notebook {
         addColumn(table, column);
         set({ value: column });
       } else {
-        set({ value: n.compiled!.evaluate(this.#scope) });
+        const value = n.compiled!.evaluate(this.#scope);
+        const q = typeof value === "number" ? { value } : this.#lang.quantityParts(value);
+        if ((value as { isComplex?: boolean } | null)?.isComplex) {
+          return set({
+            error: {
+              kind: "evaluation",
+              message: "the result is not a real number (the square root of a negative value?)",
+              file,
+              ...where,
+            },
+          });
+        }
+        if (q && !Number.isFinite(q.value)) {
+          return set({
+            error: {
+              kind: "evaluation",
+              message: `the result is ${
+                Number.isNaN(q.value) ? "not a number" : "infinite"
+              } (a division by zero, or a value out of range?)`,
+              file,
+              ...where,
+            },
+          });
+        }
+        set({ value });
       }
     } catch (e) {
       set({ error: this.#explain(e as Error, n, where) });
