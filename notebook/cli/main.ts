@@ -81,10 +81,18 @@ export async function runCli(args: string[], io: CliIo = consoleIo()): Promise<n
     io.err(`lentil: unknown command "${name}" (run lentil --help for the list)`);
     return 2;
   }
+  // A leading minus that is not an option letter starts a value, e.g. `lentil eval "-10 D"`.
+  const values = new Map<string, string>();
+  const argv = rest.map((a) => {
+    if (!/^-(?![-A-Za-z])/.test(a)) return a;
+    const key = `\u0000${values.size}`;
+    values.set(key, a);
+    return key;
+  });
   let parsed;
   try {
     parsed = parseArgs({
-      args: rest,
+      args: argv,
       allowPositionals: true,
       strict: true,
       options: {
@@ -101,6 +109,11 @@ export async function runCli(args: string[], io: CliIo = consoleIo()): Promise<n
     io.err(`lentil ${command.name}: ${msg}\n\nusage: lentil ${command.name} ${command.usage}`);
     return 2;
   }
+  const restore = (v: unknown) => typeof v === "string" ? values.get(v) ?? v : v;
+  parsed = {
+    positionals: parsed.positionals.map((p) => restore(p) as string),
+    values: Object.fromEntries(Object.entries(parsed.values).map(([k, v]) => [k, restore(v)])),
+  };
   if (parsed.values.help) {
     io.out(commandHelp(command));
     return 0;

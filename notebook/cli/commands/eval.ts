@@ -18,6 +18,10 @@ export const evalCommand: Command = {
   options: { json: { type: "boolean", doc: "print {value, unit, display, sources} as JSON" } },
   positionals: [1, 1],
   run([expr], options, io) {
+    if (!expr.trim()) {
+      io.err('lentil eval: give an expression, e.g. lentil eval "vertexPower(-10 D, 12 mm)"');
+      return Promise.resolve(2);
+    }
     if (expr.includes("\n")) {
       io.err("eval takes one expression on one line");
       return Promise.resolve(2);
