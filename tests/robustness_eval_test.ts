@@ -47,3 +47,9 @@ Deno.test("a result that is infinite, not a number or complex is an error at the
   assert.equal(nb.result("d")!.error!.kind, "dependency");
   assert.equal(nb.value("ok"), 2);
 });
+
+Deno.test("help --help shows help's own usage", async () => {
+  const r = await cli("help", "--help");
+  assert.equal(r.code, 0);
+  assert.match(r.out, /^usage: lentil help \[COMMAND\]/);
+});

@@ -68,6 +68,10 @@ export async function runCli(args: string[], io: CliIo = consoleIo()): Promise<n
     return 0;
   }
   if (name === "help") {
+    if (rest[0] === "--help" || rest[0] === "-h") {
+      io.out("usage: lentil help [COMMAND]\n\nShows the list of commands, or one command's help.");
+      return 0;
+    }
     const c = COMMANDS.find((c) => c.name === rest[0]);
     if (rest[0] && !c) {
       io.err(`lentil: unknown command "${rest[0]}"\n\n${usage()}`);
