@@ -336,7 +336,7 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
     group: "acuity",
     summary: "Vergence a chart at a test distance presents at the eye, −1/d.",
     params: [DISTANCE],
-    returns: { type: "quantity", unit: "D", doc: "vergence" },
+    returns: { type: "quantity", unit: "D", display: "exact", doc: "vergence" },
     sources: ["test-distance-vergence"],
     example: "testDistanceVergence(6 m)",
     fn: (d) => testDistanceVergence(d as number),

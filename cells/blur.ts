@@ -242,7 +242,12 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     summary:
       "Defocus at which a line should just fail, from MAR ≈ k·pupil·defocus: an approximation (Smith 1991, from memory).",
     params: [{ name: "acuity", type: "acuity", doc: "the line" }, PUPIL, SLOPE],
-    returns: { type: "quantity", unit: "D", doc: "defocus (an approximation)" },
+    returns: {
+      type: "quantity",
+      unit: "D",
+      display: "exact",
+      doc: "defocus (an approximation)",
+    },
     sources: ["smith-1991"],
     example: 'failingDefocus("6/12", 4 mm)',
     fn: (a, p, k) => failingDefocus(decimalOf(acuityOf(a)), p as number, { slope: k as number }),
@@ -288,7 +293,7 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       range: [0.001, 1e6],
       doc: "target distance",
     }],
-    returns: { type: "quantity", unit: "D", doc: "demand" },
+    returns: { type: "quantity", unit: "D", display: "exact", doc: "demand" },
     sources: ["common-practice"],
     example: "accommodativeDemand(40 cm)",
     fn: (d) => accommodativeDemand(d as number),
@@ -309,7 +314,7 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
         doc: "which amplitude: minimum, mean or maximum (default mean)",
       },
     ],
-    returns: { type: "quantity", unit: "D", doc: "minus absorbed" },
+    returns: { type: "quantity", unit: "D", display: "exact", doc: "minus absorbed" },
     sources: ["hofstetter-1950", "common-practice"],
     example: "minusAbsorbed(30 years)",
     fn: (age, d, level) =>

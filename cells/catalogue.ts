@@ -65,6 +65,12 @@ export interface ReturnSpec {
   readonly type: BuiltinType | string;
   /** For `quantity`: the unit of the number `fn` returns. */
   readonly unit?: string;
+  /**
+   * For a quantity in D: `"exact"` when the result is a measure rather than a lens power
+   * (a vergence, a mean, a spread), shown to two decimals instead of in the power step.
+   * Arithmetic on the result gives an ordinary power again.
+   */
+  readonly display?: "exact";
   /** One line: what the result is. */
   readonly doc: string;
 }

@@ -21,7 +21,15 @@ import { Column, isTable, tableInfo } from "./table.ts";
 import { DEFAULT_DISPLAY, type DisplayOptions, getValueType, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
 import { CATALOGUE } from "./mod.ts";
-import { columnToArray, formulaMath, quantity, quantityParts, toNumberIn } from "./quantity.ts";
+import {
+  columnToArray,
+  formulaMath,
+  isExact,
+  markExact,
+  quantity,
+  quantityParts,
+  toNumberIn,
+} from "./quantity.ts";
 
 export { LENTIL_UNITS } from "./quantity.ts";
 
@@ -211,7 +219,9 @@ function buildLanguage(catalogue: Catalogue): Language {
         throw wrappedErr;
       }
       if (spec.returns.type === "quantity" && typeof out === "number") {
-        return spec.returns.unit ? unitOf(out, spec.returns.unit) : out;
+        if (!spec.returns.unit) return out;
+        const q = unitOf(out, spec.returns.unit);
+        return spec.returns.display === "exact" ? markExact(q) : q;
       }
       return out;
     };
@@ -260,7 +270,8 @@ function buildLanguage(catalogue: Catalogue): Language {
     if (typeof x === "boolean") return { display: x ? "yes" : "no", value: x, unit: "" };
     const q = quantityParts(x);
     if (q) {
-      return { display: formatQuantity(q.value, q.unit, options.powerStep), ...q };
+      const step = isExact(x) ? 0 : options.powerStep;
+      return { display: formatQuantity(q.value, q.unit, step), ...q };
     }
     if (x instanceof Column) {
       return {

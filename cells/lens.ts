@@ -325,7 +325,7 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
       range: WORKING_DISTANCE_RANGE_CM,
       doc: "working distance",
     }],
-    returns: { type: "quantity", unit: "D", doc: "demand" },
+    returns: { type: "quantity", unit: "D", display: "exact", doc: "demand" },
     sources: ["common-practice"],
     example: "nearDemand(40 cm)",
     fn: (d) => nearDemand(d as number),

@@ -108,6 +108,37 @@ export function quantity(value: number, unit: string): Unit {
   return formulaMath().unit(value + 0, unit);
 }
 
+const EXACT = Symbol("lentil.exact");
+
+/**
+ * Mark a quantity as a measure to be shown exactly (not in the power step); returns it.
+ *
+ * @example
+ * ```ts
+ * import { isExact, markExact, quantity } from "./quantity.ts";
+ * isExact(markExact(quantity(-0.17, "D"))); // true
+ * ```
+ */
+export function markExact<T>(x: T): T {
+  if (x !== null && typeof x === "object") {
+    Object.defineProperty(x, EXACT, { value: true, enumerable: false });
+  }
+  return x;
+}
+
+/**
+ * Whether a quantity was marked by {@linkcode markExact}.
+ *
+ * @example
+ * ```ts
+ * import { isExact, quantity } from "./quantity.ts";
+ * isExact(quantity(1, "D")); // false
+ * ```
+ */
+export function isExact(x: unknown): boolean {
+  return x !== null && typeof x === "object" && (x as Record<symbol, unknown>)[EXACT] === true;
+}
+
 /**
  * Whether `x` is a quantity (a mathjs Unit).
  *

@@ -21,7 +21,7 @@
 
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { Column } from "./table.ts";
-import { quantity, quantityParts, toNumberIn } from "./quantity.ts";
+import { markExact, quantity, quantityParts, toNumberIn } from "./quantity.ts";
 import { rxValue } from "./rx.ts";
 import { defineValueType, type DisplayOptions, getValueType, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity, signed } from "./display.ts";
@@ -93,9 +93,12 @@ defineValueType<Record<string, unknown>>({
   json: (r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, statJson(v)])),
 });
 
-/** A quantity of the shared language, made when a formula runs (never at module load). */
+/**
+ * A quantity of the shared language, made when a formula runs (never at module load). A
+ * statistic is a measure, not a lens power: it is shown exactly, not in the power step.
+ */
 function qty(value: number, unit: string): unknown {
-  return unit ? quantity(value, unit) : value;
+  return unit ? markExact(quantity(value, unit)) : value;
 }
 
 /**
@@ -421,7 +424,7 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
       { name: "sph", type: "quantity", unit: "D", range: SPHERE_RANGE, doc: "sphere" },
       { name: "cyl", type: "quantity", unit: "D", range: CYLINDER_RANGE, doc: "cylinder" },
     ],
-    returns: { type: "quantity", unit: "D", doc: "M" },
+    returns: { type: "quantity", unit: "D", display: "exact", doc: "M" },
     sources: ["thibos-1997"],
     example: "vectorM(-2 D, -1 D)",
     fn: (s, c) => toPowerVector({ sphere: s as number, cylinder: c as number, axis: 180 }).m,
@@ -434,7 +437,7 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
       { name: "cyl", type: "quantity", unit: "D", range: CYLINDER_RANGE, doc: "cylinder" },
       { name: "axis", type: "quantity", unit: "deg", range: [0, 180], doc: "axis" },
     ],
-    returns: { type: "quantity", unit: "D", doc: "J0" },
+    returns: { type: "quantity", unit: "D", display: "exact", doc: "J0" },
     sources: ["thibos-1997"],
     example: "vectorJ0(-1 D, 180 deg)",
     fn: (c, a) => toPowerVector({ sphere: 0, cylinder: c as number, axis: a as number }).j0,
@@ -447,7 +450,7 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
       { name: "cyl", type: "quantity", unit: "D", range: CYLINDER_RANGE, doc: "cylinder" },
       { name: "axis", type: "quantity", unit: "deg", range: [0, 180], doc: "axis" },
     ],
-    returns: { type: "quantity", unit: "D", doc: "J45" },
+    returns: { type: "quantity", unit: "D", display: "exact", doc: "J45" },
     sources: ["thibos-1997"],
     example: "vectorJ45(-1 D, 45 deg)",
     fn: (c, a) => toPowerVector({ sphere: 0, cylinder: c as number, axis: a as number }).j45,
