@@ -66,9 +66,15 @@ export interface Command {
 export function consoleIo(): CliIo {
   const enc = new TextEncoder();
   return {
-    out: (line) => Deno.stdout.writeSync(enc.encode(line + "\n")),
-    err: (line) => Deno.stderr.writeSync(enc.encode(line + "\n")),
+    out: (line) => writeAll(Deno.stdout, enc.encode(line + "\n")),
+    err: (line) => writeAll(Deno.stderr, enc.encode(line + "\n")),
   };
+}
+
+/** Write every byte: a pipe may take fewer than asked at once. */
+function writeAll(w: { writeSync(p: Uint8Array): number }, bytes: Uint8Array): void {
+  let done = 0;
+  while (done < bytes.length) done += w.writeSync(bytes.subarray(done));
 }
 
 /** An I/O surface that keeps what was written, for tests. */
