@@ -241,7 +241,12 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     group: "blur",
     summary:
       "Defocus at which a line should just fail, from MAR ≈ k·pupil·defocus: an approximation (Smith 1991, from memory).",
-    params: [{ name: "acuity", type: "acuity", doc: "the line" }, PUPIL, SLOPE],
+    params: [{ name: "acuity", type: "acuity", doc: "the line" }, PUPIL, {
+      name: "inFocus",
+      type: "acuity",
+      optional: true,
+      doc: "acuity in focus (default 6/6), as for blurredAcuity",
+    }, SLOPE],
     returns: {
       type: "quantity",
       unit: "D",
@@ -250,7 +255,11 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     },
     sources: ["smith-1991"],
     example: 'failingDefocus("6/12", 4 mm)',
-    fn: (a, p, k) => failingDefocus(decimalOf(acuityOf(a)), p as number, { slope: k as number }),
+    fn: (a, p, f, k) =>
+      failingDefocus(decimalOf(acuityOf(a)), p as number, {
+        baselineMAR: f === undefined ? 1 : marOf(acuityOf(f)),
+        slope: k as number,
+      }),
   }),
   defineFormula({
     name: "blurredAcuity",

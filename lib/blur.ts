@@ -329,14 +329,15 @@ export function blurredMAR(
 
 /**
  * The defocus (D, positive) at which a line of decimal acuity `decimal` should just fail
- * for a `pupil` mm pupil: where {@linkcode blurredMAR} reaches the line's MAR. With the
- * default in-focus MAR of 0 the result is MAR/(k·A). An approximation, from memory.
- * Source: smith-1991.
+ * for a `pupil` mm pupil: where {@linkcode blurredMAR} reaches the line's MAR, with the same
+ * default in-focus MAR of 1′ (6/6). With an in-focus MAR of 0 the result is MAR/(k·A). An
+ * approximation, from memory. Source: smith-1991.
  *
  * @example
  * ```ts
  * import { failingDefocus } from "./blur.ts";
- * failingDefocus(0.5, 4).toFixed(2); // "0.77"
+ * failingDefocus(0.5, 4).toFixed(2); // "0.67"
+ * failingDefocus(0.5, 4, { baselineMAR: 0 }).toFixed(2); // "0.77"
  * ```
  * @throws {LentilInputError} when the line is at or beyond the in-focus acuity.
  */
@@ -348,11 +349,12 @@ export function failingDefocus(
   checkRange("decimal acuity", decimal, 0.001, 10);
   checkPupil(pupil);
   const mar = 1 / decimal;
-  const mar0 = checkFinite("in-focus MAR", options.baselineMAR ?? 0);
+  const mar0 = checkFinite("in-focus MAR", options.baselineMAR ?? 1);
   if (mar0 < 0) throw new LentilInputError(`in-focus MAR ${mar0} must not be negative`);
   if (mar <= mar0) {
     throw new LentilInputError(
-      `a line of MAR ${mar.toFixed(2)}′ is not read even in focus (in-focus MAR ${mar0}′)`,
+      `a line of MAR ${mar.toFixed(2)}′ is at or beyond the in-focus acuity (MAR ${mar0}′), ` +
+        "so no defocus is needed to fail it: choose a larger line or a better in-focus acuity",
     );
   }
   return Math.sqrt(mar * mar - mar0 * mar0) / (slopeOf(options) * pupil);

@@ -120,13 +120,13 @@ Deno.test("combined blur, pinhole and the comparison with cones and optotypes", 
 
 Deno.test("failing defocus: the approximation and its inverse", () => {
   // Smith 1991 (from memory): MAR ≈ k·A·ΔF; the line of MAR 2′ fails at 2/(k·A)
-  close(failingDefocus(0.5, 4), 2 / (0.65 * 4), 1e-12);
-  const d = failingDefocus(0.5, 4, { baselineMAR: 1 });
+  close(failingDefocus(0.5, 4, { baselineMAR: 0 }), 2 / (0.65 * 4), 1e-12);
+  const d = failingDefocus(0.5, 4);
   close(blurredMAR(4, d, { baselineMAR: 1 }), 2, 1e-9);
   // the blur disc is then about the letter's overall size (a rough geometric check)
-  const ratio = blurDisc(4, failingDefocus(0.5, 4)) / 10;
+  const ratio = blurDisc(4, failingDefocus(0.5, 4, { baselineMAR: 0 })) / 10;
   assert.ok(ratio > 0.8 && ratio < 1.5, `blur over letter size ${ratio}`);
-  assert.throws(() => failingDefocus(1, 4, { baselineMAR: 1 }), LentilInputError);
+  assert.throws(() => failingDefocus(1, 4), LentilInputError);
 });
 
 Deno.test("bad blur inputs", () => {
