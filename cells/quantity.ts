@@ -38,8 +38,51 @@ export const LENTIL_UNITS: readonly string[] = [
   "year",
 ];
 
+/**
+ * Every unit a formula may name: Lentil's own, their spellings, and a few lengths and times
+ * a test distance or an age may come in. mathjs knows hundreds more (`bar`, `cd`, `lb`…);
+ * a formula naming one of those is refused, so a typo cannot turn into a pressure.
+ */
+export const USABLE_UNITS: ReadonlySet<string> = new Set([
+  ...LENTIL_UNITS,
+  "dioptre",
+  "diopter",
+  "km",
+  "ft",
+  "foot",
+  "feet",
+  "inch",
+  "degree",
+  "degrees",
+  "radian",
+  "radians",
+  "arcminute",
+  "arcsecond",
+  "s",
+  "month",
+  "months",
+  "day",
+  "days",
+]);
+
 /** Units whose values are shown in that unit rather than mathjs's choice. */
-const PREFERRED_UNITS = ["D", "prism", "mm", "deg", "arcmin", "um", "nm", "years", "m", "cm"];
+const PREFERRED_UNITS = [
+  "D",
+  "prism",
+  "mm",
+  "deg",
+  "arcmin",
+  "um",
+  "nm",
+  "years",
+  "m",
+  "cm",
+  "km",
+  "ft",
+  "inch",
+  "arcsec",
+  "rad",
+];
 
 /** The parts of mathjs's typed-function that its type declarations leave out. */
 interface TypedRegistry {

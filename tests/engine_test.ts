@@ -230,3 +230,13 @@ Deno.test("tables: CSV rows with the wrong number of fields are positioned in th
     "r.csv:3:1: row has 1 field, the header has 2",
   ]);
 });
+
+Deno.test("a unit Lentil does not use is refused at its column, so a typo is not a pressure", () => {
+  const nb = Notebook.fromText(calc("p = 3 bar\nd = 20 ft\nk = 1 km"), "u.lentil.md");
+  const e = nb.result("p")!.error!;
+  assert.equal(e.kind, "name");
+  assert.equal(e.col, 7);
+  assert.match(e.message, /"bar" is not a unit Lentil uses/);
+  assert.equal(nb.language.describe(nb.value("d")).display, "20 ft");
+  assert.equal(nb.language.describe(nb.value("k")).display, "1 km");
+});

@@ -12,6 +12,7 @@ import {
   type ExpressionSyntaxError,
   type Language,
 } from "../../cells/language.ts";
+import { LENTIL_UNITS, USABLE_UNITS } from "../../cells/quantity.ts";
 
 /** What a table looks like to the analyser: its data columns and computed columns. */
 export interface TableShape {
@@ -113,7 +114,15 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
     if (ctx.cells.has(name)) return void deps.add(name);
     if (ctx.tables.has(name)) return useTable(name);
     if (catalogue.constants.has(name)) return void constants.add(name);
-    if (ctx.lang.isUnit(name) || ctx.lang.isBuiltinSymbol(name)) return;
+    if (ctx.lang.isBuiltinSymbol(name)) return;
+    if (ctx.lang.isUnit(name)) {
+      if (USABLE_UNITS.has(name)) return;
+      return fail(
+        `"${name}" is not a unit Lentil uses (units: ${LENTIL_UNITS.join(", ")}, ft, inch); ` +
+          "if it is a name, define it as a cell",
+        name,
+      );
+    }
     fail(`unknown name or unit "${name}"`, name);
   };
 
