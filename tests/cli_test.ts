@@ -98,7 +98,7 @@ Deno.test("eval computes a vertex compensation with sources; --json shape", asyn
   assert.equal(j.unit, "D");
   const bad = await cli("eval", "2 D + 3 mm");
   assert.equal(bad.code, 1);
-  assert.match(bad.err, /<eval>:1:1: units do not match: cannot add 3\.00 mm to \+2\.00 D/);
+  assert.match(bad.err, /<eval>:1:5: units do not match: cannot add 3\.00 mm to \+2\.00 D/);
 });
 
 Deno.test("new writes from a starter and never overwrites", async () => {

@@ -61,15 +61,15 @@ Deno.test("an error is carried to dependents with the original cause and positio
   const bad = nb.result("bad")!.error!;
   assert.equal(bad.kind, "unit");
   assert.equal(bad.message, "units do not match: cannot add 3.00 mm to -2.00 D");
-  assert.deepEqual([bad.line, bad.col], [4, 7]);
+  assert.deepEqual([bad.line, bad.col], [4, 9]); // at the +
   const worst = nb.result("worst")!.error!;
   assert.equal(worst.kind, "dependency");
   assert.equal(worst.cause!.id, "bad");
   assert.equal(worst.cause!.error.line, 4);
-  assert.match(worst.message, /bad at e\.lentil\.md:4:7/);
+  assert.match(worst.message, /bad at e\.lentil\.md:4:9/);
   assert.equal(nb.language.describe(nb.value("fine")).display, "-4.00 D");
   // Only the root problem is a diagnostic.
-  assert.deepEqual(nb.diagnostics().map((d) => `${d.line}:${d.col}`), ["4:7"]);
+  assert.deepEqual(nb.diagnostics().map((d) => `${d.line}:${d.col}`), ["4:9"]);
 });
 
 Deno.test("bad formula, unknown name, unknown unit and out-of-range values are positioned", () => {

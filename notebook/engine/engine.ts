@@ -675,9 +675,14 @@ export class Notebook {
     const file = this.doc.file;
     let message = e.message;
     let kind: ErrorKind = "evaluation";
+    let at = where;
     if (/Units do not match|Unexpected type of argument.*Unit/.test(message)) {
       kind = "unit";
-      message = this.#unitMismatch(n) ?? `units do not match in ${n.cell?.expression}`;
+      const found = this.#unitMismatch(n);
+      message = found?.message ?? `units do not match in ${n.cell?.expression}`;
+      if (found?.offset !== undefined && n.cell) {
+        at = { line: n.cell.line, col: n.cell.exprCol + found.offset };
+      }
     } else if (
       e.name === "LentilRangeError" || e instanceof RangeError ||
       /outside the accepted range/.test(message)
@@ -689,14 +694,17 @@ export class Notebook {
     ) {
       kind = "argument";
     }
-    return { kind, message, file, ...where };
+    return { kind, message, file, ...at };
   }
 
-  /** Find the + or − whose operands carry incompatible units, to say which. */
-  #unitMismatch(n: NodeDef): string | undefined {
+  /**
+   * Find the + or − whose operands carry incompatible units, to say which, and where the
+   * operator stands in the expression when it can be found.
+   */
+  #unitMismatch(n: NodeDef): { message: string; offset?: number } | undefined {
     const node = n.analysis?.node as MathNode | undefined;
     if (!node) return undefined;
-    let found: string | undefined;
+    let found: { message: string; offset?: number } | undefined;
     node.traverse((m) => {
       if (found || m.type !== "OperatorNode") return;
       const op = m as unknown as { fn: string; op: string; args: MathNode[] };
@@ -708,9 +716,12 @@ export class Notebook {
         const da = qa ? this.#lang.describe(a, this.display).display : `${a}`;
         const db = qb ? this.#lang.describe(b, this.display).display : `${b}`;
         if ((qa?.unit ?? "") !== (qb?.unit ?? "")) {
-          found = `units do not match: cannot ${op.fn === "add" ? "add" : "subtract"} ${db} ${
-            op.fn === "add" ? "to" : "from"
-          } ${da}`;
+          found = {
+            message: `units do not match: cannot ${op.fn === "add" ? "add" : "subtract"} ${db} ${
+              op.fn === "add" ? "to" : "from"
+            } ${da}`,
+            offset: operatorOffset(n.cell?.expression ?? "", op.op, op.args[1].toString()),
+          };
         }
       } catch {
         // Leave it to the generic message.
@@ -805,6 +816,19 @@ function tableEnd(block: TableBlock): number {
 
 function ownsName(n: NodeDef): boolean {
   return n.id === n.name && n.defError?.kind !== "name";
+}
+
+/**
+ * Where the operator `op` before the right operand `right` stands in `expression` (zero-based),
+ * found by the operand's text; undefined when the text cannot be matched.
+ */
+function operatorOffset(expression: string, op: string, right: string): number | undefined {
+  const squeeze = (t: string) => t.replace(/\s+/g, "");
+  const target = squeeze(op + right);
+  for (let i = expression.indexOf(op); i >= 0; i = expression.indexOf(op, i + 1)) {
+    if (squeeze(expression.slice(i)).startsWith(target)) return i;
+  }
+  return undefined;
 }
 
 function isLiteralExpr(expression: string): boolean {
