@@ -240,3 +240,34 @@ Deno.test("a unit Lentil does not use is refused at its column, so a typo is not
   assert.equal(nb.language.describe(nb.value("d")).display, "20 ft");
   assert.equal(nb.language.describe(nb.value("k")).display, "1 km");
 });
+
+Deno.test("reconcile: a new version re-evaluates only what changed and what depends on it", async () => {
+  const { parseNotebook } = await import("../notebook/format/parse.ts");
+  const text = (rows: string, extra = "") =>
+    "```table t\nlens [D] | va\n" + rows + "```\n\n" +
+    calc("best = max(t.lens)\nother = 2 mm\nbad = other + 1 D" + extra);
+  const before = Notebook.fromText(text("+1.00 | 0.1\n"), "r.lentil.md");
+  // A table edit that adds a row: the table and its dependents, and the cell whose error
+  // moved down a line; `other` keeps its value.
+  const doc = parseNotebook(text("+1.00 | 0.1\n+2.00 | 0.2\n"), "r.lentil.md");
+  const { notebook, recomputed } = Notebook.reconcile(before, doc);
+  assert.deepEqual(recomputed, ["t", "best", "bad"]);
+  assert.equal(notebook.language.describe(notebook.value("best")).display, "+2.00 D");
+  assert.equal(notebook.result("bad")!.error!.line, 10);
+  // The same results as evaluating the new version from scratch.
+  const fresh = new Notebook(doc);
+  fresh.evaluateAll();
+  const show = (nb: Notebook) =>
+    nb.results().map((r) => [r.id, r.error?.message ?? nb.language.describe(r.value).display]);
+  assert.deepEqual(show(notebook), show(fresh));
+});
+
+Deno.test("reconcile: removing a computed column leaves no stale column on its table", async () => {
+  const { parseNotebook } = await import("../notebook/format/parse.ts");
+  const table = "```table t\nx\n1\n2\n```\n\n";
+  const before = Notebook.fromText(table + calc("t.y = x * 2\nn = 1"), "c.lentil.md");
+  const doc = parseNotebook(table + calc("n = 1"), "c.lentil.md");
+  const { notebook, recomputed } = Notebook.reconcile(before, doc);
+  assert.deepEqual(recomputed, ["t"]);
+  assert.match(notebook.language.describe(notebook.value("t")).display, /2 rows × 1 columns/);
+});

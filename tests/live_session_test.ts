@@ -78,6 +78,18 @@ Deno.test("an input edit recomputes only its dependents and splices only the exp
   });
 });
 
+Deno.test("a table edit recomputes only the table and what reads it", async () => {
+  await withCopy("counter.lentil.md", async (_dir, path) => {
+    const s = await LiveSession.open(path);
+    const r = s.setRows("trials", [["+1.00", "0.30"], ["+0.25", "0.00"]]);
+    assert.ok(r.ok);
+    assert.ok(r.recomputed.includes("trials") && r.recomputed.includes("best"));
+    for (const unrelated of ["spectacle", "vd", "cornea", "visits"]) {
+      assert.ok(!r.recomputed.includes(unrelated), `${unrelated} was recomputed`);
+    }
+  });
+});
+
 Deno.test("an error shows at its cell and on dependents, and a fix clears both", async () => {
   await withCopy("counter.lentil.md", async (_dir, path) => {
     const s = await LiveSession.open(path);

@@ -225,6 +225,74 @@ export class Notebook {
     return nb;
   }
 
+  /**
+   * The notebook for a new version of `previous`'s document, re-evaluating only what
+   * changed: nodes that are new, whose definition changed (expression, table data, options,
+   * computed columns) or that carry an error whose position moved, and everything that
+   * depends on them. Every other node keeps its value. Returns the new notebook and the ids
+   * recomputed, in evaluation order.
+   *
+   * @example
+   * ```ts
+   * import { Notebook } from "./engine.ts";
+   * import { parseNotebook } from "../format/parse.ts";
+   * const a = Notebook.fromText("~~~calc\nx = 1\ny = x + 1\nz = 5\n~~~\n", "r.lentil.md");
+   * const doc = parseNotebook("~~~calc\nx = 2\ny = x + 1\nz = 5\n~~~\n", "r.lentil.md");
+   * Notebook.reconcile(a, doc).recomputed; // ["x", "y"]
+   * ```
+   */
+  static reconcile(
+    previous: Notebook,
+    doc: NotebookDoc,
+    options: NotebookOptions = {},
+  ): { notebook: Notebook; recomputed: string[] } {
+    const next = new Notebook(doc, options);
+    const changed: string[] = [];
+    for (const [id, n] of next.#nodes) {
+      const old = previous.#nodes.get(id);
+      const state = previous.#state.get(id);
+      if (
+        !old || !state ||
+        previous.#signature(old, !!state.error) !== next.#signature(n, !!state.error)
+      ) {
+        changed.push(id);
+        continue;
+      }
+      next.#state.set(id, state);
+      n.columnPath = old.columnPath;
+      if (n.kind !== "column" && ownsName(n) && !state.error) next.#scope.set(n.name, state.value);
+    }
+    const recomputed = next.#graph.downstream(changed);
+    for (const id of recomputed) next.#evaluate(id);
+    return { notebook: next, recomputed };
+  }
+
+  /** What a node's value depends on besides its dependencies' values (and its place, when it shows an error). */
+  #signature(n: NodeDef, withPlace: boolean): string {
+    const place = withPlace
+      ? [n.cell?.line, n.cell?.exprCol, n.block?.line, n.block?.col, n.raw?.file]
+      : [];
+    const table = n.kind === "table"
+      ? {
+        options: Object.entries(n.block?.options ?? {}).map(([k, o]) => [k, o.value]),
+        columns: n.raw?.columns.map((c) => [c.name, c.spec]),
+        rows: n.raw?.rows.map((r) => r.cells),
+        computed: [...this.#nodes.values()]
+          .filter((m) => m.kind === "column" && m.table === n.name).map((m) => m.id).sort(),
+      }
+      : undefined;
+    return JSON.stringify([
+      n.kind,
+      n.cell?.expression,
+      n.defError?.message,
+      n.exprError?.message,
+      [...(n.analysis?.deps ?? [])].sort(),
+      this.#cycleOf.get(n.id),
+      table,
+      place,
+    ]);
+  }
+
   /** Prepare a parsed notebook; call {@linkcode evaluateAll} to evaluate. */
   constructor(doc: NotebookDoc, options: NotebookOptions = {}) {
     this.doc = doc;

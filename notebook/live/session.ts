@@ -251,8 +251,15 @@ export class LiveSession {
 
   #rebuild(): string[] {
     this.#doc = parseNotebook(this.#text, this.#path);
-    this.#nb = new Notebook(this.#doc, { host: { readText: (rel) => this.#readCsv(rel) } });
-    return this.#nb.evaluateAll();
+    const options = { host: { readText: (rel: string) => this.#readCsv(rel) } };
+    if (!this.#nb) {
+      this.#nb = new Notebook(this.#doc, options);
+      return this.#nb.evaluateAll();
+    }
+    // Only what the edit changed, and what depends on it, is evaluated again.
+    const { notebook, recomputed } = Notebook.reconcile(this.#nb, this.#doc, options);
+    this.#nb = notebook;
+    return recomputed;
   }
 
   #tableText(block: TableBlock): TableText | undefined {
