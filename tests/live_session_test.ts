@@ -1,6 +1,6 @@
 import assert from "node:assert/strict";
 import { basename, join } from "node:path";
-import { LiveSession } from "../notebook/live/session.ts";
+import { EditRefused, LiveSession } from "../notebook/live/session.ts";
 import { backupPath } from "../notebook/live/save.ts";
 
 const FIXTURES = new URL("./fixtures/live/", import.meta.url);
@@ -75,6 +75,15 @@ Deno.test("an input edit recomputes only its dependents and splices only the exp
     await s.save();
     assert.equal(await Deno.readTextFile(path), s.text);
     assert.equal(await Deno.readTextFile(backupPath(path)), original);
+  });
+});
+
+Deno.test("a formula holding # outside quotes is refused, since # would start the note", async () => {
+  await withCopy("counter.lentil.md", async (_dir, path) => {
+    const s = await LiveSession.open(path);
+    const before = s.text;
+    assert.throws(() => s.setExpression("vd", "12 mm # oops"), EditRefused);
+    assert.equal(s.text, before);
   });
 });
 

@@ -23,7 +23,7 @@ import { parse as parseCsv } from "csv-parse/sync";
 import { stringify as stringifyCsv } from "csv-stringify/sync";
 import { Notebook } from "../engine/engine.ts";
 import { decodeNotebook } from "../format/read.ts";
-import { type NotebookDoc, parseNotebook, type TableBlock } from "../format/parse.ts";
+import { type NotebookDoc, noteStart, parseNotebook, type TableBlock } from "../format/parse.ts";
 import { changedOnDisk, type Fingerprint, fingerprintOf, writeAtomic } from "./save.ts";
 import {
   appendLineEdit,
@@ -397,6 +397,10 @@ export class LiveSession {
    */
   setExpression(id: string, expression: string): EditResult {
     if (/[\r\n]/.test(expression)) throw new EditRefused("an expression is one line");
+    if (noteStart(expression) >= 0) {
+      // Saved as typed, the text after # would be read back as the cell's note.
+      throw new EditRefused("# starts a note: a formula cannot hold # outside quotes");
+    }
     const cell = this.#cellDef(id);
     const expr = expression.trim();
     if (expr === cell.expression) return this.#unchanged();
