@@ -52,7 +52,11 @@ const STAT_RECORDS = new WeakSet<object>();
 /** Keys of spreads: never negative, shown without a sign. */
 const SPREAD_KEYS = new Set(["sd", "sdM", "sdJ0", "sdJ45", "semiMajor", "semiMinor"]);
 
-function statRecord<T extends Record<string, unknown>>(record: T): T {
+/**
+ * Mark a record as statistics, so its parts display as measures (SDs unsigned, figures
+ * exact) rather than lens powers; returns it.
+ */
+export function statRecord<T extends Record<string, unknown>>(record: T): T {
   STAT_RECORDS.add(record);
   return record;
 }

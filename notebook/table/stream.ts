@@ -30,8 +30,10 @@ import {
   ellipseRecord,
   meanRxRecord,
   refractionArrays,
+  statRecord,
   vectorStatsRecord,
 } from "../../cells/stats.ts";
+import { markExact } from "../../cells/quantity.ts";
 import { agreementFrom } from "../../lib/agreement.ts";
 import { pushRefraction, RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
 import { toPowerVector } from "../../lib/power_vector.ts";
@@ -186,7 +188,8 @@ function aggregateFor(
       note,
     };
   };
-  const q = (v: number, unit: string) => (unit ? lang.quantity(v + 0, unit) : v);
+  // Statistics are measures: shown exactly, not in the lens power step.
+  const q = (v: number, unit: string) => (unit ? markExact(lang.quantity(v + 0, unit)) : v);
   const vector = (finish: (r: RunningMoments) => unknown): Aggregate | string => {
     if (cols.length !== 1 && cols.length !== 3) return `${fn} takes one rx column or three columns`;
     const r = new RunningMoments(3);
@@ -208,14 +211,15 @@ function aggregateFor(
       return one((r, u) => q(r.sd(0), u));
     case "summary":
       return one(
-        (r, u) => ({
-          count: r.count,
-          missing: r.missing,
-          mean: q(r.mean(0), u),
-          sd: q(r.sd(0), u),
-          min: q(r.min(0), u),
-          max: q(r.max(0), u),
-        }),
+        (r, u) =>
+          statRecord({
+            count: r.count,
+            missing: r.missing,
+            mean: q(r.mean(0), u),
+            sd: q(r.sd(0), u),
+            min: q(r.min(0), u),
+            max: q(r.max(0), u),
+          }),
         "quartiles and median are not available in streaming mode (they need every value)",
       );
     case "meanRx":
