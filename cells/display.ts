@@ -42,12 +42,15 @@ export function formatPower(value: number, step?: number, unit = "D"): string {
  * ```ts
  * import { signed } from "./display.ts";
  * signed(2); // "+2.00"
+ * signed(-1.375); // "-1.38"
  * ```
  */
 export function signed(value: number): string {
-  const r = Math.round(value * 100) / 100;
+  // Halves round away from zero for either sign (−1.375 → −1.38, as +1.375 → +1.38); the
+  // small nudge absorbs binary representation (−1.375 × 100 is −137.49999…).
+  const r = Math.round(Math.abs(value) * 100 + 1e-7) / 100;
   if (r === 0) return "0.00";
-  return (r > 0 ? "+" : "-") + Math.abs(r).toFixed(2);
+  return (value > 0 ? "+" : "-") + r.toFixed(2);
 }
 
 /**
