@@ -264,7 +264,18 @@ export function parsePrescription(text: string): Prescription {
       if (add !== undefined) r.fail("the add is written twice", a);
       add = power(r, a, "add", ADD_RANGE);
     } else if (t.kind === "number") {
-      prisms.push(readPrismPart(r, eye));
+      const part = readPrismPart(r, eye);
+      for (
+        const [key, what] of [["vertical", "vertical (up/down)"], [
+          "horizontal",
+          "horizontal (in/out)",
+        ]] as const
+      ) {
+        if (part[key] !== 0 && prisms.some((p) => p[key] !== 0)) {
+          r.fail(`${what} prism is given twice: write each meridian's prism once`, t);
+        }
+      }
+      prisms.push(part);
     } else if (["x", "×", "@", "axis"].includes(t.text)) {
       r.fail(
         `an axis needs a cylinder before it: write sphere / cylinder x axis, e.g. -2.00 / -0.50 x 90`,

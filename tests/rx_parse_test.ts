@@ -134,3 +134,17 @@ Deno.test("property: format then parse returns the prescription", () => {
   const full = parsePrescription("R: -2.25 -0.75 x 170 add +2.00 1.5 BU 2 BO");
   assert.deepEqual(parsePrescription(formatPrescription(full)), full);
 });
+
+Deno.test("a meridian's prism given twice is refused rather than silently combined", () => {
+  // Common practice, no source: a prescription states each meridian's prism once.
+  assert.throws(
+    () => parsePrescription("-1.00 DS 2 BU 3 BD"),
+    /vertical \(up\/down\) prism is given twice/,
+  );
+  assert.throws(
+    () => parsePrescription("R: -1.00 DS 1 BI 2 BO"),
+    /horizontal \(in\/out\) prism is given twice/,
+  );
+  const both = parsePrescription("R: -1.00 DS 2 BU 1.5 BI");
+  assert.equal(both.prism?.vertical, 2);
+});
