@@ -122,7 +122,7 @@ function groupRows(rows: readonly TrialRow[], duplicates: "report" | "mean", not
     const readings = g.values.map((v) => v.toFixed(2)).join(", ");
     if (spread > 1e-9 && duplicates === "report") {
       throw new LentilInputError(
-        `${where} was read differently: ${readings} logMAR; correct the table or ask for repeated powers to be averaged`,
+        `${where} was read differently: ${readings} logMAR; correct the table or ask for repeated powers to be averaged (repeats "mean", the fifth argument of endpoint)`,
       );
     }
     const mean = g.values.reduce((a, v) => a + v, 0) / g.values.length;
