@@ -73,9 +73,11 @@ function describeCheck(c: ToleranceCheck): string {
   const verdict = c.pass
     ? atLimit ? "pass, at the limit" : `pass, ${size(c.margin)} inside the limit`
     : `FAIL, ${atLimit ? "just" : size(-c.margin)} beyond the limit`;
+  // Prism limits are a largest allowed amount; power and axis limits are ± the ordered value.
+  const limit = c.unit === "prism" ? `at most ${size(c.tolerance)}` : `±${size(c.tolerance)}`;
   return `${c.quantity}: ordered ${q(c.ordered)}, measured ${
     q(c.measured)
-  }, deviation ${dev}, tolerance ±${size(c.tolerance)}: ${verdict}`;
+  }, deviation ${dev}, tolerance ${limit}: ${verdict}`;
 }
 
 /** The `toleranceReport` value type. */
