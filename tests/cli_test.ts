@@ -136,3 +136,16 @@ Deno.test("help for every command; unknown commands and options exit 2", async (
   assert.equal((await cli("run")).code, 2);
   assert.equal((await cli()).code, 2);
 });
+
+Deno.test("check reports a plot block's problems at their line", async () => {
+  await withDir(async (dir) => {
+    const f = join(dir, "p.lentil.md");
+    await Deno.writeTextFile(
+      f,
+      "```table t\nx | y\n1 | 2\n```\n\n```plot\nkind: pie\ntable: t\n```\n",
+    );
+    const r = await cli("check", f);
+    assert.equal(r.code, 1);
+    assert.match(r.out, /p\.lentil\.md:7:7: .*kind "pie" is not one of curve/);
+  });
+});

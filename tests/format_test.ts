@@ -179,3 +179,15 @@ Deno.test("invalid UTF-8 is reported with line and column", () => {
   const good = decodeNotebook(new TextEncoder().encode("é ✓ Δ"), "g");
   assert.ok(good.ok && good.text === "é ✓ Δ");
 });
+
+Deno.test("option lines may carry a note after # and white space", () => {
+  const nb = parseNotebook(
+    "```plot\nkind: curve   # the kind\ntitle: Case #3\n```\n\n```table t\nfile: a.csv  # beside the notebook\n```\n",
+    "o.lentil.md",
+  );
+  const plot = nb.blocks.find((b) => b.kind === "plot");
+  assert.ok(plot && plot.kind === "plot");
+  assert.equal(plot.options.kind.value, "curve");
+  assert.equal(plot.options.title.value, "Case #3");
+  assert.equal(nb.tables[0].options.file.value, "a.csv");
+});

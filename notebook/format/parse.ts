@@ -323,6 +323,23 @@ function splitRow(text: string): { cells: string[]; cols: number[] } {
 }
 
 /**
+ * The value of a `key: value` option line: trimmed, without a trailing note — a `#` after
+ * white space, as in `kind: curve   # the line kind` (a `#` inside a word, as in
+ * `title: Case #3`, stays).
+ *
+ * @example
+ * ```ts
+ * import { optionValue } from "./parse.ts";
+ * optionValue("curve   # the line kind"); // "curve"
+ * optionValue("Case #3"); // "Case #3"
+ * ```
+ */
+export function optionValue(text: string): string {
+  const m = /(^|\s)#(\s|$)/.exec(text);
+  return (m ? text.slice(0, m.index) : text).trim();
+}
+
+/**
  * Parse notebook text. Never throws for user errors: problems come back as diagnostics,
  * and everything the user wrote is kept in a block.
  *
@@ -526,7 +543,11 @@ export function parseNotebook(text: string, file: string): NotebookDoc {
                 `unknown table option "${om[1]}" (known: ${TABLE_OPTION_KEYS.join(", ")})`,
               );
             }
-            options[key] = { value: om[2].trim(), line: bl.no, col: t.indexOf(om[2]) + 1 };
+            options[key] = {
+              value: optionValue(om[2]),
+              line: bl.no,
+              col: t.indexOf(om[2]) + 1,
+            };
             continue;
           }
           headerLine = bl.no;
@@ -602,7 +623,7 @@ export function parseNotebook(text: string, file: string): NotebookDoc {
         const key = om[1].toLowerCase();
         if (options[key]) diag(bl.no, 1, `plot option "${key}" is given twice`);
         options[key] = {
-          value: om[2].trim(),
+          value: optionValue(om[2]),
           line: bl.no,
           col: t.indexOf(om[2]) + 1 || om[0].length + 1,
         };

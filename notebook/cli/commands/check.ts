@@ -8,20 +8,27 @@
 import type { Command } from "../command.ts";
 import { formatDiagnostic } from "../../format/diagnostic.ts";
 import { openNotebook } from "./_open.ts";
+import { plotProblems } from "../../export/plot.ts";
 
 /** The `check` command. */
 export const checkCommand: Command = {
   name: "check",
   summary: "validate a notebook and list every problem with its position",
   usage: "FILE",
-  help: "Parses and evaluates FILE and prints one line FILE:LINE:COL: message for each problem.\n" +
+  help: "Parses and evaluates FILE, checks its plot blocks, and prints one line\n" +
+    "FILE:LINE:COL: message for each problem.\n" +
     "Exit status: 0 when clean (warnings allowed), 1 when any error was found.",
   options: {},
   positionals: [1, 1],
   async run([file], _options, io) {
     const nb = await openNotebook(file, io);
     if (!nb) return 1;
-    const diags = nb.diagnostics();
+    // Plot blocks are checked too: their columns, cells and options are validated as the
+    // export would draw them.
+    const plots = nb.doc.blocks.flatMap((b) => (b.kind === "plot" ? plotProblems(b, nb) : []));
+    const diags = [...nb.diagnostics(), ...plots].sort((a, b) =>
+      a.file === b.file ? a.line - b.line || a.col - b.col : a.file < b.file ? -1 : 1
+    );
     for (const d of diags) io.out(formatDiagnostic(d));
     const errors = diags.filter((d) => d.severity === "error").length;
     if (errors === 0) io.err(`${file}: ok${diags.length ? ` (${diags.length} warnings)` : ""}`);
