@@ -271,3 +271,12 @@ Deno.test("reconcile: removing a computed column leaves no stale column on its t
   assert.deepEqual(recomputed, ["t"]);
   assert.match(notebook.language.describe(notebook.value("t")).display, /2 rows × 1 columns/);
 });
+
+Deno.test("a cell's result unit is given with to; a unit of another kind is an error at the to", () => {
+  const nb = Notebook.fromText(calc("h = 8.73 mm to cm\nbad = 12 mm to D"), "t.lentil.md");
+  assert.equal(nb.language.describe(nb.value("h")).display, "0.87 cm");
+  const e = nb.result("bad")!.error!;
+  assert.equal(e.kind, "unit");
+  assert.equal(e.message, "units do not match: 12.00 mm cannot be shown in D");
+  assert.equal(e.col, 13);
+});

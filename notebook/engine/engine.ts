@@ -776,6 +776,20 @@ export class Notebook {
     node.traverse((m) => {
       if (found || m.type !== "OperatorNode") return;
       const op = m as unknown as { fn: string; op: string; args: MathNode[] };
+      if (op.fn === "to" && op.args.length === 2) {
+        try {
+          const a = op.args[0].compile().evaluate(this.#scope);
+          const shown = this.#lang.describe(a, this.display).display;
+          const target = op.args[1].toString();
+          found = {
+            message: `units do not match: ${shown} cannot be shown in ${target}`,
+            offset: operatorOffset(n.cell?.expression ?? "", "to", target),
+          };
+        } catch {
+          // Leave it to the generic message.
+        }
+        return;
+      }
       if (!["add", "subtract"].includes(op.fn) || op.args.length !== 2) return;
       try {
         const [a, b] = op.args.map((x) => x.compile().evaluate(this.#scope));
