@@ -27,6 +27,21 @@ function typeText(p: { type: string; unit?: string }): string {
   return p.type === "quantity" ? `quantity in ${p.unit}` : p.type;
 }
 
+/**
+ * The "Returns …" line: a quantity with its unit, a record with its parts, or a value.
+ *
+ * @example
+ * ```ts
+ * import { returnsText } from "./reference.ts";
+ * returnsText({ type: "any", doc: "record right, left" }); // "Returns a record: right, left"
+ * ```
+ */
+export function returnsText(r: { type: string; unit?: string; doc: string }): string {
+  if (r.type !== "any") return `Returns ${typeText(r)}: ${r.doc}`;
+  const record = /^(?:a )?record(?: of)?[: ]\s*/.exec(r.doc);
+  return record ? `Returns a record: ${r.doc.slice(record[0].length)}` : `Returns ${r.doc}`;
+}
+
 function paramText(p: ParamSpec): string {
   const range = p.range ? `, ${p.range[0]}–${p.range[1]}${p.unit ? ` ${p.unit}` : ""}` : "";
   const opt = p.optional
@@ -134,7 +149,7 @@ export function referenceMarkdown(): string {
         }
         out.push("");
       }
-      out.push(`Returns ${typeText(f.returns)}: ${f.returns.doc}`, "");
+      out.push(`${returnsText(f.returns)}`, "");
       out.push(`Example: \`${f.example}\``, "");
       out.push(
         `Sources: ${

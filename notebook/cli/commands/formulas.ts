@@ -52,7 +52,8 @@ export const formulasCommand: Command = {
         const params = f.params.map((p) =>
           `${p.name}${p.unit ? ` [${p.unit}]` : p.type !== "quantity" ? ` [${p.type}]` : ""}`
         );
-        io.out(`${f.name}(${params.join(", ")}) → ${f.returns.unit ?? f.returns.type}`);
+        const gives = f.returns.unit ?? (f.returns.type === "any" ? "value" : f.returns.type);
+        io.out(`${f.name}(${params.join(", ")}) → ${gives}`);
         io.out(`    ${f.summary}`);
         if (name) {
           for (const p of f.params) io.out(`    ${p.name}: ${p.doc}`);
