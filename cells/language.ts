@@ -51,6 +51,44 @@ export class ExpressionSyntaxError extends SyntaxError {
   }
 }
 
+/**
+ * mathjs's argument errors in words a user can act on: which function, which argument,
+ * what it got, and for rounding a quantity, the unit it needs. Other messages pass through.
+ *
+ * @example
+ * ```ts
+ * import { plainMathMessage } from "./language.ts";
+ * plainMathMessage("Too few arguments in function round (expected: Unit or number, index: 1)");
+ * // "round of a quantity needs the unit to round in: write round(x, D) (or round(x, 2, D) for two decimals)"
+ * ```
+ */
+export function plainMathMessage(message: string): string {
+  const few =
+    /^(.*?)Too few arguments in function (\w+) \(expected: ([^,]*(?:, [^,]*)*?), index: (\d+)\)/
+      .exec(message);
+  if (few) {
+    const [, pre, fn, expected, index] = few;
+    if (["round", "floor", "ceil", "fix"].includes(fn) && index === "1") {
+      return `${pre}${fn} of a quantity needs the unit to round in: write ${fn}(x, D) ` +
+        `(or ${fn}(x, 2, D) for two decimals)`;
+    }
+    return `${pre}${fn} needs more arguments (argument ${Number(index) + 1} should be ${
+      expected.split(" or ").slice(0, 3).join(" or ")
+    })`;
+  }
+  const type =
+    /^(.*?)Unexpected type of argument in function (\w+) \(expected: (.*?), actual: (.*?), index: (\d+)\)/
+      .exec(message);
+  if (type) {
+    const [, pre, fn, expected, actual, index] = type;
+    return `${pre}${fn}: argument ${Number(index) + 1} is ${
+      actual.replace(/^identifier/, "a name")
+    }, ` +
+      `expected ${expected.split(" or ").slice(0, 3).join(" or ")}`;
+  }
+  return message;
+}
+
 /** How a value is shown and serialised. */
 export interface Described {
   /** Text as the trade writes it, unit included. */
@@ -264,6 +302,12 @@ function buildLanguage(catalogue: Catalogue): Language {
     }
   };
 
+  /** A column's values as JSON: numbers in its unit (null where empty), or each value's JSON. */
+  const columnJson = (c: Column, options: DisplayOptions): unknown[] =>
+    c.data instanceof Float64Array
+      ? Array.from(c.data, (v) => (Number.isNaN(v) ? null : v))
+      : c.data.map((v) => describe(v, options).value);
+
   const describe = (x: unknown, options: DisplayOptions = DEFAULT_DISPLAY): Described => {
     if (typeof x === "number") return { display: formatNumber(x), value: x, unit: "" };
     if (typeof x === "string") return { display: x, value: x, unit: "" };
@@ -276,7 +320,7 @@ function buildLanguage(catalogue: Catalogue): Language {
     if (x instanceof Column) {
       return {
         display: `column ${x.name} (${x.length} rows${x.unit ? `, ${x.unit}` : ""})`,
-        value: null,
+        value: columnJson(x, options),
         unit: x.unit,
       };
     }
@@ -285,7 +329,12 @@ function buildLanguage(catalogue: Catalogue): Language {
       const ex = info.excluded ? `, ${info.excluded} excluded` : "";
       return {
         display: `table ${info.name}: ${info.rowCount} rows × ${info.columns.length} columns${ex}`,
-        value: null,
+        value: {
+          rows: info.rowCount,
+          excluded: info.excluded,
+          ...(info.file ? { file: info.file } : {}),
+          columns: info.columns.map((c) => ({ name: c.name, type: c.type, unit: c.unit })),
+        },
         unit: "",
       };
     }

@@ -149,3 +149,16 @@ Deno.test("check reports a plot block's problems at their line", async () => {
     assert.match(r.out, /p\.lentil\.md:7:7: .*kind "pie" is not one of curve/);
   });
 });
+
+Deno.test("run --json gives a computed column's values and a table's shape", async () => {
+  await withDir(async (dir) => {
+    const f = join(dir, "t.lentil.md");
+    await Deno.writeTextFile(f, "```table t\nx [mm]\n1\n2\n```\n\n```calc\nt.y = x * 2\n```\n");
+    const j = JSON.parse((await cli("run", f, "--json")).out);
+    const t = j.cells.find((c: { name: string }) => c.name === "t");
+    assert.deepEqual(t.value.columns.map((c: { name: string }) => c.name), ["x", "y"]);
+    assert.equal(t.value.rows, 2);
+    const y = j.cells.find((c: { name: string }) => c.name === "t.y");
+    assert.deepEqual([y.value, y.unit], [[2, 4], "mm"]);
+  });
+});

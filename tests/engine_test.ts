@@ -280,3 +280,12 @@ Deno.test("a cell's result unit is given with to; a unit of another kind is an e
   assert.equal(e.message, "units do not match: 12.00 mm cannot be shown in D");
   assert.equal(e.col, 13);
 });
+
+Deno.test("rounding a quantity without a unit says which unit it needs", () => {
+  const nb = Notebook.fromText(calc("r = round(-1.30 D)\nok = round(-1.30 D, D)"), "r.lentil.md");
+  assert.match(
+    nb.result("r")!.error!.message,
+    /round of a quantity needs the unit to round in: write round\(x, D\)/,
+  );
+  assert.equal(nb.language.describe(nb.value("ok")).display, "-1.00 D");
+});

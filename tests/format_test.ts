@@ -191,3 +191,11 @@ Deno.test("option lines may carry a note after # and white space", () => {
   assert.equal(plot.options.title.value, "Case #3");
   assert.equal(nb.tables[0].options.file.value, "a.csv");
 });
+
+Deno.test("front matter: an impossible date and an odd power step are refused", () => {
+  const nb = parseNotebook("---\ndate: 2026-02-30\npower-step: 0.3\n---\n", "f.lentil.md");
+  const msgs = nb.diagnostics.map((d) => d.message);
+  assert.ok(msgs.some((m) => /date: expected a real calendar date/.test(m)), msgs.join("\n"));
+  assert.ok(msgs.some((m) => /power-step: expected one of the steps/.test(m)), msgs.join("\n"));
+  assert.equal(parseNotebook("---\npower-step: 0.125\n---\n", "g").front.powerStep, 0.125);
+});

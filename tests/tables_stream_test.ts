@@ -171,3 +171,15 @@ Deno.test("lentil stream prints the counts, columns and aggregates", async () =>
   assert.equal(await runCli(["stream", join(broken, "s.lentil.md")], unfinished), 1);
   assert.match(unfinished.stderr(), /a quoted field is never closed/);
 });
+
+Deno.test("a computed column that fails on the data stops the stream with its reason; cautions shown", async () => {
+  const dir = await folder({
+    "s.lentil.md": "```table cohort\nfile: c.csv\n```\n\n```calc\ncohort.r = round(sph * 4) / 4\n" +
+      "cl = vertexPower(-6 D, 12 mm)\n```\n",
+    "c.csv": "sph [D],cyl [D]\n-1.30,-0.5\n",
+  });
+  const r = await streamNotebook(join(dir, "s.lentil.md"), {});
+  assert.equal(r.ok, false);
+  assert.match(r.stopped!, /computed column cohort\.r: row 1: round of a quantity needs the unit/);
+  assert.ok(r.cautions.length > 0); // vertexPower can feed the fitting of a lens
+});

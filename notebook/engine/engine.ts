@@ -18,7 +18,12 @@
  */
 
 import type { MathNode } from "mathjs";
-import { getLanguage, type Language, LENTIL_UNITS } from "../../cells/language.ts";
+import {
+  getLanguage,
+  type Language,
+  LENTIL_UNITS,
+  plainMathMessage,
+} from "../../cells/language.ts";
 import {
   addColumn,
   type Column,
@@ -479,7 +484,9 @@ export class Notebook {
     if (!built!.value) {
       const first = built!.problems[0];
       const more = built!.problems.length > 1
-        ? ` (and ${built!.problems.length - 1} more problems)`
+        ? ` (and ${built!.problems.length - 1} more problem${
+          built!.problems.length === 2 ? "" : "s"
+        })`
         : "";
       const row = first.row !== undefined ? `row ${first.row + 1}: ` : "";
       node.defError ??= {
@@ -741,7 +748,7 @@ export class Notebook {
 
   #explain(e: Error, n: NodeDef, where: { line: number; col: number }): CellError {
     const file = this.doc.file;
-    let message = e.message;
+    let message = plainMathMessage(e.message);
     let kind: ErrorKind = "evaluation";
     let at = where;
     if (/Units do not match|Unexpected type of argument.*Unit/.test(message)) {
@@ -815,6 +822,14 @@ export class Notebook {
   #lineOf(id: string): number {
     const n = this.#nodes.get(id);
     return n?.cell?.line ?? n?.block?.line ?? 0;
+  }
+
+  /**
+   * Whether any cell calls a formula whose result could be used to make or fit a lens,
+   * known from the formulas alone, before (or without) evaluation.
+   */
+  get callsCautionFormulas(): boolean {
+    return [...this.#nodes.values()].some((n) => n.ownCaution);
   }
 
   /** The result of one node by id, or undefined. */

@@ -204,17 +204,29 @@ export interface NotebookDoc {
 /** Fence info words that open Lentil blocks. */
 export const BLOCK_KINDS = ["calc", "table", "plot"] as const;
 
+/** Display steps for powers a notebook may ask for (D). */
+const POWER_STEPS = [0.01, 0.05, 0.1, 0.12, 0.125, 0.25, 0.5, 1];
+
 const FRONT_KEYS = ["title", "author", "date", "case", "power-step"] as const;
 
 const FrontSchema = z.object({
   title: z.string().min(1).max(300).optional(),
   author: z.string().min(1).max(300).optional(),
-  date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "expected a date as YYYY-MM-DD").optional(),
+  date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "expected a date as YYYY-MM-DD").refine(
+    (d) => {
+      const t = new Date(`${d}T00:00:00Z`);
+      return !Number.isNaN(t.getTime()) && t.toISOString().slice(0, 10) === d;
+    },
+    "expected a real calendar date as YYYY-MM-DD",
+  ).optional(),
   case: z.string().regex(
     /^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/,
     "expected a short case id of letters, digits, '.', '_' or '-' (no personal data)",
   ).optional(),
-  powerStep: z.number().positive().max(1).optional(),
+  powerStep: z.number().refine(
+    (n) => POWER_STEPS.includes(n),
+    `expected one of the steps ${POWER_STEPS.join(", ")} (D)`,
+  ).optional(),
 });
 
 /** Names: a letter or underscore, then letters, digits, underscores. */

@@ -21,7 +21,7 @@
 import { dirname, join, resolve } from "node:path";
 import { stringify } from "csv-stringify/sync";
 import type { MathNode } from "mathjs";
-import { getLanguage, type Language } from "../../cells/language.ts";
+import { getLanguage, type Language, plainMathMessage } from "../../cells/language.ts";
 import { Column, makeTable } from "../../cells/table.ts";
 import { DEFAULT_DISPLAY, typeOfValue } from "../../cells/types.ts";
 import {
@@ -39,6 +39,7 @@ import { pushRefraction, RunningMoments, vectorSummaryFrom } from "../../lib/sta
 import { toPowerVector } from "../../lib/power_vector.ts";
 import { parseNotebook, type TableBlock } from "../format/parse.ts";
 import { Notebook } from "../engine/engine.ts";
+import { CAUTIONS } from "../../shared/cautions.ts";
 import { type ColumnPlan, planColumn } from "../engine/_columns.ts";
 import {
   CsvReadError,
@@ -108,6 +109,8 @@ export interface StreamResult {
   readonly cells: readonly StreamedCell[];
   /** Row problems (the first 1,000 kept) and a fatal problem, if any. */
   readonly problems: readonly TableProblem[];
+  /** The cautions, when a cell calls a formula that could be used to make or fit a lens. */
+  readonly cautions: readonly string[];
   /** Notes: normalised rows, excluded rows. */
   readonly notes: readonly TableProblem[];
   /** Why the run stopped, when it did. */
@@ -294,6 +297,9 @@ async function sameFile(a: string, b: string): Promise<boolean> {
   }
 }
 
+/** A computed column that fails on the streamed data. */
+class ColumnStreamError extends Error {}
+
 /**
  * Run a notebook in streaming mode over one of its CSV tables.
  *
@@ -368,6 +374,7 @@ export async function streamNotebook(
     excluded: 0,
     columns: [],
     cells: [],
+    cautions: [],
     notes: [],
   };
   if ("problem" in opened) {
@@ -474,7 +481,16 @@ export async function streamNotebook(
         const node = lang.parse(r.expression!);
         plans!.push(planColumn(r.name, node, lang.compile(node), inputs, scope, lang));
       }
-      const { column, path } = plans![i].run(inputs, rows);
+      let run;
+      try {
+        run = plans![i].run(inputs, rows);
+      } catch (e) {
+        // A formula that fails on the data stops the run with its reason, never a trace.
+        throw new ColumnStreamError(
+          `computed column ${block.name}.${r.name}: ${plainMathMessage((e as Error).message)}`,
+        );
+      }
+      const { column, path } = run;
       all.push(column);
       byName.set(column.name, column);
       colInfo[docIndex.get(r.name)!] = {
@@ -528,6 +544,7 @@ export async function streamNotebook(
     }
   } catch (e) {
     if (e instanceof CsvReadError) stopped = e.problem.message;
+    else if (e instanceof ColumnStreamError) stopped = e.message;
     else throw e;
   } finally {
     await rest.return?.();
@@ -566,5 +583,6 @@ export async function streamNotebook(
     problems,
     notes: builder.notes(block.name, { file: path, line: block.line, col: block.col }, skip),
     stopped,
+    cautions: nb.callsCautionFormulas ? CAUTIONS : [],
   };
 }

@@ -78,6 +78,10 @@ export const streamCommand: Command = {
       io.out(c.display !== undefined ? `${c.name} = ${c.display}` : `${c.name} ! ${c.unavailable}`);
     }
     for (const n of r.notes) io.out(`note: ${n.message}`);
+    if (r.cautions.length) {
+      io.out("Cautions");
+      for (const c of r.cautions) io.out(`  - ${c}`);
+    }
     const shown = r.problems.slice(0, 20);
     for (const p of shown) {
       const where = p.line ? `${p.file}:${p.line}:${p.col}: ` : "";
