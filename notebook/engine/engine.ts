@@ -326,6 +326,15 @@ export class Notebook {
 
   #define(): void {
     const file = this.doc.file;
+    const at = (kind: ErrorKind, message: string, line: number, col: number): CellError => ({
+      kind,
+      message,
+      file,
+      line,
+      col,
+    });
+    const reservedMessage = (name: string, what: string) =>
+      `"${name}" is a unit, function or constant of the language; choose another ${what}`;
     const taken = new Set<string>();
     const reserved = (name: string) =>
       LENTIL_UNITS.includes(name) || this.#lang.isFunction(name) ||
@@ -342,24 +351,16 @@ export class Notebook {
         ownCaution: false,
       };
       if (id !== block.name) {
-        node.defError = {
-          kind: "duplicate",
-          message: `duplicate name "${block.name}"`,
-          file,
-          line: block.line,
-          col: block.col,
-        };
+        node.defError = at("duplicate", `duplicate name "${block.name}"`, block.line, block.col);
       } else if (this.#badBytes(block.line, tableEnd(block))) {
         node.defError = this.#badBytes(block.line, tableEnd(block));
       } else if (reserved(block.name)) {
-        node.defError = {
-          kind: "name",
-          message:
-            `"${block.name}" is a unit, function or constant of the language; choose another table name`,
-          file,
-          line: block.line,
-          col: block.col,
-        };
+        node.defError = at(
+          "name",
+          reservedMessage(block.name, "table name"),
+          block.line,
+          block.col,
+        );
       }
       this.#loadTable(node);
       this.#nodes.set(id, node);
@@ -379,32 +380,18 @@ export class Notebook {
         ownCaution: false,
       };
       if (dup) {
-        node.defError = {
-          kind: "duplicate",
-          message: `duplicate name "${full}"`,
-          file,
-          line: cell.line,
-          col: cell.col,
-        };
+        node.defError = at("duplicate", `duplicate name "${full}"`, cell.line, cell.col);
       } else if (this.#badBytes(cell.line, cell.line)) {
         node.defError = this.#badBytes(cell.line, cell.line);
       } else if (!cell.table && reserved(cell.name)) {
-        node.defError = {
-          kind: "name",
-          message:
-            `"${cell.name}" is a unit, function or constant of the language; choose another name`,
-          file,
-          line: cell.line,
-          col: cell.col,
-        };
+        node.defError = at("name", reservedMessage(cell.name, "name"), cell.line, cell.col);
       } else if (cell.table && !this.doc.tables.some((t) => t.name === cell.table)) {
-        node.defError = {
-          kind: "name",
-          message: `no table named "${cell.table}" for computed column ${full}`,
-          file,
-          line: cell.line,
-          col: cell.col,
-        };
+        node.defError = at(
+          "name",
+          `no table named "${cell.table}" for computed column ${full}`,
+          cell.line,
+          cell.col,
+        );
       }
       this.#nodes.set(id, node);
     }
