@@ -433,32 +433,24 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
     example: "vectorM(-2 D, -1 D)",
     fn: (s, c) => toPowerVector({ sphere: s as number, cylinder: c as number, axis: 180 }).m,
   }),
-  defineFormula({
-    name: "vectorJ0",
-    group: "statistics",
-    summary: "J0 = −(C/2)·cos 2α of one row's cylinder and axis.",
-    params: [
-      { name: "cyl", type: "quantity", unit: "D", range: CYLINDER_RANGE, doc: "cylinder" },
-      { name: "axis", type: "quantity", unit: "deg", range: [0, 180], doc: "axis" },
-    ],
-    returns: { type: "quantity", unit: "D", display: "exact", doc: "J0" },
-    sources: ["thibos-1997"],
-    example: "vectorJ0(-1 D, 180 deg)",
-    fn: (c, a) => toPowerVector({ sphere: 0, cylinder: c as number, axis: a as number }).j0,
-  }),
-  defineFormula({
-    name: "vectorJ45",
-    group: "statistics",
-    summary: "J45 = −(C/2)·sin 2α of one row's cylinder and axis.",
-    params: [
-      { name: "cyl", type: "quantity", unit: "D", range: CYLINDER_RANGE, doc: "cylinder" },
-      { name: "axis", type: "quantity", unit: "deg", range: [0, 180], doc: "axis" },
-    ],
-    returns: { type: "quantity", unit: "D", display: "exact", doc: "J45" },
-    sources: ["thibos-1997"],
-    example: "vectorJ45(-1 D, 45 deg)",
-    fn: (c, a) => toPowerVector({ sphere: 0, cylinder: c as number, axis: a as number }).j45,
-  }),
+  ...([
+    ["j0", "J0", "cos", 180],
+    ["j45", "J45", "sin", 45],
+  ] as const).map(([key, label, trig, exampleAxis]) =>
+    defineFormula({
+      name: `vector${label}`,
+      group: "statistics",
+      summary: `${label} = −(C/2)·${trig} 2α of one row's cylinder and axis.`,
+      params: [
+        { name: "cyl", type: "quantity", unit: "D", range: CYLINDER_RANGE, doc: "cylinder" },
+        { name: "axis", type: "quantity", unit: "deg", range: [0, 180], doc: "axis" },
+      ],
+      returns: { type: "quantity", unit: "D", display: "exact", doc: label },
+      sources: ["thibos-1997"],
+      example: `vector${label}(-1 D, ${exampleAxis} deg)`,
+      fn: (c, ax) => toPowerVector({ sphere: 0, cylinder: c as number, axis: ax as number })[key],
+    })
+  ),
   defineFormula({
     name: "meanRx",
     group: "statistics",
