@@ -25,6 +25,7 @@ import {
   columnToArray,
   formulaMath,
   isExact,
+  isUnsigned,
   markExact,
   quantity,
   quantityParts,
@@ -315,7 +316,8 @@ function buildLanguage(catalogue: Catalogue): Language {
     const q = quantityParts(x);
     if (q) {
       const step = isExact(x) ? 0 : options.powerStep;
-      return { display: formatQuantity(q.value, q.unit, step), ...q };
+      const shown = formatQuantity(q.value, q.unit, step);
+      return { display: isUnsigned(x) ? shown.replace(/^\+/, "") : shown, ...q };
     }
     if (x instanceof Column) {
       return {

@@ -152,9 +152,11 @@ export function quantity(value: number, unit: string): Unit {
 }
 
 const EXACT = Symbol("lentil.exact");
+const UNSIGNED = Symbol("lentil.unsigned");
 
 /**
- * Mark a quantity as a measure to be shown exactly (not in the power step); returns it.
+ * Mark a quantity as a measure to be shown exactly (not in the power step); with
+ * `unsigned`, as a size that never takes a sign (a standard deviation); returns it.
  *
  * @example
  * ```ts
@@ -162,11 +164,25 @@ const EXACT = Symbol("lentil.exact");
  * isExact(markExact(quantity(-0.17, "D"))); // true
  * ```
  */
-export function markExact<T>(x: T): T {
+export function markExact<T>(x: T, options: { unsigned?: boolean } = {}): T {
   if (x !== null && typeof x === "object") {
     Object.defineProperty(x, EXACT, { value: true, enumerable: false });
+    if (options.unsigned) Object.defineProperty(x, UNSIGNED, { value: true, enumerable: false });
   }
   return x;
+}
+
+/**
+ * Whether a quantity was marked as a size that takes no sign.
+ *
+ * @example
+ * ```ts
+ * import { isUnsigned, markExact, quantity } from "./quantity.ts";
+ * isUnsigned(markExact(quantity(0.43, "D"), { unsigned: true })); // true
+ * ```
+ */
+export function isUnsigned(x: unknown): boolean {
+  return x !== null && typeof x === "object" && (x as Record<symbol, unknown>)[UNSIGNED] === true;
 }
 
 /**

@@ -360,7 +360,9 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
         const col = C(c);
         const r = new RunningMoments(1);
         for (const x of columnNumbers(col)) r.push1(x);
-        return qty(part === "sd" ? r.sd(0) : r.mean(0), unitOf(col));
+        const unit = unitOf(col);
+        if (part === "mean") return qty(r.mean(0), unit);
+        return unit ? markExact(quantity(r.sd(0), unit), { unsigned: true }) : r.sd(0);
       },
     })
   ),

@@ -134,3 +134,9 @@ Deno.test("statistics read as statistics: SDs unsigned, exact figures, ellipses 
   const s = nb.value("s") as Record<string, unknown>;
   close(num(s.sd), ss.sampleStandardDeviation([-1.25, -1.5, -1, -2]));
 });
+
+Deno.test("a standard deviation displays as a size, without a sign", () => {
+  // common practice, no source: an SD is a spread, never a lens power
+  const nb = Notebook.fromText("~~~calc\ns = sdOf([-1.25 D, -1.5 D, -1 D])\n~~~\n", "sd.lentil.md");
+  assert.equal(nb.language.describe(nb.value("s")).display, "0.25 D");
+});

@@ -211,7 +211,10 @@ function aggregateFor(
     case "meanOf":
       return one((r, u) => q(r.mean(0), u));
     case "sdOf":
-      return one((r, u) => q(r.sd(0), u));
+      return one((
+        r,
+        u,
+      ) => (u ? markExact(lang.quantity(r.sd(0), u), { unsigned: true }) : r.sd(0)));
     case "summary":
       return one(
         (r, u) =>
