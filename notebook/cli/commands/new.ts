@@ -41,8 +41,16 @@ export const newCommand: Command = {
   name: "new",
   summary: "start a notebook from a starter",
   usage: "FILE [--from STARTER]",
-  help: "Writes FILE (name it *.lentil.md) from a starter notebook, copying any CSV files it\n" +
-    "reads. Refuses to overwrite. Starters: run `lentil new --list`.",
+  get help() {
+    let names = "run `lentil new --list`";
+    try {
+      names = listStarters().join(", ");
+    } catch {
+      // Without read access to seeds/ the list comes from --list.
+    }
+    return "Writes FILE (name it *.lentil.md) from a starter notebook, copying any CSV files it\n" +
+      `reads. Refuses to overwrite. Starters: ${names}.`;
+  },
   options: {
     from: { type: "string", doc: "starter to copy (default: blank)", value: "STARTER" },
     list: { type: "boolean", doc: "list the starters and exit" },
