@@ -20,6 +20,7 @@ import { ACUITY_FORMULAS } from "./acuity.ts";
 import { BLUR_FORMULAS } from "./blur.ts";
 import { ENDPOINT_FORMULAS } from "./endpoint.ts";
 import { STATS_FORMULAS } from "./stats.ts";
+import { PAIRING_FORMULAS } from "./pairing.ts";
 
 /** Every formula and constant, checked for duplicate names. */
 export const CATALOGUE: Catalogue = buildCatalogue(
@@ -31,6 +32,7 @@ export const CATALOGUE: Catalogue = buildCatalogue(
     ...ACUITY_FORMULAS,
     ...BLUR_FORMULAS,
     ...ENDPOINT_FORMULAS,
+    ...PAIRING_FORMULAS,
     ...STATS_FORMULAS,
   ],
   [
