@@ -19,7 +19,6 @@
  */
 
 import { basename, dirname, join, resolve } from "node:path";
-import { parse as parseCsv } from "csv-parse/sync";
 import { stringify as stringifyCsv } from "csv-stringify/sync";
 import { Notebook } from "../engine/engine.ts";
 import { decodeNotebook } from "../format/read.ts";
@@ -37,6 +36,7 @@ import {
 } from "./_splice.ts";
 import { bareName, insideFolder } from "./_paths.ts";
 import { EXPORT_RENDERERS } from "./_markup.ts";
+import { readRawTable } from "../engine/_tables.ts";
 import {
   buildPageView,
   type CellView,
@@ -263,34 +263,10 @@ export class LiveSession {
   }
 
   #tableText(block: TableBlock): TableText | undefined {
+    // The engine's own reading of a table's text, over the CSV as the page holds it.
     const file = block.options.file?.value;
-    if (!file) {
-      return {
-        columns: block.columns.map((c) => ({ name: c.name, spec: c.spec })),
-        rows: block.rows.map((r) => ({ cells: r.cells, line: r.line })),
-      };
-    }
-    const entry = this.#csv.get(file);
-    if (!entry) return undefined;
-    try {
-      const records = parseCsv(entry.text, {
-        info: true,
-        relax_column_count: true,
-        skip_empty_lines: true,
-      }) as unknown as { record: string[]; info: { lines: number } }[];
-      if (!records.length) return { columns: [], rows: [] };
-      const columns = records[0].record.map((h) => {
-        const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[([^\]]*)\])?\s*$/.exec(h);
-        return { name: m ? m[1] : h.trim(), spec: (m?.[2] ?? "").trim() };
-      });
-      const rows = records.slice(1).map((r) => ({
-        cells: r.record.map((c) => c.trim()),
-        line: r.info.lines,
-      }));
-      return { columns, rows };
-    } catch {
-      return undefined;
-    }
+    if (file && !this.#csv.has(file)) return undefined;
+    return readRawTable(block, this.#path, { readText: (rel) => this.#csv.get(rel)!.text }).raw;
   }
 
   #buildView(): PageView {
