@@ -34,7 +34,13 @@ import {
 import { DEFAULT_DISPLAY, type DisplayOptions } from "../../cells/types.ts";
 import { listSources } from "../../shared/sources.ts";
 import type { Diagnostic } from "../format/diagnostic.ts";
-import { type CellDef, type NotebookDoc, parseNotebook, type TableBlock } from "../format/parse.ts";
+import {
+  type CellDef,
+  isLiteral,
+  type NotebookDoc,
+  parseNotebook,
+  type TableBlock,
+} from "../format/parse.ts";
 import { analyse, type Analysis, type TableShape } from "./_analyse.ts";
 import { DependencyGraph } from "./graph.ts";
 import { planColumn } from "./_columns.ts";
@@ -450,24 +456,12 @@ export class Notebook {
       for (const p of problems) this.#staticDiagnostics.push({ ...p, severity: "error" });
       return;
     }
-    for (const p of built!.problems) {
-      this.#staticDiagnostics.push({
-        file: p.file,
-        line: p.line,
-        col: p.col,
-        message: p.message,
-        severity: built!.value ? "warning" : "error",
-      });
-    }
-    for (const p of built!.notes) {
-      this.#staticDiagnostics.push({
-        file: p.file,
-        line: p.line,
-        col: p.col,
-        message: p.message,
-        severity: "warning",
-      });
-    }
+    const report = (
+      p: { file: string; line: number; col: number; message: string },
+      severity: "error" | "warning",
+    ) => this.#staticDiagnostics.push({ ...positioned(p), severity });
+    for (const p of built!.problems) report(p, built!.value ? "warning" : "error");
+    for (const p of built!.notes) report(p, "warning");
     if (!built!.value) {
       const first = built!.problems[0];
       const more = built!.problems.length > 1
@@ -590,7 +584,7 @@ export class Notebook {
     const n = this.#nodes.get(id);
     if (!n?.cell) throw new Error(`no cell named "${id}" to change`);
     const before = [...(n.analysis?.deps ?? [])].sort().join("\n");
-    n.cell = { ...n.cell, expression, input: !n.table && isLiteralExpr(expression) };
+    n.cell = { ...n.cell, expression, input: !n.table && isLiteral(expression) };
     const cells = new Set<string>();
     for (const m of this.#nodes.values()) {
       if (m.kind === "cell" && ownsName(m)) cells.add(m.name);
@@ -898,6 +892,11 @@ function tableEnd(block: TableBlock): number {
   return Math.max(block.headerLine, ...block.rows.map((r) => r.line));
 }
 
+/** The position and message of a table problem, without its row. */
+function positioned(p: { file: string; line: number; col: number; message: string }) {
+  return { file: p.file, line: p.line, col: p.col, message: p.message };
+}
+
 function ownsName(n: NodeDef): boolean {
   return n.id === n.name && n.defError?.kind !== "name";
 }
@@ -913,8 +912,4 @@ function operatorOffset(expression: string, op: string, right: string): number |
     if (squeeze(expression.slice(i)).startsWith(target)) return i;
   }
   return undefined;
-}
-
-function isLiteralExpr(expression: string): boolean {
-  return parseNotebook("```calc\nx = " + expression + "\n```\n", "_").cells[0]?.input ?? false;
 }
