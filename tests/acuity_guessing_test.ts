@@ -1,5 +1,5 @@
 import assert from "node:assert/strict";
-import jStatModule from "jstat";
+import { jStat } from "./_jstat.ts";
 import {
   guessAnyLine,
   guessChance,
@@ -8,9 +8,6 @@ import {
   naiveGuessChance,
 } from "../lib/guessing.ts";
 import { LentilInputError, LentilRangeError } from "../lib/errors.ts";
-
-// deno-lint-ignore no-explicit-any
-const jStat = ((jStatModule as any).jStat ?? jStatModule) as any;
 
 const close = (a: number, b: number, tol = 1e-12, what = "") =>
   assert.ok(Math.abs(a - b) <= tol, `${what} ${a} ≠ ${b}`);

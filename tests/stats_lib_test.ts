@@ -1,7 +1,7 @@
 import assert from "node:assert/strict";
 import { seeded as rng } from "../lib/seeded.ts";
 import * as ss from "simple-statistics";
-import jStatModule from "jstat";
+import { jStat } from "./_jstat.ts";
 import {
   meanAndVariance,
   quantile,
@@ -12,9 +12,6 @@ import {
 import { limitsOfAgreement, vectorAgreement, vectorDifference } from "../lib/agreement.ts";
 import { chiSquare2, ellipseOf, insideEllipse, principalAxes } from "../lib/ellipse.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
-
-// deno-lint-ignore no-explicit-any
-const jStat = ((jStatModule as any).jStat ?? jStatModule) as any;
 
 const close = (a: number, b: number, tol = 1e-9, what = "") =>
   assert.ok(Math.abs(a - b) <= tol * Math.max(1, Math.abs(b)), `${what}: ${a} vs ${b}`);
