@@ -19,7 +19,7 @@ import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts"
 import { Column, makeTable } from "./table.ts";
 import { defineValueType } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
-import { quantity } from "./_values.ts";
+import { quantity } from "./quantity.ts";
 import type { RxValue } from "./rx.ts";
 import type { AmplitudeLevel } from "../lib/accommodation.ts";
 import { nearDemand, tentativeAdd, WORKING_DISTANCE_RANGE_CM } from "../lib/near.ts";

@@ -17,7 +17,8 @@
 
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { defineValueType } from "./types.ts";
-import { EYE_PARAM, pickEye, quantity, requireEye } from "./_values.ts";
+import { EYE_PARAM, pickEye, requireEye } from "./_eye.ts";
+import { quantity } from "./quantity.ts";
 import type { RxValue } from "./rx.ts";
 import { toPowerMatrix } from "../lib/power_matrix.ts";
 import type { SpheroCylinder } from "../lib/spherocylinder.ts";

@@ -16,7 +16,7 @@
 
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { defineValueType, type DisplayOptions } from "./types.ts";
-import { numberIn, quantity } from "./_values.ts";
+import { quantity, toNumberIn } from "./quantity.ts";
 import { combineLenses, lensDifference, overRefraction } from "../lib/combine.ts";
 import {
   checkPowerMatrix,
@@ -300,7 +300,7 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
       const rows = (m as unknown[]).map((row) => {
         const r = Array.isArray(row) ? row : (row as { toArray(): unknown[] }).toArray?.();
         if (!Array.isArray(r)) throw new TypeError("expected a 2×2 matrix [[a, b], [c, d]]");
-        return r.map((x) => numberIn(x, "D"));
+        return r.map((x) => toNumberIn(x, "D"));
       });
       return rxValue(fromPowerMatrix(checkPowerMatrix(rows)));
     },

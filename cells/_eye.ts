@@ -1,19 +1,11 @@
 /**
- * Helpers shared by the prescription, prism and lens cells: quantities (from
- * `quantity.ts`, never the language itself, so any module can load first), numbers read
- * from list entries, and the eye argument.
+ * Helpers shared by the prism cells: the eye argument.
  *
  * @module
  */
 
 import { LentilInputError } from "../lib/errors.ts";
 import { type Eye, parseEye } from "../lib/prism.ts";
-import { toNumberIn } from "./quantity.ts";
-
-export { quantity } from "./quantity.ts";
-
-/** A list entry (a number or a quantity) read as a number in `unit`. */
-export const numberIn: (x: unknown, unit: string) => number = toNumberIn;
 
 /** The first eye given among the candidates (text or already an eye). */
 export function pickEye(...candidates: (string | Eye | undefined)[]): Eye | undefined {
