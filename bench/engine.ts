@@ -24,7 +24,7 @@ export function generatedNotebook(n = 1000): string {
     lines.push(`g${k} = vertexPower(in${a} + in${b}, 12 mm, ${k % 13} mm)`);
     k++;
   }
-  return "# Generated\n\n```calc\n" + lines.join("\n") + "\n```\n";
+  return "# Generated\n\n```lentil\n" + lines.join("\n") + "\n```\n";
 }
 
 /** Measure the goal. */

@@ -63,7 +63,7 @@ export async function readNotebookBytes(path: string): Promise<Uint8Array> {
  * @example
  * ```ts
  * import { notebookFromBytes } from "./load.ts";
- * const r = await notebookFromBytes(new TextEncoder().encode("~~~calc\nx = 1\n~~~\n"), "x.lentil.md");
+ * const r = await notebookFromBytes(new TextEncoder().encode("~~~lentil\nx = 1\n~~~\n"), "x.lentil.md");
  * r.ok; // true
  * ```
  */

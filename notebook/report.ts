@@ -7,7 +7,7 @@
  * ```ts
  * import { Notebook } from "./engine/engine.ts";
  * import { buildReport } from "./report.ts";
- * const nb = Notebook.fromText("~~~calc\ncl = vertexPower(-10 D, 12 mm)\n~~~\n", "a.lentil.md");
+ * const nb = Notebook.fromText("~~~lentil\ncl = vertexPower(-10 D, 12 mm)\n~~~\n", "a.lentil.md");
  * buildReport(nb).sources[0].id; // "vertex-formula"
  * ```
  *
@@ -81,7 +81,7 @@ export interface Report {
  * ```ts
  * import { Notebook } from "./engine/engine.ts";
  * import { buildReport } from "./report.ts";
- * buildReport(Notebook.fromText("~~~calc\nx = 2 mm\n~~~\n", "x.lentil.md")).cells[0].display; // "2.00 mm"
+ * buildReport(Notebook.fromText("~~~lentil\nx = 2 mm\n~~~\n", "x.lentil.md")).cells[0].display; // "2.00 mm"
  * ```
  */
 export function buildReport(nb: Notebook): Report {

@@ -38,6 +38,6 @@ export function diagLines(nb: Notebook): string[] {
 
 /** A notebook with one CSV table and optional table options and calc lines. */
 export function csvNotebook(options: string[] = [], calc: string[] = []): string {
-  const table = ["~~~table eyes", "file: eyes.csv", ...options, "~~~"].join("\n");
-  return table + "\n\n" + (calc.length ? ["~~~calc", ...calc, "~~~", ""].join("\n") : "");
+  const table = ["~~~lentil table eyes", "file: eyes.csv", ...options, "~~~"].join("\n");
+  return table + "\n\n" + (calc.length ? ["~~~lentil", ...calc, "~~~", ""].join("\n") : "");
 }

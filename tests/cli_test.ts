@@ -20,7 +20,7 @@ async function withDir(fn: (dir: string) => Promise<void>) {
 }
 
 const GOOD =
-  "---\ntitle: CLI check\ncase: C-1\n---\n```calc\nvd = 12 mm\ncl = vertexPower(-10 D, vd)  # at the cornea\n```\n";
+  "---\ntitle: CLI check\ncase: C-1\n---\n```lentil\nvd = 12 mm\ncl = vertexPower(-10 D, vd)  # at the cornea\n```\n";
 
 Deno.test("run prints every cell with its value, sources and cautions", async () => {
   await withDir(async (dir) => {
@@ -39,7 +39,7 @@ Deno.test("run prints every cell with its value, sources and cautions", async ()
 Deno.test("run --json has the documented shape", async () => {
   await withDir(async (dir) => {
     const f = join(dir, "a.lentil.md");
-    await Deno.writeTextFile(f, GOOD + "```calc\nbad = vd + 1 D\n```\n");
+    await Deno.writeTextFile(f, GOOD + "```lentil\nbad = vd + 1 D\n```\n");
     const r = await cli("run", f, "--json");
     assert.equal(r.code, 1);
     const j = JSON.parse(r.out);
@@ -62,7 +62,7 @@ Deno.test("check prints FILE:LINE:COL for each problem and exits 1; 0 when clean
     const bad = join(dir, "bad.lentil.md");
     await Deno.writeTextFile(
       bad,
-      "```calc\nx = 1\nx = 2\ny = 3 qq\n```\n\n```table t\na | b\n1\n```\n\n```calc\nz = 1\n",
+      "```lentil\nx = 1\nx = 2\ny = 3 qq\n```\n\n```lentil table t\na | b\n1\n```\n\n```lentil\nz = 1\n",
     );
     const r = await cli("check", bad);
     assert.equal(r.code, 1);
@@ -70,7 +70,7 @@ Deno.test("check prints FILE:LINE:COL for each problem and exits 1; 0 when clean
       `${bad}:3:1: duplicate name "x" (first defined at line 2)`,
       `${bad}:4:7: unknown name or unit "qq"`,
       `${bad}:9:1: row has 1 field, the header has 2`,
-      `${bad}:12:1: calc block opened here is never closed (add a line \`\`\`)`,
+      `${bad}:12:1: lentil block opened here is never closed (add a line \`\`\`)`,
     ]);
   });
 });
@@ -142,7 +142,7 @@ Deno.test("check reports a plot block's problems at their line", async () => {
     const f = join(dir, "p.lentil.md");
     await Deno.writeTextFile(
       f,
-      "```table t\nx | y\n1 | 2\n```\n\n```plot\nkind: pie\ntable: t\n```\n",
+      "```lentil table t\nx | y\n1 | 2\n```\n\n```lentil plot\nkind: pie\ntable: t\n```\n",
     );
     const r = await cli("check", f);
     assert.equal(r.code, 1);
@@ -153,7 +153,10 @@ Deno.test("check reports a plot block's problems at their line", async () => {
 Deno.test("run --json gives a computed column's values and a table's shape", async () => {
   await withDir(async (dir) => {
     const f = join(dir, "t.lentil.md");
-    await Deno.writeTextFile(f, "```table t\nx [mm]\n1\n2\n```\n\n```calc\nt.y = x * 2\n```\n");
+    await Deno.writeTextFile(
+      f,
+      "```lentil table t\nx [mm]\n1\n2\n```\n\n```lentil\nt.y = x * 2\n```\n",
+    );
     const j = JSON.parse((await cli("run", f, "--json")).out);
     const t = j.cells.find((c: { name: string }) => c.name === "t");
     assert.deepEqual(t.value.columns.map((c: { name: string }) => c.name), ["x", "y"]);

@@ -5,7 +5,7 @@ import { Notebook } from "../notebook/engine/engine.ts";
 import { DependencyGraph } from "../notebook/engine/graph.ts";
 import { getLanguage } from "../cells/language.ts";
 
-const calc = (body: string) => "```calc\n" + body + "\n```\n";
+const calc = (body: string) => "```lentil\n" + body + "\n```\n";
 
 Deno.test("graph: topological order, downstream sets, cycles with their path", () => {
   const g = new DependencyGraph(
@@ -188,7 +188,7 @@ Deno.test("vertex check values from the field notes (vertex-formula)", () => {
 Deno.test("tables: inline columns with units, computed columns, aggregates", () => {
   const nb = Notebook.fromText(
     calc("trials.shifted = lens - 0.25 D\nbest = max(trials.shifted)\nmeanVa = mean(trials.va)") +
-      "\n```table trials\nlens [D] | va [logMAR] | who\n+1.00 | 0.30 | a\n+0.50 | 0.10 | b\n0.00 | 0.00 | c\n```\n",
+      "\n```lentil table trials\nlens [D] | va [logMAR] | who\n+1.00 | 0.30 | a\n+0.50 | 0.10 | b\n0.00 | 0.00 | c\n```\n",
     "t.lentil.md",
   );
   assert.equal(nb.language.describe(nb.value("best")).display, "+0.75 D");
@@ -199,18 +199,24 @@ Deno.test("tables: inline columns with units, computed columns, aggregates", () 
 
 Deno.test("tables: bad cells are positioned; bad rows stop by default or are skipped and counted", () => {
   const rows = "lens [D] | va\n+1.00 | 0.3\nabc | 0.1\n0.00 | 0.0\n";
-  const stop = Notebook.fromText("```table t\n" + rows + "```\n" + calc("n = 1"), "b.lentil.md");
+  const stop = Notebook.fromText(
+    "```lentil table t\n" + rows + "```\n" + calc("n = 1"),
+    "b.lentil.md",
+  );
   assert.equal(stop.result("t")!.error!.kind, "data");
   assert.deepEqual(stop.diagnostics().map((d) => `${d.line}:${d.col}: ${d.message}`), [
     '4:1: column lens: "abc" is not a number (in D)',
   ]);
-  const skip = Notebook.fromText("```table t\nbad rows: skip\n" + rows + "```\n", "s.lentil.md");
+  const skip = Notebook.fromText(
+    "```lentil table t\nbad rows: skip\n" + rows + "```\n",
+    "s.lentil.md",
+  );
   assert.match(skip.language.describe(skip.value("t")).display, /2 rows × 2 columns, 1 excluded/);
 });
 
 Deno.test("tables: unknown unit in a header and a missing CSV file are positioned", () => {
   const nb = Notebook.fromText(
-    "```table t\nlens [Dx] | va\n1 | 2\n```\n\n```table u\nfile: nowhere.csv\n```\n",
+    "```lentil table t\nlens [Dx] | va\n1 | 2\n```\n\n```lentil table u\nfile: nowhere.csv\n```\n",
     "h.lentil.md",
   );
   const d = nb.diagnostics();
@@ -223,7 +229,7 @@ Deno.test("tables: unknown unit in a header and a missing CSV file are positione
 
 Deno.test("tables: CSV rows with the wrong number of fields are positioned in the CSV", () => {
   const files: Record<string, string> = { "r.csv": "sph [D],cyl [D]\n-1.00,-0.50\n-2.00\n" };
-  const nb = Notebook.fromText("```table r\nfile: r.csv\n```\n", "c.lentil.md", {
+  const nb = Notebook.fromText("```lentil table r\nfile: r.csv\n```\n", "c.lentil.md", {
     host: { readText: (p) => files[p] },
   });
   assert.deepEqual(nb.diagnostics().map((d) => `${d.file}:${d.line}:${d.col}: ${d.message}`), [
@@ -244,7 +250,7 @@ Deno.test("a unit Lentil does not use is refused at its column, so a typo is not
 Deno.test("reconcile: a new version re-evaluates only what changed and what depends on it", async () => {
   const { parseNotebook } = await import("../notebook/format/parse.ts");
   const text = (rows: string, extra = "") =>
-    "```table t\nlens [D] | va\n" + rows + "```\n\n" +
+    "```lentil table t\nlens [D] | va\n" + rows + "```\n\n" +
     calc("best = max(t.lens)\nother = 2 mm\nbad = other + 1 D" + extra);
   const before = Notebook.fromText(text("+1.00 | 0.1\n"), "r.lentil.md");
   // A table edit that adds a row: the table and its dependents, and the cell whose error
@@ -264,7 +270,7 @@ Deno.test("reconcile: a new version re-evaluates only what changed and what depe
 
 Deno.test("reconcile: removing a computed column leaves no stale column on its table", async () => {
   const { parseNotebook } = await import("../notebook/format/parse.ts");
-  const table = "```table t\nx\n1\n2\n```\n\n";
+  const table = "```lentil table t\nx\n1\n2\n```\n\n";
   const before = Notebook.fromText(table + calc("t.y = x * 2\nn = 1"), "c.lentil.md");
   const doc = parseNotebook(table + calc("n = 1"), "c.lentil.md");
   const { notebook, recomputed } = Notebook.reconcile(before, doc);

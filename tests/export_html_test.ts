@@ -86,7 +86,7 @@ Deno.test("page: every source used is listed once, numbered, with its mark", asy
 
 Deno.test("page: cautions follow a block whose result could be used to make a lens", () => {
   const nb = Notebook.fromText(
-    "```calc\nx = 2 mm\n```\n\n```calc\ncl = vertexPower(-10 D, 12 mm)\n```\n",
+    "```lentil\nx = 2 mm\n```\n\n```lentil\ncl = vertexPower(-10 D, 12 mm)\n```\n",
     "c.lentil.md",
   );
   const { html } = renderNotebookBody(nb);
@@ -95,13 +95,13 @@ Deno.test("page: cautions follow a block whose result could be used to make a le
   assert.ok(!sections[0].includes("lx-cautions"));
   assert.ok(sections[1].includes('<aside class="lx-cautions"'));
   for (const c of CAUTIONS) assert.ok(sections[1].includes(c.replaceAll("'", "&#39;")));
-  const plain = renderNotebookBody(Notebook.fromText("```calc\nx = 2 mm\n```\n", "p.lentil.md"));
+  const plain = renderNotebookBody(Notebook.fromText("```lentil\nx = 2 mm\n```\n", "p.lentil.md"));
   assert.ok(!plain.html.includes("lx-cautions"));
 });
 
 Deno.test("page: calc cells show formula, result, unit and footnote numbers", () => {
   const nb = Notebook.fromText(
-    "```calc\nF = -10 D   # spectacle\ncl = vertexPower(F, 12 mm) * 1\n```\n",
+    "```lentil\nF = -10 D   # spectacle\ncl = vertexPower(F, 12 mm) * 1\n```\n",
     "f.lentil.md",
   );
   const { html } = renderNotebookBody(nb);

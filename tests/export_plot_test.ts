@@ -75,7 +75,7 @@ function one(text: string) {
   return renderPlot(plots(n)[0], n);
 }
 
-const T = "```table t\na [D] | b | w [text]\n1 | 2 | x\n2 | 3 | y\n3 | 5 | z\n```\n\n";
+const T = "```lentil table t\na [D] | b | w [text]\n1 | 2 | x\n2 | 3 | y\n3 | 5 | z\n```\n\n";
 
 Deno.test("plot problems: unknown kind, table, column, option, cell; a text column", () => {
   const cases: [string, RegExp][] = [
@@ -98,14 +98,15 @@ Deno.test("plot problems: unknown kind, table, column, option, cell; a text colu
     ],
   ];
   for (const [opts, re] of cases) {
-    const p = one(T + "```plot\n" + opts + "\n```\n");
+    const p = one(T + "```lentil plot\n" + opts + "\n```\n");
     assert.ok(p.problems.some((d) => re.test(d.message)), `${opts}: ${JSON.stringify(p.problems)}`);
     assert.equal(p.svg, "");
   }
 });
 
 Deno.test("plot: `cell.part` reads a part of a record value", () => {
-  const base = T + "```calc\nk = 3\n```\n\n```plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\n";
+  const base = T +
+    "```lentil\nk = 3\n```\n\n```lentil plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\n";
   const ok = one(base + "mark: k\n```\n");
   assert.deepEqual(ok.problems, []);
   const bad = one(base + "mark: k.endpoint\n```\n");
@@ -117,7 +118,7 @@ Deno.test("plot: `cell.part` reads a part of a record value", () => {
 Deno.test("plot: a cell that holds no curve is named as the problem", () => {
   const p = one(
     T +
-      "```calc\nk = 3\n```\n\n```plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\nfit: k\n```\n",
+      "```lentil\nk = 3\n```\n\n```lentil plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\nfit: k\n```\n",
   );
   assert.ok(p.problems.some((d) => /fit: the cell holds no curve points/.test(d.message)));
 });
@@ -125,8 +126,8 @@ Deno.test("plot: a cell that holds no curve is named as the problem", () => {
 Deno.test("plot: a large table is thinned to the point cap and the caption says so", () => {
   const rows = Array.from({ length: MAX_PLOT_POINTS * 2 + 10 }, (_, i) => `${i} | ${i % 7}`);
   const p = one(
-    "```table big\nx | y\n" + rows.join("\n") +
-      "\n```\n\n```plot\nkind: scatter\ntable: big\nx-axis: x\ny-axis: y\n```\n",
+    "```lentil table big\nx | y\n" + rows.join("\n") +
+      "\n```\n\n```lentil plot\nkind: scatter\ntable: big\nx-axis: x\ny-axis: y\n```\n",
   );
   assert.deepEqual(p.problems, []);
   const dots = (p.svg.match(/<circle/g) ?? []).length;

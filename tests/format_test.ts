@@ -12,7 +12,7 @@ case: T-001
 ---
 Some *prose*.
 
-\`\`\`calc
+\`\`\`lentil
 vd = 12 mm                 # vertex distance
 ref = rx("-2.00 # odd")    # a note after a string with #
 trials.shift = lens + 0.25 D
@@ -22,12 +22,12 @@ trials.shift = lens + 0.25 D
 not = a + lentil block
 \`\`\`
 
-\`\`\`table trials
+\`\`\`lentil table trials
 lens [D] | va [logMAR] | remark
 +1.00    | 0.30        | a \\| b
 \`\`\`
 
-\`\`\`plot
+\`\`\`lentil plot
 kind: line
 table: trials
 \`\`\`
@@ -123,18 +123,18 @@ Deno.test("literal inputs are told from formulas", () => {
 });
 
 Deno.test("unterminated block is reported at its opening line", () => {
-  const nb = parseNotebook("Intro\n\n```calc\nx = 1\n", "u.lentil.md");
+  const nb = parseNotebook("Intro\n\n```lentil\nx = 1\n", "u.lentil.md");
   assert.equal(nb.diagnostics.length, 1);
   assert.equal(
     formatDiagnostic(nb.diagnostics[0]),
-    "u.lentil.md:3:1: calc block opened here is never closed (add a line ```)",
+    "u.lentil.md:3:1: lentil block opened here is never closed (add a line ```)",
   );
   // Nothing is dropped: the cell is still there.
   assert.equal(nb.cells[0].name, "x");
 });
 
 Deno.test("duplicate cell name is reported at the second definition, both kept", () => {
-  const nb = parseNotebook("```calc\nx = 1\ny = 2\nx = 3\n```\n", "d.lentil.md");
+  const nb = parseNotebook("```lentil\nx = 1\ny = 2\nx = 3\n```\n", "d.lentil.md");
   assert.deepEqual(nb.diagnostics.map(formatDiagnostic), [
     'd.lentil.md:4:1: duplicate name "x" (first defined at line 2)',
   ]);
@@ -142,7 +142,7 @@ Deno.test("duplicate cell name is reported at the second definition, both kept",
 });
 
 Deno.test("a line that is not a cell is reported and kept in the text", () => {
-  const text = "```calc\nx = 1\nthis is not a cell\n```\n";
+  const text = "```lentil\nx = 1\nthis is not a cell\n```\n";
   const nb = parseNotebook(text, "n.lentil.md");
   assert.equal(nb.diagnostics[0].line, 3);
   assert.match(nb.diagnostics[0].message, /expected `name = expression`/);
@@ -150,7 +150,7 @@ Deno.test("a line that is not a cell is reported and kept in the text", () => {
 });
 
 Deno.test("table rows with the wrong number of fields are positioned", () => {
-  const nb = parseNotebook("```table t\na | b\n1 | 2\n3\n```\n", "t.lentil.md");
+  const nb = parseNotebook("```lentil table t\na | b\n1 | 2\n3\n```\n", "t.lentil.md");
   assert.deepEqual(nb.diagnostics.map(formatDiagnostic), [
     "t.lentil.md:4:1: row has 1 field, the header has 2",
   ]);
@@ -182,7 +182,7 @@ Deno.test("invalid UTF-8 is reported with line and column", () => {
 
 Deno.test("option lines may carry a note after # and white space", () => {
   const nb = parseNotebook(
-    "```plot\nkind: curve   # the kind\ntitle: Case #3\n```\n\n```table t\nfile: a.csv  # beside the notebook\n```\n",
+    "```lentil plot\nkind: curve   # the kind\ntitle: Case #3\n```\n\n```lentil table t\nfile: a.csv  # beside the notebook\n```\n",
     "o.lentil.md",
   );
   const plot = nb.blocks.find((b) => b.kind === "plot");

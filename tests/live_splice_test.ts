@@ -13,7 +13,7 @@ import {
 const TABLE = [
   "Before.",
   "",
-  "```table trials",
+  "```lentil table trials",
   "lens [D] | va [logMAR]",
   "+1.00    | 0.30",
   "# a comment between rows",
@@ -29,18 +29,18 @@ function rowsEdit(text: string, rows: string[][]): string {
 }
 
 Deno.test("an expression edit keeps name, spacing and note byte for byte", () => {
-  const text = "Prose.\n\n```calc\nvd   =  13 mm     # at the fitting\n```\n";
+  const text = "Prose.\n\n```lentil\nvd   =  13 mm     # at the fitting\n```\n";
   const cell = parseNotebook(text, "a").cells[0];
   const out = applyEdit(text, expressionEdit(cell.exprSpan, "14 mm"));
-  assert.equal(out, "Prose.\n\n```calc\nvd   =  14 mm     # at the fitting\n```\n");
+  assert.equal(out, "Prose.\n\n```lentil\nvd   =  14 mm     # at the fitting\n```\n");
 });
 
 Deno.test("a new cell goes before the closing fence, in the file's line ending", () => {
-  const text = "```calc\r\nx = 1\r\n```\r\nTail\r\n";
+  const text = "```lentil\r\nx = 1\r\n```\r\nTail\r\n";
   const block = calcBlock(parseNotebook(text, "a"), 0)!;
   assert.equal(
     applyEdit(text, appendLineEdit(text, block, "y = x")),
-    "```calc\r\nx = 1\r\ny = x\r\n```\r\nTail\r\n",
+    "```lentil\r\nx = 1\r\ny = x\r\n```\r\nTail\r\n",
   );
 });
 
@@ -80,8 +80,8 @@ Deno.test("table rows: reorder moves lines as written; delete keeps an orphaned 
 });
 
 Deno.test("table rows: an empty table gets rows after its header; | is escaped", () => {
-  const text = "```table t\na | b\n```\n";
-  assert.equal(rowsEdit(text, [["1", "x|y"]]), "```table t\na | b\n1 | x\\|y\n```\n");
+  const text = "```lentil table t\na | b\n```\n";
+  assert.equal(rowsEdit(text, [["1", "x|y"]]), "```lentil table t\na | b\n1 | x\\|y\n```\n");
   assert.equal(
     parseNotebook(rowsEdit(text, [["1", "x|y"]]), "t").tables[0].rows[0].cells[1],
     "x|y",
@@ -93,10 +93,10 @@ Deno.test("formatRow pads to the header's cells and keeps its indent", () => {
 });
 
 Deno.test("optionValueEdit replaces only the value", () => {
-  const text = "```table v\nfile:   visits.csv  \n```\n";
+  const text = "```lentil table v\nfile:   visits.csv  \n```\n";
   const opt = parseNotebook(text, "n").tables[0].options.file;
   assert.equal(
     applyEdit(text, optionValueEdit(text, opt, "v2.csv")),
-    "```table v\nfile:   v2.csv  \n```\n",
+    "```lentil table v\nfile:   v2.csv  \n```\n",
   );
 });

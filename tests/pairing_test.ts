@@ -3,10 +3,10 @@ import assert from "node:assert/strict";
 import { Notebook } from "../notebook/engine/engine.ts";
 
 const NB = (second: string) =>
-  "```table visit1\nsubject | eye | rx [rx]\nA | R | -1.00 / -0.50 x 180\nA | L | -1.25 DS\n" +
+  "```lentil table visit1\nsubject | eye | rx [rx]\nA | R | -1.00 / -0.50 x 180\nA | L | -1.25 DS\n" +
   "B | R | +0.50 / -0.25 x 90\n```\n\n" +
-  "```table visit2\nsubject | eye | rx [rx]\n" + second + "```\n\n" +
-  '```calc\npaired = pairRows(visit1, visit2, "subject", "eye")\n' +
+  "```lentil table visit2\nsubject | eye | rx [rx]\n" + second + "```\n\n" +
+  '```lentil\npaired = pairRows(visit1, visit2, "subject", "eye")\n' +
   "change = rxAgreement(paired.rx1, paired.rx2)\n```\n";
 
 Deno.test("pairRows pairs on the keys whatever the row order, and counts rows without a partner", () => {

@@ -15,9 +15,9 @@ const bytes = (...parts: (string | number[])[]) => {
 };
 
 const BAD = bytes(
-  '```calc\na = 1 mm\nb = "',
+  '```lentil\na = 1 mm\nb = "',
   [0xff, 0xfe],
-  ' bad"\nc = a + 1 mm\n```\n\n```table t\nx [mm] | y [text]\n1 | ok\n2 | ',
+  ' bad"\nc = a + 1 mm\n```\n\n```lentil table t\nx [mm] | y [text]\n1 | ok\n2 | ',
   [0xc3],
   "(\n```\n",
 );

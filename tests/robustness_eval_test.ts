@@ -38,7 +38,7 @@ Deno.test("two formulas in one cell are an error at the `;`", async () => {
 
 Deno.test("a result that is infinite, not a number or complex is an error at the cell", () => {
   const nb = Notebook.fromText(
-    "```calc\na = 1 D / 0\nb = 0 / 0\nc = sqrt(-4)\nd = a * 2\nok = sqrt(4)\n```\n",
+    "```lentil\na = 1 D / 0\nb = 0 / 0\nc = sqrt(-4)\nd = a * 2\nok = sqrt(4)\n```\n",
     "f.lentil.md",
   );
   assert.match(nb.result("a")!.error!.message, /the result is infinite/);

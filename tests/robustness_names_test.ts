@@ -5,8 +5,8 @@ import { Notebook } from "../notebook/engine/engine.ts";
 
 Deno.test("a cell named like a unit or constant does not capture that word elsewhere", () => {
   const nb = Notebook.fromText(
-    "```calc\nmm = 5\npi = 3\na = 1 mm\nb = pi * 2\n```\n\n```table deg\nx [mm]\n1\n```\n\n" +
-      "```calc\nd = 30 deg\n```\n",
+    "```lentil\nmm = 5\npi = 3\na = 1 mm\nb = pi * 2\n```\n\n```lentil table deg\nx [mm]\n1\n```\n\n" +
+      "```lentil\nd = 30 deg\n```\n",
     "names.lentil.md",
   );
   assert.match(nb.result("mm")!.error!.message, /"mm" is a unit/);

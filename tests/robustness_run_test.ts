@@ -18,14 +18,14 @@ async function runOn(text: string, ...flags: string[]) {
 }
 
 Deno.test("run lists an unterminated block under Problems and exits 1", async () => {
-  const r = await runOn("```calc\na = 1 mm\nb = a * 2\n");
+  const r = await runOn("```lentil\na = 1 mm\nb = a * 2\n");
   assert.equal(r.code, 1);
   assert.match(r.out, /b += 2\.00 mm/);
   assert.match(
     r.out,
-    /\nProblems\n {2}.*p\.lentil\.md:1:1: calc block opened here is never closed/,
+    /\nProblems\n {2}.*p\.lentil\.md:1:1: lentil block opened here is never closed/,
   );
-  const j = await runOn("```calc\na = 1 mm\n", "--json");
+  const j = await runOn("```lentil\na = 1 mm\n", "--json");
   assert.equal(j.code, 1);
   const json = JSON.parse(j.out);
   assert.equal(json.cells[0].display, "1.00 mm");
@@ -34,7 +34,7 @@ Deno.test("run lists an unterminated block under Problems and exits 1", async ()
 });
 
 Deno.test("run does not repeat under Problems what a cell already shows", async () => {
-  const r = await runOn("```calc\na = 1 mm\na = 2 mm\n```\n");
+  const r = await runOn("```lentil\na = 1 mm\na = 2 mm\n```\n");
   assert.equal(r.code, 1);
   assert.match(r.out, /a@3 +! duplicate name "a"/);
   assert.doesNotMatch(r.out, /Problems/);

@@ -10,7 +10,7 @@ const host = (files: Record<string, string>) => ({
   },
 });
 
-const NB = "```table t\nfile: t.csv\n```\n\n```calc\nt.y = x * 2\nk = 3 mm\n```\n";
+const NB = "```lentil table t\nfile: t.csv\n```\n\n```lentil\nt.y = x * 2\nk = 3 mm\n```\n";
 
 for (
   const [label, files] of [

@@ -10,7 +10,7 @@ const close = (a: number, b: number, tol = 1e-12) =>
   assert.ok(Math.abs(a - b) <= tol, `${a} vs ${b}`);
 
 const TABLE = [
-  "~~~table visits",
+  "~~~lentil table visits",
   "eye [text] | sph [D] | cyl [D] | axis [deg] | sphB [D] | cylB [D] | axisB [deg] | va [logMAR]",
   "R | +0.00 | +1.00 | 180 | -0.25 | +1.00 | 175 | 0.10",
   "L | +0.00 | +1.00 | 90  | +0.25 | +0.75 | 95  | 0.00",
@@ -20,7 +20,7 @@ const TABLE = [
 ].join("\n");
 
 function run(calc: string[]): Notebook {
-  return Notebook.fromText(TABLE + "\n\n~~~calc\n" + calc.join("\n") + "\n~~~\n", "s.lentil.md");
+  return Notebook.fromText(TABLE + "\n\n~~~lentil\n" + calc.join("\n") + "\n~~~\n", "s.lentil.md");
 }
 
 Deno.test("meanRx of +1.00 × 180 and +1.00 × 90 is a sphere of +0.50 D", () => {
@@ -93,12 +93,12 @@ Deno.test("a prescription column works when the rx type is registered", () => {
   // Thibos et al. 1997
   if (!getValueType("rx")) return;
   const text = [
-    "~~~table t",
+    "~~~lentil table t",
     "rx [rx]",
     "+0.00 / +1.00 x 180",
     "+0.00 / +1.00 x 90",
     "~~~",
-    "~~~calc",
+    "~~~lentil",
     "avg = meanRx(t.rx)",
     "~~~",
     "",
@@ -137,6 +137,9 @@ Deno.test("statistics read as statistics: SDs unsigned, exact figures, ellipses 
 
 Deno.test("a standard deviation displays as a size, without a sign", () => {
   // common practice, no source: an SD is a spread, never a lens power
-  const nb = Notebook.fromText("~~~calc\ns = sdOf([-1.25 D, -1.5 D, -1 D])\n~~~\n", "sd.lentil.md");
+  const nb = Notebook.fromText(
+    "~~~lentil\ns = sdOf([-1.25 D, -1.5 D, -1 D])\n~~~\n",
+    "sd.lentil.md",
+  );
   assert.equal(nb.language.describe(nb.value("s")).display, "0.25 D");
 });

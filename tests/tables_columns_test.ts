@@ -145,12 +145,12 @@ Deno.test("a range error in a catalogue formula is the language's own, with the 
 Deno.test("the engine compiles power-vector columns and reports the path", () => {
   // Thibos et al. 1997: M = S + C/2, J0 = −(C/2)cos 2α, J45 = −(C/2)sin 2α
   const text = [
-    "~~~table eyes",
+    "~~~lentil table eyes",
     "sph [D] | cyl [D] | axis [deg] | eye [text]",
     "-2.00 | -1.00 | 180 | R",
     "+1.00 | -2.00 | 90 | L",
     "~~~",
-    "~~~calc",
+    "~~~lentil",
     "eyes.M = sph + cyl / 2",
     "eyes.J0 = -(cyl / 2) * cos(2 * axis)",
     "eyes.J45 = -(cyl / 2) * sin(2 * axis)",

@@ -7,7 +7,7 @@ const col = (v: unknown) => Array.from((v as Column).data as ArrayLike<unknown>)
 
 Deno.test("a declared column missing from the CSV is named with the header it has", async () => {
   // common practice, no source
-  const text = "~~~table eyes\nfile: eyes.csv\nsph [D] | cyl [D] | axis [deg]\n~~~\n";
+  const text = "~~~lentil table eyes\nfile: eyes.csv\nsph [D] | cyl [D] | axis [deg]\n~~~\n";
   const { whole, streamed } = await bothWays(text, { "eyes.csv": "sph,cyl\n-1,-0.5\n" });
   for (const nb of [whole, streamed]) {
     const lines = diagLines(nb);
@@ -62,7 +62,7 @@ Deno.test("bad rows: skip excludes and counts them, and says which rows", async 
     assert.ok(lines.includes('warning eyes.csv:3:1: column sph: "abc" is not a number (in D)'));
     assert.ok(lines.includes("warning eyes.csv:4:1: row has 2 fields, the header has 3"));
     assert.ok(
-      lines.includes("warning study.lentil.md:1:10: table eyes: 2 bad rows (row 2, 3) of 4"),
+      lines.includes("warning study.lentil.md:1:17: table eyes: 2 bad rows (row 2, 3) of 4"),
     );
   }
 });
@@ -77,7 +77,7 @@ Deno.test("mixed cylinder signs are accepted, transposed to the first row's form
     assert.deepEqual(col(t.cyl), [-0.5, -0.75, 0]);
     assert.deepEqual(col(t.axis), [90, 170, 180]);
     assert.deepEqual(diagLines(nb), [
-      "warning study.lentil.md:1:10: table eyes: column cyl mixes cylinder signs; 1 row in plus-cylinder form (row 2) was transposed to minus-cylinder form, the form of row 1 (the same lenses)",
+      "warning study.lentil.md:1:17: table eyes: column cyl mixes cylinder signs; 1 row in plus-cylinder form (row 2) was transposed to minus-cylinder form, the form of row 1 (the same lenses)",
     ]);
   }
 });

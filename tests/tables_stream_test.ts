@@ -12,12 +12,12 @@ const lang = getLanguage();
 
 const NOTEBOOK = (opts = "") =>
   [
-    "~~~table eyes",
+    "~~~lentil table eyes",
     "file: eyes.csv",
     ...(opts ? [opts] : []),
     "~~~",
     "",
-    "~~~calc",
+    "~~~lentil",
     "shift = 0.25 D",
     "eyes.M = sph + cyl / 2 + shift",
     "eyes.J0 = -(cyl / 2) * cos(2 * axis)",
@@ -174,7 +174,8 @@ Deno.test("lentil stream prints the counts, columns and aggregates", async () =>
 
 Deno.test("a computed column that fails on the data stops the stream with its reason; cautions shown", async () => {
   const dir = await folder({
-    "s.lentil.md": "```table cohort\nfile: c.csv\n```\n\n```calc\ncohort.r = round(sph * 4) / 4\n" +
+    "s.lentil.md":
+      "```lentil table cohort\nfile: c.csv\n```\n\n```lentil\ncohort.r = round(sph * 4) / 4\n" +
       "cl = vertexPower(-6 D, 12 mm)\n```\n",
     "c.csv": "sph [D],cyl [D]\n-1.30,-0.5\n",
   });

@@ -9,7 +9,7 @@
  * @example
  * ```ts
  * import { Notebook } from "./engine.ts";
- * const nb = Notebook.fromText("~~~calc\nF = -10 D\ncl = vertexPower(F, 12 mm)\n~~~\n", "a.lentil.md");
+ * const nb = Notebook.fromText("~~~lentil\nF = -10 D\ncl = vertexPower(F, 12 mm)\n~~~\n", "a.lentil.md");
  * nb.result("cl")?.sources; // ["vertex-formula"]
  * nb.update("F", "+10 D"); // ["F", "cl"]
  * ```
@@ -200,7 +200,7 @@ export class Notebook {
    * @example
    * ```ts
    * import { Notebook } from "./engine.ts";
-   * Notebook.fromText("~~~calc\nx = 2 mm\n~~~\n", "x.lentil.md").result("x")?.value !== undefined; // true
+   * Notebook.fromText("~~~lentil\nx = 2 mm\n~~~\n", "x.lentil.md").result("x")?.value !== undefined; // true
    * ```
    */
   static fromText(text: string, file: string, options: NotebookOptions = {}): Notebook {
@@ -247,8 +247,8 @@ export class Notebook {
    * ```ts
    * import { Notebook } from "./engine.ts";
    * import { parseNotebook } from "../format/parse.ts";
-   * const a = Notebook.fromText("~~~calc\nx = 1\ny = x + 1\nz = 5\n~~~\n", "r.lentil.md");
-   * const doc = parseNotebook("~~~calc\nx = 2\ny = x + 1\nz = 5\n~~~\n", "r.lentil.md");
+   * const a = Notebook.fromText("~~~lentil\nx = 1\ny = x + 1\nz = 5\n~~~\n", "r.lentil.md");
+   * const doc = parseNotebook("~~~lentil\nx = 2\ny = x + 1\nz = 5\n~~~\n", "r.lentil.md");
    * Notebook.reconcile(a, doc).recomputed; // ["x", "y"]
    * ```
    */
@@ -575,7 +575,7 @@ export class Notebook {
    * @example
    * ```ts
    * import { Notebook } from "./engine.ts";
-   * const nb = Notebook.fromText("~~~calc\na = 1\nb = a + 1\nc = 5\n~~~\n", "x.lentil.md");
+   * const nb = Notebook.fromText("~~~lentil\na = 1\nb = a + 1\nc = 5\n~~~\n", "x.lentil.md");
    * nb.update("a", "2"); // ["a", "b"]
    * ```
    * @throws {Error} when no cell has that id.
@@ -719,7 +719,7 @@ export class Notebook {
    * @example
    * ```ts
    * import { Notebook } from "./engine.ts";
-   * const nb = Notebook.fromText("~~~table t\nx [D]\n1\n~~~\n~~~calc\nt.y = x * 2\n~~~\n", "a.lentil.md");
+   * const nb = Notebook.fromText("~~~lentil table t\nx [D]\n1\n~~~\n~~~lentil\nt.y = x * 2\n~~~\n", "a.lentil.md");
    * nb.columnPath("t.y")?.path; // "compiled"
    * ```
    */

@@ -13,7 +13,7 @@
  * ```ts
  * import { Notebook } from "../engine/engine.ts";
  * import { renderNotebookHtml } from "./html.ts";
- * const nb = Notebook.fromText("# Case\n\n~~~calc\nx = 2 mm\n~~~\n", "case.lentil.md");
+ * const nb = Notebook.fromText("# Case\n\n~~~lentil\nx = 2 mm\n~~~\n", "case.lentil.md");
  * const html = await renderNotebookHtml(nb, { evaluatedAt: new Date("2026-01-02T03:04:05Z") });
  * html.startsWith("<!doctype html>"); // true
  * ```
@@ -110,7 +110,7 @@ function header(nb: Notebook): string {
  * ```ts
  * import { Notebook } from "../engine/engine.ts";
  * import { renderNotebookBody } from "./html.ts";
- * const nb = Notebook.fromText("~~~calc\ncl = vertexPower(-10 D, 12 mm)\n~~~\n", "a.lentil.md");
+ * const nb = Notebook.fromText("~~~lentil\ncl = vertexPower(-10 D, 12 mm)\n~~~\n", "a.lentil.md");
  * renderNotebookBody(nb).html.includes('id="src-1"'); // true
  * ```
  */

@@ -3,7 +3,7 @@
  * with `@observablehq/plot` and a `linkedom` document (no browser, no script in the page).
  *
  * ````text
- * ```plot focus
+ * ```lentil plot focus
  * kind: curve
  * table: trials
  * x-axis: lens
@@ -34,7 +34,7 @@
  * import { Notebook } from "../engine/engine.ts";
  * import { renderPlot } from "./plot.ts";
  * const nb = Notebook.fromText(
- *   "~~~table t\nx | y\n1 | 2\n2 | 3\n~~~\n\n~~~plot\nkind: scatter\ntable: t\nx-axis: x\ny-axis: y\n~~~\n",
+ *   "~~~lentil table t\nx | y\n1 | 2\n2 | 3\n~~~\n\n~~~lentil plot\nkind: scatter\ntable: t\nx-axis: x\ny-axis: y\n~~~\n",
  *   "p.lentil.md",
  * );
  * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;
@@ -213,7 +213,7 @@ function rowsOf(columns: (Column | undefined)[], rowCount: number) {
  * ```ts
  * import { Notebook } from "../engine/engine.ts";
  * import { plotProblems } from "./plot.ts";
- * const nb = Notebook.fromText("~~~plot\nkind: pie\n~~~\n", "p.lentil.md");
+ * const nb = Notebook.fromText("~~~lentil plot\nkind: pie\n~~~\n", "p.lentil.md");
  * plotProblems(nb.doc.blocks[0] as never, nb)[0].message.includes("kind"); // true
  * ```
  */
@@ -230,7 +230,7 @@ export function plotProblems(block: PlotBlock, nb: Notebook): Diagnostic[] {
  * import { Notebook } from "../engine/engine.ts";
  * import { renderPlot } from "./plot.ts";
  * const nb = Notebook.fromText(
- *   "~~~table t\nv [D]\n1\n2\n2\n~~~\n\n~~~plot h\nkind: histogram\ntable: t\nx-axis: v\n~~~\n",
+ *   "~~~lentil table t\nv [D]\n1\n2\n2\n~~~\n\n~~~lentil plot h\nkind: histogram\ntable: t\nx-axis: v\n~~~\n",
  *   "h.lentil.md",
  * );
  * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;

@@ -9,18 +9,18 @@
  * ---
  * Prose in Markdown.
  *
- * ```calc
+ * ```lentil
  * vd = 13 mm                       # vertex distance measured at the fitting
  * cl = vertexPower(-6.50 D, vd)    # power at the cornea
  * trials.blur = lens - 0.25 D      # a computed column of table trials
  * ```
  *
- * ```table trials
+ * ```lentil table trials
  * lens [D] | va [logMAR]
  * +1.00    | 0.30
  * ```
  *
- * ```plot
+ * ```lentil plot
  * kind: line
  * table: trials
  * ```
@@ -32,7 +32,7 @@
  * @example
  * ```ts
  * import { parseNotebook } from "./parse.ts";
- * const nb = parseNotebook("~~~calc\nx = 2 D\n~~~\n", "a.lentil.md");
+ * const nb = parseNotebook("~~~lentil\nx = 2 D\n~~~\n", "a.lentil.md");
  * nb.cells[0].name; // "x"
  * ```
  *
@@ -358,7 +358,7 @@ export function optionValue(text: string): string {
  * @example
  * ```ts
  * import { parseNotebook } from "./parse.ts";
- * const nb = parseNotebook("~~~calc\nx = 1\nx = 2\n~~~\n", "dup.lentil.md");
+ * const nb = parseNotebook("~~~lentil\nx = 1\nx = 2\n~~~\n", "dup.lentil.md");
  * nb.diagnostics[0].message; // 'duplicate name "x" (first defined at line 2)'
  * ```
  */
@@ -459,7 +459,12 @@ export function parseNotebook(text: string, file: string): NotebookDoc {
       continue;
     }
     const marker = fence[1];
-    const kind = (fence[2] ?? "").toLowerCase();
+    // Lentil's blocks open with the word `lentil`, then `table NAME` or `plot NAME` for those
+    // kinds; every other fence is another language's and reads as prose.
+    const own = (fence[2] ?? "").toLowerCase() === "lentil";
+    const sub = own ? /^\s+(table|plot)\b(.*)$/i.exec(fence[3] ?? "") : null;
+    const kind = !own ? "" : sub ? sub[1].toLowerCase() : "calc";
+    if (sub) fence[3] = sub[2];
     // Find the closing fence.
     let j = i + 1;
     const closeRe = new RegExp(`^${marker[0] === "`" ? "`" : "~"}{${marker.length},}\\s*$`);
@@ -471,7 +476,13 @@ export function parseNotebook(text: string, file: string): NotebookDoc {
       continue;
     }
     if (!closed) {
-      diag(l.no, 1, `${kind} block opened here is never closed (add a line ${marker})`);
+      diag(
+        l.no,
+        1,
+        `${
+          kind === "calc" ? "lentil" : `lentil ${kind}`
+        } block opened here is never closed (add a line ${marker})`,
+      );
     }
     flushProse(l.start);
     const endLine = closed ? lines[j] : lines[lines.length - 1];
@@ -481,7 +492,13 @@ export function parseNotebook(text: string, file: string): NotebookDoc {
     const restCol = l.text.length - (fence[3] ?? "").trimStart().length + 1;
 
     if (kind === "calc") {
-      if (rest) diag(l.no, restCol, `unexpected text after calc: "${rest}"`);
+      if (rest) {
+        diag(
+          l.no,
+          restCol,
+          `unexpected text after lentil: "${rest}" (a table block opens with \`lentil table NAME\`, a plot with \`lentil plot NAME\`)`,
+        );
+      }
       const blockCells: CellDef[] = [];
       for (const bl of body) {
         const t = bl.text;
@@ -534,7 +551,7 @@ export function parseNotebook(text: string, file: string): NotebookDoc {
           restCol,
           rest
             ? `table name "${rest}" must be a single word of letters, digits or _`
-            : "a table block needs a name: ```table NAME",
+            : "a table block needs a name: ```lentil table NAME",
         );
       } else claim(name, l.no, restCol);
       const options: Record<string, OptionDef> = {};

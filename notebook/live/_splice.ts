@@ -66,9 +66,9 @@ function lineSpan(text: string, no: number): Span {
  * import { parseNotebook } from "../format/parse.ts";
  * import { expressionEdit, applyEdit } from "./_splice.ts";
  * const F = "`".repeat(3);
- * const text = F + "calc\nP = -4 D   # trial\n" + F + "\n";
+ * const text = F + "lentil\nP = -4 D   # trial\n" + F + "\n";
  * const cell = parseNotebook(text, "a").cells[0];
- * applyEdit(text, expressionEdit(cell.exprSpan, "-4.50 D")); // F + "calc\nP = -4.50 D   # trial\n" + F + "\n"
+ * applyEdit(text, expressionEdit(cell.exprSpan, "-4.50 D")); // F + "lentil\nP = -4.50 D   # trial\n" + F + "\n"
  * ```
  */
 export function expressionEdit(exprSpan: Span, expression: string): TextEdit {
@@ -83,9 +83,9 @@ export function expressionEdit(exprSpan: Span, expression: string): TextEdit {
  * import { parseNotebook, type CalcBlock } from "../format/parse.ts";
  * import { appendLineEdit, applyEdit } from "./_splice.ts";
  * const F = "`".repeat(3);
- * const text = F + "calc\nx = 1\n" + F + "\n";
+ * const text = F + "lentil\nx = 1\n" + F + "\n";
  * const block = parseNotebook(text, "a").blocks[0] as CalcBlock;
- * applyEdit(text, appendLineEdit(text, block, "y = x + 1")); // F + "calc\nx = 1\ny = x + 1\n" + F + "\n"
+ * applyEdit(text, appendLineEdit(text, block, "y = x + 1")); // F + "lentil\nx = 1\ny = x + 1\n" + F + "\n"
  * ```
  */
 export function appendLineEdit(text: string, block: CalcBlock, line: string): TextEdit {
@@ -150,9 +150,9 @@ export function formatRow(cells: readonly string[], headerText: string): string 
  * import { parseNotebook } from "../format/parse.ts";
  * import { applyEdit, tableRowsEdit } from "./_splice.ts";
  * const F = "`".repeat(3);
- * const text = F + "table t\nx | y\n1 | 2\n" + F + "\n";
+ * const text = F + "lentil table t\nx | y\n1 | 2\n" + F + "\n";
  * const tb = parseNotebook(text, "a").tables[0];
- * applyEdit(text, tableRowsEdit(text, tb, [["1", "2"], ["3", "4"]])); // F + "table t\nx | y\n1 | 2\n3 | 4\n" + F + "\n"
+ * applyEdit(text, tableRowsEdit(text, tb, [["1", "2"], ["3", "4"]])); // F + "lentil table t\nx | y\n1 | 2\n3 | 4\n" + F + "\n"
  * ```
  * @throws {Error} when the table has no header line (its rows live in a CSV file).
  */
@@ -229,7 +229,7 @@ export function tableRowsEdit(
  * import { parseNotebook } from "../format/parse.ts";
  * import { calcBlock } from "./_splice.ts";
  * const F = "`".repeat(3);
- * calcBlock(parseNotebook(F + "calc\nx = 1\n" + F + "\n", "a"), 0)?.cells.length; // 1
+ * calcBlock(parseNotebook(F + "lentil\nx = 1\n" + F + "\n", "a"), 0)?.cells.length; // 1
  * ```
  */
 export function calcBlock(doc: NotebookDoc, index: number): CalcBlock | undefined {
@@ -244,9 +244,9 @@ export function calcBlock(doc: NotebookDoc, index: number): CalcBlock | undefine
  * import { parseNotebook } from "../format/parse.ts";
  * import { applyEdit, optionValueEdit } from "./_splice.ts";
  * const F = "`".repeat(3);
- * const text = F + "table t\nfile: a.csv\n" + F + "\n";
+ * const text = F + "lentil table t\nfile: a.csv\n" + F + "\n";
  * const opt = parseNotebook(text, "n").tables[0].options.file;
- * applyEdit(text, optionValueEdit(text, opt, "b.csv")); // F + "table t\nfile: b.csv\n" + F + "\n"
+ * applyEdit(text, optionValueEdit(text, opt, "b.csv")); // F + "lentil table t\nfile: b.csv\n" + F + "\n"
  * ```
  */
 export function optionValueEdit(

@@ -26,7 +26,7 @@ export const evalCommand: Command = {
       io.err("eval takes one expression on one line");
       return Promise.resolve(2);
     }
-    const nb = Notebook.fromText("```calc\nresult = " + expr + "\n```\n", "<eval>");
+    const nb = Notebook.fromText("```lentil\nresult = " + expr + "\n```\n", "<eval>");
     const report = buildReport(nb);
     const cell = report.cells[0];
     if (!cell) {

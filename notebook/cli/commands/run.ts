@@ -30,7 +30,7 @@ function otherProblems(nb: Notebook, report: Report): Diagnostic[] {
  * import { Notebook } from "../../engine/engine.ts";
  * import { buildReport } from "../../report.ts";
  * import { renderReportText } from "./run.ts";
- * const text = renderReportText(buildReport(Notebook.fromText("~~~calc\nx = 2 mm\n~~~\n", "x")), "x");
+ * const text = renderReportText(buildReport(Notebook.fromText("~~~lentil\nx = 2 mm\n~~~\n", "x")), "x");
  * text.includes("x = 2.00 mm"); // true
  * ```
  */
