@@ -29,6 +29,48 @@ export interface DisplayOptions {
 /** The defaults: powers in 0.25 D steps. */
 export const DEFAULT_DISPLAY: DisplayOptions = { powerStep: 0.25 };
 
+/**
+ * One part of a value: a named, labelled piece read under the headline (a record's field, a
+ * check's line). Every part listed here is reachable from a later cell as `cell.key`.
+ */
+export interface ValuePart {
+  /** The name a later cell uses to read it (`mpmva.endpoint`); a plain identifier. */
+  readonly key: string;
+  /** The label in words ("at the cornea", "limits of agreement"), never a code word. */
+  readonly label: string;
+  /** The part's value in the formula language: a quantity, number, text or typed value. */
+  readonly value: unknown;
+  /** Display text; when omitted the value displays by the rule for its own kind. */
+  readonly display?: string;
+}
+
+/** The verdict of one line of a check. */
+export type CheckVerdict = "pass" | "fail" | "not checked";
+
+/**
+ * One line of a check against a standard or a limit (a lens or a pair against its
+ * tolerance, an imbalance against a limit): read as a table row
+ * quantity | ordered | measured | deviation | tolerance | verdict.
+ */
+export interface CheckLine {
+  /** What is checked, in words ("sphere", "vertical prism imbalance"). */
+  readonly quantity: string;
+  /** The ordered value as displayed ("" when the check has none). */
+  readonly ordered: string;
+  /** The measured value as displayed. */
+  readonly measured: string;
+  /** Measured − ordered, signed, as displayed (the one convention everywhere). */
+  readonly deviation: string;
+  /** The tolerance as displayed ("±0.13 D", "at most 0.33 Δ"). */
+  readonly tolerance: string;
+  /** The verdict. */
+  readonly verdict: CheckVerdict;
+  /** The clause of the standard or the rule that sets the tolerance. */
+  readonly clause?: string;
+  /** A short remark in words (how far inside or beyond the limit, which rule accepted it). */
+  readonly remark?: string;
+}
+
 /** The declaration of one value type. */
 export interface ValueType<T = unknown> {
   /** Name used in parameter declarations and table headers (`[rx]`). */
@@ -45,6 +87,15 @@ export interface ValueType<T = unknown> {
   json(x: T): unknown;
   /** Unit label shown beside the value, if any. */
   unit?(x: T): string;
+  /**
+   * The line a practitioner reads first (`PASS`, `+1.75 D`, `-4.00 / -0.75 × 175`); when
+   * omitted, `display` is the headline.
+   */
+  headline?(x: T, options: DisplayOptions): string;
+  /** The parts read under the headline, in order, each labelled in words. */
+  parts?(x: T, options: DisplayOptions): readonly ValuePart[];
+  /** For a check: its lines, read as a table with the verdict of each. */
+  checks?(x: T, options: DisplayOptions): readonly CheckLine[];
 }
 
 const registry = new Map<string, ValueType>();
