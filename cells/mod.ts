@@ -12,6 +12,15 @@
  */
 
 import { buildCatalogue, type Catalogue } from "./catalogue.ts";
+
+export type {
+  BuiltinType,
+  Catalogue,
+  ConstantSpec,
+  FormulaSpec,
+  ParamSpec,
+  ReturnSpec,
+} from "./catalogue.ts";
 import { CORE_CONSTANTS, CORE_FORMULAS } from "./core.ts";
 import { RX_FORMULAS } from "./rx.ts";
 import { PRISM_FORMULAS } from "./prism.ts";

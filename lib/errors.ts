@@ -13,7 +13,15 @@
 
 /** A value outside the range a method accepts (axis 181, pupil 12 mm, index 2.3, …). */
 export class LentilRangeError extends RangeError {
-  /** @param what the quantity, as a user would name it; @param value the value given. */
+  /**
+   * An error naming the quantity, the value given and the accepted range.
+   *
+   * @param what the quantity, as a user would name it
+   * @param value the value given
+   * @param min the smallest accepted value
+   * @param max the largest accepted value
+   * @param unit the unit of all three, if any
+   */
   constructor(
     readonly what: string,
     readonly value: number,
@@ -34,8 +42,11 @@ export class LentilRangeError extends RangeError {
 /** Text that does not parse as the notation expected (a prescription, an acuity, …). */
 export class LentilParseError extends SyntaxError {
   /**
-   * @param input the text that failed; @param expected what was expected there;
-   * @param offset zero-based character offset of the offending part, when known.
+   * An error naming the text, what was expected and where it went wrong.
+   *
+   * @param input the text that failed
+   * @param expected what was expected there
+   * @param offset zero-based character offset of the offending part, when known
    */
   constructor(readonly input: string, readonly expected: string, readonly offset?: number) {
     super(
@@ -49,7 +60,11 @@ export class LentilParseError extends SyntaxError {
 
 /** Inputs that are each valid but cannot be used together (a set smaller than the letters needed, …). */
 export class LentilInputError extends Error {
-  /** @param message what is wrong and what to do about it. */
+  /**
+   * An error with a message a user can act on.
+   *
+   * @param message what is wrong and what to do about it
+   */
   constructor(message: string) {
     super(message);
     this.name = "LentilInputError";

@@ -174,7 +174,11 @@ export class RunningMoments {
   #min: Float64Array;
   #max: Float64Array;
 
-  /** @param k number of variables observed together. */
+  /**
+   * Running moments of `k` variables observed together.
+   *
+   * @param k number of variables observed together
+   */
   constructor(readonly k: number) {
     this.#mean = new Float64Array(k);
     this.#co = new Float64Array(k * k);

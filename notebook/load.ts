@@ -24,7 +24,12 @@ export type LoadResult =
 
 /** A notebook file that cannot be opened (missing, a folder, not readable). */
 export class NotebookFileError extends Error {
-  /** @param path the file; @param message why. */
+  /**
+   * An error naming the notebook file and why it cannot be opened.
+   *
+   * @param path the file
+   * @param message why it cannot be opened
+   */
   constructor(readonly path: string, message: string) {
     super(message);
     this.name = "NotebookFileError";

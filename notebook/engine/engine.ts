@@ -120,9 +120,15 @@ export interface CellResult {
 export interface NotebookOptions {
   /** Reads CSV files beside the notebook (default: none, so `file:` tables fail). */
   readonly host?: TableHost;
-  /** Language instance (default: the shared one). */
+  /**
+   * Language instance (default: the shared one).
+   * @ignore
+   */
   readonly language?: Language;
-  /** CSV tables already read (by {@linkcode Notebook.load}), by table name. */
+  /**
+   * CSV tables already read (by {@linkcode Notebook.load}), by table name.
+   * @ignore
+   */
   readonly tables?: ReadonlyMap<string, PreparedTable>;
   /**
    * Lines whose bytes are not UTF-8 (from `decodeNotebookLenient`): reported, and a cell or
@@ -131,7 +137,10 @@ export interface NotebookOptions {
   readonly encoding?: readonly Diagnostic[];
 }
 
-/** A CSV table read before the notebook is built. */
+/**
+ * A CSV table read before the notebook is built.
+ * @ignore
+ */
 export interface PreparedTable {
   /** Header columns. */
   readonly columns: readonly ColumnDef[];
@@ -325,7 +334,10 @@ export class Notebook {
     this.#analyseAll();
   }
 
-  /** The language the notebook evaluates in. */
+  /**
+   * The language the notebook evaluates in.
+   * @ignore
+   */
   get language(): Language {
     return this.#lang;
   }
@@ -877,7 +889,10 @@ export class Notebook {
     ) => (a.file === b.file ? a.line - b.line || a.col - b.col : a.file < b.file ? -1 : 1));
   }
 
-  /** The dependency graph (for tests and tools). */
+  /**
+   * The dependency graph (for tests and tools).
+   * @ignore
+   */
   get graph(): DependencyGraph {
     return this.#graph;
   }
