@@ -46,12 +46,7 @@ import { Notebook, type NotebookOptions } from "./engine/engine.ts";
 import type { ExportedPage, PageOptions } from "./export/html.ts";
 
 export { Notebook } from "./engine/engine.ts";
-export type {
-  CellError,
-  CellResult,
-  ErrorKind,
-  NotebookOptions,
-} from "./engine/engine.ts";
+export type { CellError, CellResult, ErrorKind, NotebookOptions } from "./engine/engine.ts";
 export { loadNotebook, NotebookFileError, notebookFromBytes } from "./load.ts";
 export type { LoadResult } from "./load.ts";
 export { buildReport } from "./report.ts";
