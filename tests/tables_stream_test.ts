@@ -140,7 +140,11 @@ Deno.test("a bad row stops the stream by default; with skip it is excluded and c
   assert.equal(stop.ok, false);
   assert.match(stop.stopped!, /^bad row 18: column sph: "abc" is not a number/);
   await assert.rejects(() => Deno.stat(join(dir, "a.csv")), Deno.errors.NotFound);
-  await assert.rejects(() => Deno.stat(join(dir, "a.csv.part")), Deno.errors.NotFound);
+  assert.deepEqual((await Array.fromAsync(Deno.readDir(dir))).map((e) => e.name).sort(), [
+    "eyes.csv",
+    "skip.lentil.md",
+    "stop.lentil.md",
+  ]); // no temporary file left behind
   const skip = await streamNotebook(join(dir, "skip.lentil.md"), { out: join(dir, "b.csv") });
   assert.equal(skip.ok, true);
   assert.equal(skip.excluded, 2);
@@ -183,4 +187,29 @@ Deno.test("a computed column that fails on the data stops the stream with its re
   assert.equal(r.ok, false);
   assert.match(r.stopped!, /computed column cohort\.r: row 1: round of a quantity needs the unit/);
   assert.ok(r.cautions.length > 0); // vertexPower can feed the fitting of a lens
+});
+
+Deno.test("the temporary output never replaces an input named like it (res.part and --out res)", async () => {
+  // common practice, no source: an output is written to a temporary file and renamed
+  const data = csv(3000);
+  const nb = NOTEBOOK().replace("file: eyes.csv", "file: res.part") +
+    "~~~lentil table other\nfile: other.part\n~~~\n";
+  const dir = await folder({ "s.lentil.md": nb, "res.part": data, "other.part": data });
+  const r = await streamNotebook(join(dir, "s.lentil.md"), {
+    out: join(dir, "res"),
+    table: "eyes",
+    chunkRows: 500,
+  });
+  assert.equal(r.ok, true, r.stopped);
+  assert.equal(await Deno.readTextFile(join(dir, "res.part")), data); // the input is untouched
+  assert.equal(await Deno.readTextFile(join(dir, "other.part")), data);
+  const written = parse(await Deno.readTextFile(join(dir, "res")), { columns: true });
+  assert.equal(written.length, 3000);
+  const names = (await Array.fromAsync(Deno.readDir(dir))).map((e) => e.name).sort();
+  assert.deepEqual(names, ["other.part", "res", "res.part", "s.lentil.md"]);
+  // An output that is another table's file is refused too.
+  await assert.rejects(
+    () => streamNotebook(join(dir, "s.lentil.md"), { out: join(dir, "other.part"), table: "eyes" }),
+    /refusing to write over the input/,
+  );
 });

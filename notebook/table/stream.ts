@@ -12,8 +12,8 @@
  * and are not computed (never approximated); other cells that read the streamed table are
  * reported as not available. Cells that do not read it evaluate as usual.
  *
- * The output is written beside as `OUT.part` and renamed when the run completes; it never
- * replaces the input, and an existing output is replaced only when asked.
+ * The output is written to a fresh temporary file in its folder (a random name that is none of
+ * the files the notebook reads) and renamed when the run completes; it never replaces an input, and an existing output is replaced only when asked.
  *
  * @module
  */
@@ -40,6 +40,7 @@ import { toPowerVector } from "../../lib/power_vector.ts";
 import { parseNotebook, type TableBlock } from "../format/parse.ts";
 import { Notebook } from "../engine/engine.ts";
 import { CAUTIONS } from "../../shared/cautions.ts";
+import { createTempBeside } from "./_temp.ts";
 import { type ColumnPlan, planColumn } from "../engine/_columns.ts";
 import {
   CsvReadError,
@@ -344,9 +345,15 @@ export async function streamNotebook(
   const dir = dirname(path);
   const input = join(dir, block.options.file!.value);
   const out = options.out;
+  // Every file the notebook reads: the output and its temporary file must be none of them.
+  const inputs = fileTables.map((t) => join(dir, t.options.file!.value));
   if (out) {
-    if (await sameFile(out, input)) {
-      throw new StreamSetupError(`refusing to write over the input ${input}; choose another --out`);
+    for (const read of inputs) {
+      if (await sameFile(out, read)) {
+        throw new StreamSetupError(
+          `refusing to write over the input ${read}; choose another --out`,
+        );
+      }
     }
     let exists = false;
     try {
@@ -457,10 +464,9 @@ export async function streamNotebook(
   }
 
   // Output.
-  const part = out ? `${out}.part` : undefined;
-  const sink = part
-    ? await Deno.open(part, { write: true, create: true, truncate: true })
-    : undefined;
+  const temp = out ? await createTempBeside(out, inputs) : undefined;
+  const part = temp?.path;
+  const sink = temp?.file;
   const writer = sink;
   const enc = new TextEncoder();
   let wroteHeader = false;
@@ -548,11 +554,15 @@ export async function streamNotebook(
   } catch (e) {
     if (e instanceof CsvReadError) stopped = e.problem.message;
     else if (e instanceof ColumnStreamError) stopped = e.message;
-    else throw e;
+    else {
+      writer?.close();
+      if (part) await Deno.remove(part).catch(() => {});
+      throw e;
+    }
   } finally {
     await rest.return?.();
-    if (writer) writer.close();
   }
+  writer?.close();
   const problems = [...builder.problems];
   if (stopped && !problems.some((p) => stopped!.includes(p.message))) {
     problems.push({ file: input, line: 0, col: 0, message: stopped });
