@@ -1,5 +1,5 @@
 /**
- * Statistics over table columns in the formula language: ordinary summaries of any numeric
+ * Statistics over table columns in the formula language: sample statistics of any numeric
  * column, refraction summaries through power vectors (mean prescription, SDs and
  * covariances of M, J0, J45, the 95% ellipse of J0 against J45), Bland–Altman agreement
  * of paired columns, summaries by group, and the per-row power-vector components (which
@@ -23,7 +23,13 @@ import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts"
 import { Column } from "./table.ts";
 import { markExact, quantity, quantityParts, toNumberIn } from "./quantity.ts";
 import { rxValue } from "./rx.ts";
-import { defineValueType, type DisplayOptions, getValueType, typeOfValue } from "./types.ts";
+import {
+  defineValueType,
+  type DisplayOptions,
+  getValueType,
+  typeOfValue,
+  type ValuePart,
+} from "./types.ts";
 import { formatNumber, formatQuantity, signed } from "./display.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
 import { CYLINDER_RANGE, SPHERE_RANGE } from "../lib/prescription.ts";
@@ -32,9 +38,9 @@ import {
   checkPaired,
   quantileSorted,
   RunningMoments,
+  type SampleStats,
+  sampleStats,
   sortedValues,
-  summarise,
-  type Summary,
   type VectorSummary,
   vectorSummary,
 } from "../lib/stats.ts";
@@ -45,27 +51,75 @@ import { ellipseOf } from "../lib/ellipse.ts";
  * Records of statistics. They stay plain records (fields read as `s.sd`, quantities kept for
  * arithmetic) but are shown as statistics, not as lens powers: dioptric values exact (two
  * decimals, three below 0.1 D) rather than rounded to the notebook's power step, and spreads
- * (SDs, semi-axes) without a sign.
+ * (SDs, semi-axes) without a sign. Each field is a part with a label in words.
  */
-const STAT_RECORDS = new WeakSet<object>();
+const STAT_RECORDS = new WeakMap<object, StatShape>();
+
+/** How one kind of statistics record reads: its headline and its display line. */
+interface StatShape {
+  readonly headline?: (r: Record<string, unknown>, options: DisplayOptions) => string;
+  readonly display?: (r: Record<string, unknown>, options: DisplayOptions) => string;
+}
 
 /** Keys of spreads: never negative, shown without a sign. */
 const SPREAD_KEYS = new Set(["sd", "sdM", "sdJ0", "sdJ45", "semiMajor", "semiMinor"]);
 
+/** Labels in words of the parts of statistics records, by key. */
+const PART_LABELS: Record<string, string> = {
+  n: "number of values",
+  missing: "empty cells left out",
+  mean: "mean",
+  sd: "standard deviation",
+  median: "median",
+  lowest: "lowest",
+  highest: "highest",
+  lowerQuartile: "lower quartile",
+  upperQuartile: "upper quartile",
+  rx: "mean prescription",
+  M: "mean M (spherical equivalent)",
+  J0: "mean J0",
+  J45: "mean J45",
+  meanM: "mean M (spherical equivalent)",
+  meanJ0: "mean J0",
+  meanJ45: "mean J45",
+  sdM: "standard deviation of M",
+  sdJ0: "standard deviation of J0",
+  sdJ45: "standard deviation of J45",
+  covMJ0: "covariance of M and J0 (D²)",
+  covMJ45: "covariance of M and J45 (D²)",
+  covJ0J45: "covariance of J0 and J45 (D²)",
+  region: "region",
+  centreJ0: "centre, J0",
+  centreJ45: "centre, J45",
+  semiMajor: "major semi-axis",
+  semiMinor: "minor semi-axis",
+  angle: "angle of the major axis",
+  bias: "mean difference (bias)",
+  lower: "lower limit of agreement",
+  upper: "upper limit of agreement",
+  note: "note",
+};
+
+/** The label in words of a statistics part (its key spelt out when none is declared). */
+export function partLabel(key: string): string {
+  return PART_LABELS[key] ?? key.replace(/([a-z0-9])([A-Z])/g, "$1 $2").toLowerCase();
+}
+
 /**
  * Mark a record as statistics, so its parts display as measures (SDs unsigned, figures
- * exact) rather than lens powers; returns it.
+ * exact) rather than lens powers, labelled in words; returns it.
  */
-export function statRecord<T extends Record<string, unknown>>(record: T): T {
-  STAT_RECORDS.add(record);
+export function statRecord<T extends Record<string, unknown>>(record: T, shape: StatShape = {}): T {
+  STAT_RECORDS.set(record, shape);
   return record;
 }
 
-function showStat(key: string, v: unknown, options: DisplayOptions): string {
+/** A statistic as displayed: exact figures, spreads unsigned, nothing shown as NaN. */
+export function showStat(key: string, v: unknown, options: DisplayOptions): string {
   const q = quantityParts(v);
   if (q) {
+    if (!Number.isFinite(q.value)) return "not available";
     if (q.unit !== "D") return formatQuantity(q.value, q.unit);
-    if (!Number.isFinite(q.value)) return `${q.value} D`;
     // Two decimals as powers are written; three for small values (a mean's ellipse, a bias).
     const x = Math.round(q.value * 1000) / 1000;
     if (x !== 0 && Math.abs(x) < 0.1) {
@@ -74,7 +128,7 @@ function showStat(key: string, v: unknown, options: DisplayOptions): string {
     }
     return SPREAD_KEYS.has(key) ? `${Math.abs(q.value).toFixed(2)} D` : `${signed(q.value)} D`;
   }
-  if (typeof v === "number") return formatNumber(v);
+  if (typeof v === "number") return Number.isFinite(v) ? formatNumber(v) : "not available";
   if (typeof v === "string") return v;
   const t = typeOfValue(v);
   return t ? t.display(v, options) : String(v);
@@ -82,18 +136,32 @@ function showStat(key: string, v: unknown, options: DisplayOptions): string {
 
 function statJson(v: unknown): unknown {
   const q = quantityParts(v);
-  if (q) return q.value;
+  if (q) return Number.isFinite(q.value) ? q.value : null;
+  if (typeof v === "number") return Number.isFinite(v) ? v : null;
   if (v === null || typeof v !== "object") return v;
   const t = typeOfValue(v);
   return t ? t.json(v) : v;
 }
 
+const statParts = (r: Record<string, unknown>, options: DisplayOptions): ValuePart[] =>
+  Object.entries(r).map(([key, value]) => ({
+    key,
+    label: partLabel(key),
+    value,
+    display: showStat(key, value, options),
+  }));
+
+const statDisplay = (r: Record<string, unknown>, options: DisplayOptions) =>
+  STAT_RECORDS.get(r)?.display?.(r, options) ??
+    statParts(r, options).map((p) => `${p.label}: ${p.display}`).join(", ");
+
 defineValueType<Record<string, unknown>>({
   name: "statistics",
   summary: "a record of statistics (means, SDs, limits) with units",
   is: (x): x is Record<string, unknown> => STAT_RECORDS.has(x as object),
-  display: (r, options) =>
-    Object.entries(r).map(([k, v]) => `${k}: ${showStat(k, v, options)}`).join(", "),
+  display: statDisplay,
+  headline: (r, options) => STAT_RECORDS.get(r)?.headline?.(r, options) ?? statDisplay(r, options),
+  parts: statParts,
   json: (r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, statJson(v)])),
 });
 
@@ -186,19 +254,72 @@ export function refractionArrays(
   return { sph, cyl, axis };
 }
 
-/** A summary as a record of the language (quantities in `unit`). */
-export function summaryRecord(s: Summary, unit: string): Record<string, unknown> {
-  return statRecord({
-    count: s.count,
+/** Figures of sample statistics; the order statistics are absent when not computed. */
+export type SampleStatsFigures =
+  & Pick<SampleStats, "n" | "missing" | "mean" | "sd">
+  & Partial<Omit<SampleStats, "n" | "missing" | "mean" | "sd">>;
+
+const ORDER_KEYS = ["median", "lowest", "highest", "lowerQuartile", "upperQuartile"] as const;
+
+/**
+ * How a paper's table prints sample statistics: n, mean ± SD, range, IQR (and the median).
+ * Nothing not computed is shown as a number.
+ */
+function sampleStatsLine(r: Record<string, unknown>, options: DisplayOptions): string {
+  const show = (k: string) => showStat(k, r[k], options);
+  const two = (a: string, sep: string, b: string) => joinShared(show(a), sep, show(b));
+  const has = (k: string) => r[k] !== undefined && Number.isFinite(toNumber(r[k]));
+  const out = [`n ${r.n}`];
+  if (r.missing) out.push(`${r.missing} empty left out`);
+  if (has("mean")) {
+    out.push(has("sd") ? `mean ± SD ${two("mean", " ± ", "sd")}` : `mean ${show("mean")}`);
+  }
+  if (has("median")) out.push(`median ${show("median")}`);
+  if (has("lowest") && has("highest")) out.push(`range ${two("lowest", " to ", "highest")}`);
+  if (has("lowerQuartile") && has("upperQuartile")) {
+    out.push(`IQR ${two("lowerQuartile", " to ", "upperQuartile")}`);
+  }
+  if (typeof r.note === "string") out.push(r.note);
+  return out.join("; ");
+}
+
+/** Two displayed figures joined, their shared unit written once ("-1.44 ± 0.43 D"). */
+export function joinShared(a: string, sep: string, b: string): string {
+  const unit = / [^\d\s]+$/.exec(b)?.[0];
+  return unit && a.endsWith(unit) ? `${a.slice(0, -unit.length)}${sep}${b}` : `${a}${sep}${b}`;
+}
+
+function sampleStatsHeadline(r: Record<string, unknown>, options: DisplayOptions): string {
+  const show = (k: string) => showStat(k, r[k], options);
+  if (!Number.isFinite(toNumber(r.mean))) return `n ${r.n}, no mean`;
+  return Number.isFinite(toNumber(r.sd))
+    ? `${joinShared(show("mean"), " ± ", show("sd"))} (n ${r.n})`
+    : `${show("mean")} (n ${r.n})`;
+}
+
+function toNumber(v: unknown): number {
+  const q = quantityParts(v);
+  return q ? q.value : typeof v === "number" ? v : NaN;
+}
+
+/**
+ * Sample statistics as a record of the language (quantities in `unit`): n, missing, mean,
+ * sd, median, lowest, highest, lowerQuartile, upperQuartile; `note` says what is left out.
+ */
+export function sampleStatsRecord(
+  s: SampleStatsFigures,
+  unit: string,
+  note?: string,
+): Record<string, unknown> {
+  const record: Record<string, unknown> = {
+    n: s.n,
     missing: s.missing,
     mean: qty(s.mean, unit),
     sd: qty(s.sd, unit),
-    min: qty(s.min, unit),
-    q1: qty(s.q1, unit),
-    median: qty(s.median, unit),
-    q3: qty(s.q3, unit),
-    max: qty(s.max, unit),
-  });
+  };
+  for (const k of ORDER_KEYS) if (s[k] !== undefined) record[k] = qty(s[k]!, unit);
+  if (note) record.note = note;
+  return statRecord(record, { headline: sampleStatsHeadline, display: sampleStatsLine });
 }
 
 function unitOf(c: Column): string {
@@ -395,29 +516,33 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
       ),
   }),
   defineFormula({
-    name: "summary",
+    name: "sampleStats",
     group: "statistics",
     summary:
-      "Count, missing, mean, SD, minimum, quartiles, median and maximum of a numeric column.",
+      "Sample statistics of a numeric column as a paper's table prints them: n, mean ± SD, median, range and interquartile range.",
     params: [COL("column", "a numeric column")],
-    returns: { type: "any", doc: "a record of the summaries" },
+    returns: {
+      type: "any",
+      doc: "n, missing, mean, sd, median, lowest, highest, lowerQuartile, upperQuartile",
+    },
     sources: STAT_SOURCES,
-    example: "summary([-1.25 D, -1.5 D, -1 D, -2 D])",
-    fn: (c) => summaryRecord(summarise(columnNumbers(C(c))), unitOf(C(c))),
+    example: "sampleStats([-1.25 D, -1.5 D, -1 D, -2 D])",
+    fn: (c) => sampleStatsRecord(sampleStats(columnNumbers(C(c))), unitOf(C(c))),
   }),
   defineFormula({
-    name: "summaryBy",
+    name: "sampleStatsBy",
     group: "statistics",
-    summary: "The summary of a numeric column for each value of a grouping column (eye, visit, …).",
+    summary:
+      "The sample statistics of a numeric column for each value of a grouping column (eye, visit, …).",
     params: [COL("column", "a numeric column"), COL("by", "the grouping column")],
-    returns: { type: "any", doc: "a record: group → summary" },
+    returns: { type: "any", doc: "a record: group → sample statistics" },
     sources: STAT_SOURCES,
-    example: 'summaryBy([0.1, 0.2, 0.0, 0.3], ["R", "L", "R", "L"])',
+    example: 'sampleStatsBy([0.1, 0.2, 0.0, 0.3], ["R", "L", "R", "L"])',
     fn: (c, g) => {
       const xs = columnNumbers(C(c));
       const out: Record<string, unknown> = {};
       for (const [k, rows] of groups(C(g, "by"), xs.length)) {
-        out[k] = summaryRecord(summarise(pick(xs, rows)), unitOf(C(c)));
+        out[k] = sampleStatsRecord(sampleStats(pick(xs, rows)), unitOf(C(c)));
       }
       return out;
     },

@@ -1,5 +1,5 @@
 /**
- * Ordinary summaries of a column of numbers (count, mean, sample SD, median, quantiles) and
+ * Sample statistics of a column of numbers (n, mean, sample SD, median, quantiles) and
  * one-pass running moments (Welford's update, with co-moments for covariance) for data too
  * large to hold. Empty cells (NaN) are left out and counted apart.
  *
@@ -12,8 +12,8 @@
  *
  * @example
  * ```ts
- * import { summarise } from "./stats.ts";
- * summarise([1, 2, 3, 4]).median; // 2.5
+ * import { sampleStats } from "./stats.ts";
+ * sampleStats([1, 2, 3, 4]).median; // 2.5
  * ```
  *
  * @module
@@ -26,26 +26,26 @@ import type { SpheroCylinder } from "./spherocylinder.ts";
 /** A list of numbers: a typed array or a plain array. */
 export type Numbers = ArrayLike<number>;
 
-/** The ordinary summary of a column. */
-export interface Summary {
+/** The sample statistics of a column (the figures a paper's table prints). */
+export interface SampleStats {
   /** Values counted (empty cells left out). */
-  readonly count: number;
+  readonly n: number;
   /** Empty cells (NaN) left out. */
   readonly missing: number;
-  /** Arithmetic mean (NaN when count is 0). */
+  /** Arithmetic mean (NaN when n is 0). */
   readonly mean: number;
-  /** Sample standard deviation, n − 1 in the denominator (NaN when count < 2). */
+  /** Sample standard deviation, n − 1 in the denominator (NaN when n < 2). */
   readonly sd: number;
   /** Smallest value. */
-  readonly min: number;
-  /** First quartile (definition 7). */
-  readonly q1: number;
+  readonly lowest: number;
+  /** Lower quartile (definition 7). */
+  readonly lowerQuartile: number;
   /** Median. */
   readonly median: number;
-  /** Third quartile (definition 7). */
-  readonly q3: number;
+  /** Upper quartile (definition 7). */
+  readonly upperQuartile: number;
   /** Largest value. */
-  readonly max: number;
+  readonly highest: number;
 }
 
 /**
@@ -125,29 +125,29 @@ export function meanAndVariance(xs: Numbers): { count: number; mean: number; var
 }
 
 /**
- * The ordinary summary of a list: count, mean, sample SD, min, quartiles, median, max.
+ * The sample statistics of a list: n, mean, sample SD, lowest, quartiles, median, highest.
  * Sources: welford-1962, hyndman-fan-1996.
  *
  * @example
  * ```ts
- * import { summarise } from "./stats.ts";
- * summarise([1, 2, 3, NaN]).missing; // 1
+ * import { sampleStats } from "./stats.ts";
+ * sampleStats([1, 2, 3, NaN]).missing; // 1
  * ```
  */
-export function summarise(xs: Numbers): Summary {
+export function sampleStats(xs: Numbers): SampleStats {
   const { values, missing } = sortedValues(xs);
   const { mean, variance } = meanAndVariance(values);
   const n = values.length;
   return {
-    count: n,
+    n,
     missing,
     mean,
     sd: Math.sqrt(variance),
-    min: n ? values[0] : NaN,
-    q1: quantileSorted(values, 0.25),
+    lowest: n ? values[0] : NaN,
+    lowerQuartile: quantileSorted(values, 0.25),
     median: quantileSorted(values, 0.5),
-    q3: quantileSorted(values, 0.75),
-    max: n ? values[n - 1] : NaN,
+    upperQuartile: quantileSorted(values, 0.75),
+    highest: n ? values[n - 1] : NaN,
   };
 }
 

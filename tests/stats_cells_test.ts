@@ -33,11 +33,11 @@ Deno.test("meanRx of +1.00 × 180 and +1.00 × 90 is a sphere of +0.50 D", () =>
   close(num(m.J0), 0);
 });
 
-Deno.test("summary of a column matches simple-statistics; summaryBy groups by eye", () => {
+Deno.test("sampleStats of a column matches simple-statistics; sampleStatsBy groups by eye", () => {
   // checked against simple-statistics
   const nb = run([
-    "s = summary(visits.va)",
-    "byEye = summaryBy(visits.va, visits.eye)",
+    "s = sampleStats(visits.va)",
+    "byEye = sampleStatsBy(visits.va, visits.eye)",
     "n = countOf(visits.va)",
     "q = quantileOf(visits.va, 0.5)",
   ]);
@@ -46,6 +46,11 @@ Deno.test("summary of a column matches simple-statistics; summaryBy groups by ey
   close(s.mean as number, ss.mean(va));
   close(s.sd as number, ss.sampleStandardDeviation(va));
   close(s.median as number, ss.median(va));
+  close(s.lowest as number, ss.min(va));
+  close(s.highest as number, ss.max(va));
+  close(s.lowerQuartile as number, ss.quantile(va, 0.25));
+  close(s.upperQuartile as number, ss.quantile(va, 0.75));
+  assert.equal(s.n, 4);
   assert.equal(nb.value("n"), 4);
   close(nb.value("q") as number, ss.median(va));
   const by = nb.value("byEye") as Record<string, Record<string, unknown>>;
@@ -115,23 +120,48 @@ Deno.test("statistics read as statistics: SDs unsigned, exact figures, ellipses 
   // Display convention: common practice, no source. A standard deviation or a semi-axis is
   // never negative and is no lens power, so it carries no sign and no power-step rounding.
   const nb = run([
-    "s = summary([-1.25 D, -1.5 D, -1 D, -2 D])",
+    "s = sampleStats([-1.25 D, -1.5 D, -1 D, -2 D])",
     "v = vectorStats(visits.sph, visits.cyl, visits.axis)",
     "ell = ellipse95(visits.sph, visits.cyl, visits.axis)",
     "eyes = spread95(visits.sph, visits.cyl, visits.axis)",
     "agree = agreement(visits.sph, visits.sphB)",
   ]);
   const shown = (name: string) => lang.describe(nb.value(name)).display;
-  assert.match(shown("s"), /mean: -1\.44 D, sd: 0\.43 D/);
+  // as a paper's table prints it: n, mean ± SD, range, IQR
+  assert.equal(
+    shown("s"),
+    "n 4; mean ± SD -1.44 ± 0.43 D; median -1.38 D; range -2.00 to -1.00 D; IQR -1.63 to -1.19 D",
+  );
   assert.doesNotMatch(shown("s"), /exact|\+0\.43/);
-  assert.match(shown("v"), /sdM: \d\.\d\d\d? D/);
-  assert.doesNotMatch(shown("v"), /sd\w*: [+-]|exact/);
+  assert.match(shown("v"), /standard deviation of M: \d\.\d\d\d? D/);
+  assert.doesNotMatch(shown("v"), /standard deviation[\w ]*: [+-]|exact/);
   assert.match(shown("ell"), /^region: 95% confidence ellipse of the mean/);
   assert.match(shown("eyes"), /^region: ellipse expected to hold 95% of eyes/);
-  assert.match(shown("ell"), /semiMajor: \d\.\d\d\d? D, semiMinor: \d\.\d\d\d? D/);
-  assert.match(shown("agree"), /bias: [+-]?\d\.\d\d\d? D, sd: \d\.\d\d\d? D, lower: -/);
-  // the fields are still quantities for arithmetic
+  assert.match(
+    shown("ell"),
+    /major semi-axis: \d\.\d\d\d? D, minor semi-axis: \d\.\d\d\d? D/,
+  );
+  assert.match(
+    shown("agree"),
+    /bias\): [+-]?\d\.\d\d\d? D, standard deviation: \d\.\d\d\d? D, lower limit of agreement: -/,
+  );
+  // the fields are still quantities for arithmetic, and parts labelled in words
   const s = nb.value("s") as Record<string, unknown>;
+  const t = getValueType("statistics")!;
+  const parts = t.parts!(s, { powerStep: 0.25 });
+  assert.deepEqual(parts.map((p) => p.key), [
+    "n",
+    "missing",
+    "mean",
+    "sd",
+    "median",
+    "lowest",
+    "highest",
+    "lowerQuartile",
+    "upperQuartile",
+  ]);
+  assert.equal(parts.find((p) => p.key === "upperQuartile")!.label, "upper quartile");
+  assert.equal(t.headline!(s, { powerStep: 0.25 }), "-1.44 ± 0.43 D (n 4)");
   close(num(s.sd), ss.sampleStandardDeviation([-1.25, -1.5, -1, -2]));
 });
 

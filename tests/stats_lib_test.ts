@@ -6,7 +6,7 @@ import {
   meanAndVariance,
   quantile,
   RunningMoments,
-  summarise,
+  sampleStats,
   vectorSummary,
 } from "../lib/stats.ts";
 import { limitsOfAgreement, vectorAgreement, vectorDifference } from "../lib/agreement.ts";
@@ -21,11 +21,11 @@ const sample = Array.from({ length: 997 }, () => -6 + 8 * r() + (r() < 0.1 ? 5 :
 
 Deno.test("mean and sample SD match simple-statistics", () => {
   // checked against simple-statistics
-  const s = summarise(sample);
+  const s = sampleStats(sample);
   close(s.mean, ss.mean(sample), 1e-12, "mean");
   close(s.sd, ss.sampleStandardDeviation(sample), 1e-12, "sd");
-  close(s.min, ss.min(sample), 0, "min");
-  close(s.max, ss.max(sample), 0, "max");
+  close(s.lowest, ss.min(sample), 0, "min");
+  close(s.highest, ss.max(sample), 0, "max");
   close(meanAndVariance(sample).variance, ss.sampleVariance(sample), 1e-12, "variance");
 });
 
@@ -34,15 +34,15 @@ Deno.test("median and quantiles (definition 7) match jstat's inclusive percentil
   for (const p of [0, 0.05, 0.25, 0.5, 0.75, 0.9, 0.975, 1]) {
     close(quantile(sample, p), jStat.percentile(sample, p), 1e-12, `p=${p}`);
   }
-  close(summarise(sample).median, ss.median(sample), 1e-12, "median vs simple-statistics");
+  close(sampleStats(sample).median, ss.median(sample), 1e-12, "median vs simple-statistics");
   // Hyndman & Fan 1996, definition 7 on a small set: (n − 1)p = 0.75 → 1 + 0.75·(2 − 1)
   assert.equal(quantile([4, 1, 3, 2], 0.25), 1.75);
 });
 
 Deno.test("empty cells are left out and counted", () => {
   // common practice, no source
-  const s = summarise([1, NaN, 3]);
-  assert.equal(s.count, 2);
+  const s = sampleStats([1, NaN, 3]);
+  assert.equal(s.n, 2);
   assert.equal(s.missing, 1);
   assert.equal(s.mean, 2);
 });

@@ -26,7 +26,7 @@ const NOTEBOOK = (opts = "") =>
     "avg = meanRx(eyes.sph, eyes.cyl, eyes.axis)",
     "stats = vectorStats(eyes.sph, eyes.cyl, eyes.axis)",
     "ell = ellipse95(eyes.sph, eyes.cyl, eyes.axis)",
-    "sphSummary = summary(eyes.sph)",
+    "sphSummary = sampleStats(eyes.sph)",
     "mid = medianOf(eyes.sph)",
     "rows = countOf(eyes.sph)",
     "~~~",

@@ -5,8 +5,8 @@
  * moments and co-moments) are fed; and the chunk is written to a new CSV through
  * csv-stringify. Memory holds one chunk, never the file.
  *
- * Aggregates available in streaming mode: `countOf`, `meanOf`, `sdOf`, `summary` (count,
- * missing, mean, SD, minimum and maximum; its quartiles and median are reported as not
+ * Aggregates available in streaming mode: `countOf`, `meanOf`, `sdOf`, `sampleStats` (n,
+ * missing, mean, SD, lowest and highest; its quartiles and median are reported as not
  * available), `meanRx`, `vectorStats`, `ellipse95`, `spread95`, `agreement` and
  * `rxAgreement` over the streamed table's columns. Medians and quantiles need every value
  * and are not computed (never approximated); other cells that read the streamed table are
@@ -30,7 +30,7 @@ import {
   ellipseRecord,
   meanRxRecord,
   refractionArrays,
-  statRecord,
+  sampleStatsRecord,
   vectorStatsRecord,
 } from "../../cells/stats.ts";
 import { markExact } from "../../cells/quantity.ts";
@@ -133,6 +133,10 @@ const WRITE_SLICE = 256;
 /** Records read from csv-parse at a time. */
 const READ_BATCH = 256;
 
+/** What streamed sample statistics leave out, and why. */
+const STREAM_ORDER_NOTE =
+  "quartiles and median are not available in streaming mode (they need every value)";
+
 /** A running aggregate for one cell. */
 interface Aggregate {
   push(cols: ReadonlyMap<string, Column>): void;
@@ -144,7 +148,7 @@ const STREAMABLE = new Set([
   "countOf",
   "meanOf",
   "sdOf",
-  "summary",
+  "sampleStats",
   "meanRx",
   "vectorStats",
   "ellipse95",
@@ -216,18 +220,21 @@ function aggregateFor(
         r,
         u,
       ) => (u ? markExact(lang.quantity(r.sd(0), u), { unsigned: true }) : r.sd(0)));
-    case "summary":
+    case "sampleStats":
       return one(
         (r, u) =>
-          statRecord({
-            count: r.count,
-            missing: r.missing,
-            mean: q(r.mean(0), u),
-            sd: q(r.sd(0), u),
-            min: q(r.min(0), u),
-            max: q(r.max(0), u),
-          }),
-        "quartiles and median are not available in streaming mode (they need every value)",
+          sampleStatsRecord(
+            {
+              n: r.count,
+              missing: r.missing,
+              mean: r.mean(0),
+              sd: r.sd(0),
+              lowest: r.min(0),
+              highest: r.max(0),
+            },
+            u,
+            STREAM_ORDER_NOTE,
+          ),
       );
     case "meanRx":
       return vector((r) => meanRxRecord(vectorSummaryFrom(r)));
@@ -450,10 +457,11 @@ export async function streamNotebook(
     };
     const fn = node.type === "FunctionNode" && node.fn?.type === "SymbolNode" ? node.fn.name! : "";
     const cols = fn ? columnArgs(node.args!, block.name) : undefined;
-    let agg: Aggregate | string = "only a single call of countOf, meanOf, sdOf, summary, meanRx, " +
+    let agg: Aggregate | string =
+      "only a single call of countOf, meanOf, sdOf, sampleStats, meanRx, " +
       "vectorStats, ellipse95, spread95, agreement or rxAgreement over the streamed table's columns " +
       "is computed in streaming mode";
-    if (fn === "medianOf" || fn === "quantileOf" || fn === "summaryBy" || fn === "meanRxBy") {
+    if (fn === "medianOf" || fn === "quantileOf" || fn === "sampleStatsBy" || fn === "meanRxBy") {
       agg = `${fn} needs every value at once; it is not computed in streaming mode`;
     } else if (STREAMABLE.has(fn) && cols) agg = aggregateFor(fn, cols, lang);
     if (typeof agg === "string") cells.push({ name: r.name, unavailable: agg });
