@@ -142,11 +142,19 @@ Deno.test("check reports a plot block's problems at their line", async () => {
     const f = join(dir, "p.lentil.md");
     await Deno.writeTextFile(
       f,
-      "```lentil table t\nx | y\n1 | 2\n```\n\n```lentil plot\nkind: pie\ntable: t\n```\n",
+      "```lentil table t\nx | y\n1 | 2\n```\n\n```lentil plot\nfigure: pie\ntable: t\n```\n",
     );
     const r = await cli("check", f);
     assert.equal(r.code, 1);
-    assert.match(r.out, /p\.lentil\.md:7:7: .*kind "pie" is not one of curve/);
+    assert.match(r.out, /p\.lentil\.md:7:9: .*figure "pie" is not one of curve/);
+    await Deno.writeTextFile(
+      f,
+      "```lentil table t\nx | y\n1 | 2\n```\n\n```lentil plot\nfigure: scatter\ntable: t\n" +
+        "horizontal: x\nvertical: y\ny-label: why\n```\n",
+    );
+    const old = await cli("check", f);
+    assert.equal(old.code, 1);
+    assert.match(old.out, /p\.lentil\.md:11:\d+: .*unknown key "y-label" \(valid keys: figure, /);
   });
 });
 

@@ -1,9 +1,9 @@
-// Plot blocks: each kind renders SVG with its marks; problems are named; cell values read.
+// Plot blocks: each figure renders SVG with its marks; problems are named; cell values read.
 import assert from "node:assert/strict";
 import { loadNotebook } from "../notebook/load.ts";
 import { Notebook } from "../notebook/engine/engine.ts";
 import type { PlotBlock } from "../notebook/format/parse.ts";
-import { MAX_PLOT_POINTS, PLOT_KINDS, renderPlot } from "../notebook/export/plot.ts";
+import { MAX_PLOT_POINTS, PLOT_FIGURES, renderPlot } from "../notebook/export/plot.ts";
 import { formatNumber } from "../cells/display.ts";
 import { limitsOf, markOf, outlineOf, pointsOf } from "../notebook/export/_plot_values.ts";
 
@@ -18,9 +18,9 @@ if (!loaded.ok) throw new Error(loaded.diagnostic.message);
 const nb = loaded.notebook;
 const byName = new Map(plots(nb).map((b) => [b.name, renderPlot(b, nb)]));
 
-Deno.test("plot: the fixture has one plot of every kind, all without problems", () => {
-  const kinds = plots(nb).map((b) => b.options.kind.value).sort();
-  assert.deepEqual(kinds, [...PLOT_KINDS].sort());
+Deno.test("plot: the fixture has one plot of every figure, all without problems", () => {
+  const kinds = plots(nb).map((b) => b.options.figure.value).sort();
+  assert.deepEqual(kinds, [...PLOT_FIGURES].sort());
   for (const [name, p] of byName) {
     assert.deepEqual(p.problems, [], `plot ${name}`);
     assert.match(p.svg, /<svg[^>]*viewBox/);
@@ -39,7 +39,7 @@ Deno.test("plot curve: line, dots, the endpoint marked and the fitted curve dash
   const ep = nb.value("ep");
   const json = nb.language.describe(ep).value as { endpoint: number };
   assert.ok(p.svg.includes(`ep ${json.endpoint}`), "endpoint label");
-  assert.equal(p.title, "Acuity through focus");
+  assert.equal(p.heading, "Acuity through focus");
 });
 
 Deno.test("plot scatter: a dot a row, coloured by group, with the ellipse outline", () => {
@@ -49,11 +49,11 @@ Deno.test("plot scatter: a dot a row, coloured by group, with the ellipse outlin
   assert.ok(p.svg.includes("j0 [D]") && p.svg.includes("j45 [D]"));
 });
 
-Deno.test("plot histogram: bars counting every row", () => {
+Deno.test("plot distribution: bars counting every row", () => {
   const p = byName.get("spread_j0")!;
   const rects = /aria-label="rect"[^>]*>([^]*?)<\/g>/.exec(p.svg)![1];
   assert.ok((rects.match(/<rect/g) ?? []).length >= 10);
-  assert.ok(p.svg.includes("count"));
+  assert.ok(p.svg.includes("number of rows"));
 });
 
 Deno.test("plot agreement: dots, bias and the two limits labelled", () => {
@@ -77,24 +77,44 @@ function one(text: string) {
 
 const T = "```lentil table t\na [D] | b | w [text]\n1 | 2 | x\n2 | 3 | y\n3 | 5 | z\n```\n\n";
 
-Deno.test("plot problems: unknown kind, table, column, option, cell; a text column", () => {
+Deno.test("plot problems: unknown figure, table, column, key, cell; a text column", () => {
   const cases: [string, RegExp][] = [
-    ["kind: pie\ntable: t", /kind "pie" is not one of curve, scatter, histogram, agreement/],
-    ["table: t", /needs `kind:`/],
-    ["kind: scatter\ntable: nope\nx-axis: a\ny-axis: b", /no table "nope"/],
+    ["figure: pie\ntable: t", /figure "pie" is not one of curve, scatter, distribution, agreement/],
+    ["table: t", /needs `figure:`/],
+    ["figure: scatter\ntable: nope\nhorizontal: a\nvertical: b", /no table "nope"/],
     [
-      "kind: scatter\ntable: t\nx-axis: zz\ny-axis: b",
-      /no column "zz" for x-axis \(columns: a, b, w\)/,
+      "figure: scatter\ntable: t\nhorizontal: zz\nvertical: b",
+      /no column "zz" for horizontal \(columns: a, b, w\)/,
     ],
-    ["kind: scatter\ntable: t\nx-axis: w\ny-axis: b", /column "w" for x-axis is not numeric/],
-    ["kind: scatter\ntable: t\nx-axis: a\ny-axis: b\ncolour: red", /unknown option "colour"/],
-    ["kind: curve\ntable: t\nx-axis: a\ny-axis: b\nmark: ghost", /no cell named "ghost" for mark/],
-    ["kind: scatter\ntable: t\nx-axis: a\ny-axis: b\nbins: 3", /bins applies to histogram/],
-    ["kind: histogram\ntable: t\nx-axis: a\nbins: 0", /bins: expected a whole number/],
-    ["kind: scatter\ntable: t\nx-axis: a", /needs `y-axis:`/],
     [
-      "kind: scatter\ntable: t\nx-axis: a\ny-axis: b\ninvert-y: maybe",
-      /invert-y: expected yes or no/,
+      "figure: scatter\ntable: t\nhorizontal: w\nvertical: b",
+      /column "w" for horizontal is not numeric/,
+    ],
+    [
+      "kind: scatter\ntable: t\nx-axis: a\ny-axis: b",
+      /unknown key "kind" \(valid keys: figure, table, horizontal, vertical, heading,/,
+    ],
+    ["figure: scatter\ntable: t\nhorizontal: a\nvertical: b\ncolour: red", /unknown key "colour"/],
+    [
+      "figure: curve\ntable: t\nhorizontal: a\nvertical: b\ninvert-y: yes",
+      /unknown key "invert-y"/,
+    ],
+    [
+      "figure: curve\ntable: t\nhorizontal: a\nvertical: b\nmark: ghost",
+      /no cell named "ghost" for mark/,
+    ],
+    [
+      "figure: scatter\ntable: t\nhorizontal: a\nvertical: b\nclasses: 3",
+      /classes applies to distribution figures/,
+    ],
+    [
+      "figure: distribution\ntable: t\nhorizontal: a\nclasses: 0",
+      /classes: expected a whole number/,
+    ],
+    ["figure: scatter\ntable: t\nhorizontal: a", /needs `vertical:`/],
+    [
+      "figure: scatter\ntable: t\nhorizontal: a\nvertical: b\nbetter-up: maybe",
+      /better-up: expected yes or no/,
     ],
   ];
   for (const [opts, re] of cases) {
@@ -104,9 +124,25 @@ Deno.test("plot problems: unknown kind, table, column, option, cell; a text colu
   }
 });
 
+Deno.test("plot: a logMAR vertical axis puts better acuity up unless better-up: no", () => {
+  const t = "```lentil table t\nlens [D] | va [logMAR]\n0 | 0.1\n1 | 0.4\n```\n\n```lentil plot\n" +
+    "figure: curve\ntable: t\nhorizontal: lens\nvertical: va\n";
+  // The y pixel of each dot: with better acuity up, the smaller logMAR (0.1) is higher (smaller y).
+  const ys = (svg: string) =>
+    [...svg.matchAll(/<circle[^>]*cy="([\d.]+)"/g)].map((m) => Number(m[1]));
+  const up = ys(one(t + "```\n").svg);
+  assert.ok(up[0] < up[1], String(up));
+  const down = ys(one(t + "better-up: no\n```\n").svg);
+  assert.ok(down[0] > down[1], String(down));
+  const plain = "```lentil table t\nx | y\n0 | 0.1\n1 | 0.4\n```\n\n```lentil plot\n" +
+    "figure: curve\ntable: t\nhorizontal: x\nvertical: y\n```\n";
+  const other = ys(one(plain).svg);
+  assert.ok(other[0] > other[1], "a column that is not logMAR is drawn upward");
+});
+
 Deno.test("plot: `cell.part` reads a part of a record value", () => {
   const base = T +
-    "```lentil\nk = 3\n```\n\n```lentil plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\n";
+    "```lentil\nk = 3\n```\n\n```lentil plot\nfigure: curve\ntable: t\nhorizontal: a\nvertical: b\n";
   const ok = one(base + "mark: k\n```\n");
   assert.deepEqual(ok.problems, []);
   const bad = one(base + "mark: k.endpoint\n```\n");
@@ -118,16 +154,16 @@ Deno.test("plot: `cell.part` reads a part of a record value", () => {
 Deno.test("plot: a cell that holds no curve is named as the problem", () => {
   const p = one(
     T +
-      "```lentil\nk = 3\n```\n\n```lentil plot\nkind: curve\ntable: t\nx-axis: a\ny-axis: b\nfit: k\n```\n",
+      "```lentil\nk = 3\n```\n\n```lentil plot\nfigure: curve\ntable: t\nhorizontal: a\nvertical: b\nfitted: k\n```\n",
   );
-  assert.ok(p.problems.some((d) => /fit: the cell holds no curve points/.test(d.message)));
+  assert.ok(p.problems.some((d) => /fitted: the cell holds no curve points/.test(d.message)));
 });
 
 Deno.test("plot: a large table is thinned to the point cap and the caption says so", () => {
   const rows = Array.from({ length: MAX_PLOT_POINTS * 2 + 10 }, (_, i) => `${i} | ${i % 7}`);
   const p = one(
     "```lentil table big\nx | y\n" + rows.join("\n") +
-      "\n```\n\n```lentil plot\nkind: scatter\ntable: big\nx-axis: x\ny-axis: y\n```\n",
+      "\n```\n\n```lentil plot\nfigure: scatter\ntable: big\nhorizontal: x\nvertical: y\n```\n",
   );
   assert.deepEqual(p.problems, []);
   const dots = (p.svg.match(/<circle/g) ?? []).length;

@@ -28,7 +28,7 @@ lens [D] | va [logMAR] | remark
 \`\`\`
 
 \`\`\`lentil plot
-kind: line
+figure: curve
 table: trials
 \`\`\`
 `;
@@ -94,7 +94,7 @@ Deno.test("plot options are kept by key", () => {
   const nb = parseNotebook(NB, "f.lentil.md");
   const p = nb.blocks.find((b) => b.kind === "plot");
   assert.ok(p && p.kind === "plot");
-  assert.equal(p.options.kind.value, "line");
+  assert.equal(p.options.figure.value, "curve");
   assert.equal(p.options.table.value, "trials");
 });
 
@@ -182,13 +182,13 @@ Deno.test("invalid UTF-8 is reported with line and column", () => {
 
 Deno.test("option lines may carry a note after # and white space", () => {
   const nb = parseNotebook(
-    "```lentil plot\nkind: curve   # the kind\ntitle: Case #3\n```\n\n```lentil table t\nfile: a.csv  # beside the notebook\n```\n",
+    "```lentil plot\nfigure: curve   # the figure\nheading: Case #3\n```\n\n```lentil table t\nfile: a.csv  # beside the notebook\n```\n",
     "o.lentil.md",
   );
   const plot = nb.blocks.find((b) => b.kind === "plot");
   assert.ok(plot && plot.kind === "plot");
-  assert.equal(plot.options.kind.value, "curve");
-  assert.equal(plot.options.title.value, "Case #3");
+  assert.equal(plot.options.figure.value, "curve");
+  assert.equal(plot.options.heading.value, "Case #3");
   assert.equal(nb.tables[0].options.file.value, "a.csv");
 });
 

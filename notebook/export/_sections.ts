@@ -187,7 +187,7 @@ export function tableSection(
 /** A plot as a figure, or its problems in place of it. */
 export function plotFigure(p: RenderedPlot): string {
   const id = anchorId("plot", p.name);
-  const title = p.title ? `<div class="lx-plot-title">${escapeHtml(p.title)}</div>` : "";
+  const title = p.heading ? `<div class="lx-plot-title">${escapeHtml(p.heading)}</div>` : "";
   if (!p.svg) {
     const msgs = p.problems.map((d) => `<p>${escapeHtml(d.message)} (line ${d.line})</p>`).join(
       "",

@@ -4,37 +4,38 @@
  *
  * ````text
  * ```lentil plot focus
- * kind: curve
+ * figure: curve
  * table: trials
- * x-axis: lens
- * y-axis: va
+ * horizontal: lens
+ * vertical: va      # a logMAR column: better acuity (smaller logMAR) is drawn up
  * mark: ep          # a cell: its endpoint is marked
- * fit: ep           # a cell: its fitted curve is drawn dashed
- * invert-y: yes     # smaller logMAR (better acuity) higher up
- * title: Acuity through focus
+ * fitted: ep        # a cell: its fitted curve is drawn dashed
+ * heading: Acuity through focus
  * ```
  * ````
  *
- * Kinds:
- * - `curve`: a line through the rows in order of `x`, with a dot on each; `mark` (a
- *   cell) marks a point or a power, `fit` (a cell) draws the fitted curve it holds;
+ * Figures:
+ * - `curve`: a line through the rows in order of the horizontal column, with a dot on each;
+ *   `mark` (a cell) marks a point or a power, `fitted` (a cell) draws the fitted curve it
+ *   holds;
  * - `scatter`: one dot a row; `ellipse` (a cell) draws the outline it holds;
- * - `histogram`: counts of `x` in `bins` bins;
- * - `agreement`: a difference plot, `x` the mean of two methods and `y` their difference
- *   (columns the notebook computes); `limits` (a cell) draws the bias and the limits of
- *   agreement, else a line at zero.
+ * - `distribution`: how many rows fall in each of `classes` equal classes of the horizontal
+ *   column;
+ * - `agreement`: a difference plot, horizontal the mean of two methods and vertical their
+ *   difference (columns the notebook computes); `limits` (a cell) draws the bias and the
+ *   limits of agreement, else a line at zero.
  *
- * Every kind takes `title`, `caption`, `x-label`, `y-label`, `group` (a column that colours
- * the dots) and `invert-y`. (Option keys have two letters or more: the axes are `x-axis`
- * and `y-axis`.) Plot values are read from cells and columns; nothing is
- * computed here.
+ * Every figure takes `heading`, `caption`, `horizontal-title`, `vertical-title` and
+ * `colour-by` (a column that colours the dots). A logMAR vertical axis puts better acuity
+ * (smaller logMAR) up; `better-up: no` draws it the other way. Plot values are read from
+ * cells and columns; nothing is computed here.
  *
  * @example
  * ```ts
  * import { Notebook } from "../engine/engine.ts";
  * import { renderPlot } from "./plot.ts";
  * const nb = Notebook.fromText(
- *   "~~~lentil table t\nx | y\n1 | 2\n2 | 3\n~~~\n\n~~~lentil plot\nkind: scatter\ntable: t\nx-axis: x\ny-axis: y\n~~~\n",
+ *   "~~~lentil table t\nx | y\n1 | 2\n2 | 3\n~~~\n\n~~~lentil plot\nfigure: scatter\ntable: t\nhorizontal: x\nvertical: y\n~~~\n",
  *   "p.lentil.md",
  * );
  * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;
@@ -53,29 +54,29 @@ import { type Column, tableInfo } from "../../cells/table.ts";
 import { formatNumber } from "../../cells/display.ts";
 import { limitsOf, markOf, pointsOf, type XY } from "./_plot_values.ts";
 
-/** The kinds of plot. */
-export const PLOT_KINDS = ["curve", "scatter", "histogram", "agreement"] as const;
+/** The figures a plot block can draw. */
+export const PLOT_FIGURES = ["curve", "scatter", "distribution", "agreement"] as const;
 
-/** A kind of plot. */
-export type PlotKind = typeof PLOT_KINDS[number];
+/** A figure a plot block can draw. */
+export type PlotFigure = typeof PLOT_FIGURES[number];
 
 /** Every option key a plot block accepts, with what it means. */
 export const PLOT_OPTIONS: Readonly<Record<string, string>> = {
-  kind: `one of ${PLOT_KINDS.join(", ")}`,
+  figure: `one of ${PLOT_FIGURES.join(", ")}`,
   table: "the table whose rows are plotted",
-  "x-axis": "column for the horizontal axis",
-  "y-axis": "column for the vertical axis (not for histogram)",
-  title: "heading above the plot",
+  horizontal: "column for the horizontal axis",
+  vertical: "column for the vertical axis (not for distribution)",
+  heading: "heading above the plot",
   caption: "text below the plot",
-  "x-label": "label of the horizontal axis (default: the column and its unit)",
-  "y-label": "label of the vertical axis",
-  group: "column whose values colour the dots",
+  "horizontal-title": "title of the horizontal axis (default: the column and its unit)",
+  "vertical-title": "title of the vertical axis (default: the column and its unit)",
+  "colour-by": "column whose values colour the dots",
   mark: "cell whose value marks a point or a power (curve); `cell.part` picks a part of a record",
-  fit: "cell holding fitted curve points, drawn dashed (curve)",
+  fitted: "cell holding fitted curve points, drawn dashed (curve)",
   ellipse: "cell holding an outline, e.g. a confidence ellipse (scatter)",
   limits: "cell holding the bias and limits of agreement (agreement)",
-  bins: "number of bins (histogram)",
-  "invert-y": "yes to put smaller values at the top (logMAR: better acuity up)",
+  classes: "number of equal classes the horizontal column is counted in (distribution)",
+  "better-up": "no to draw a logMAR vertical axis with smaller values down (default yes)",
 };
 
 /** Largest number of dots drawn; beyond it every k-th row is drawn and the caption says so. */
@@ -85,8 +86,8 @@ export const MAX_PLOT_POINTS = 4000;
 export interface RenderedPlot {
   /** The block's name, or `plot-LINE`. */
   readonly name: string;
-  /** Title text (unescaped), if any. */
-  readonly title?: string;
+  /** Heading text (unescaped), if any. */
+  readonly heading?: string;
   /** Caption text (unescaped), including a note when rows were thinned. */
   readonly caption?: string;
   /** The SVG (or Plot's figure around it) markup; "" when the block has an error. */
@@ -167,20 +168,30 @@ function cellJson(ctx: Ctx, key: string): unknown {
   return v;
 }
 
-function axisLabel(ctx: Ctx, axis: "x" | "y", c: Column | undefined): string | undefined {
-  const given = opt(ctx, `${axis}-label`);
+function axisLabel(
+  ctx: Ctx,
+  axis: "horizontal" | "vertical",
+  c: Column | undefined,
+): string | undefined {
+  const given = opt(ctx, `${axis}-title`);
   if (given) return given;
   return c ? (c.unit ? `${c.name} [${c.unit}]` : c.name) : undefined;
 }
 
-function yes(ctx: Ctx, key: string): boolean {
+function yes(ctx: Ctx, key: string, byDefault: boolean): boolean {
   const v = opt(ctx, key)?.toLowerCase();
-  if (v === undefined) return false;
+  if (v === undefined) return byDefault;
   if (["yes", "true", "on"].includes(v)) return true;
   if (!["no", "false", "off"].includes(v)) {
     problem(ctx, `${key}: expected yes or no, got "${v}"`, ctx.block.options[key]);
+    return byDefault;
   }
   return false;
+}
+
+/** A logMAR column: smaller is better acuity. */
+function isLogMAR(c: Column | undefined): boolean {
+  return c?.unit?.toLowerCase() === "logmar";
 }
 
 type PlotDocument = NonNullable<Plot.PlotOptions["document"]>;
@@ -207,14 +218,14 @@ function rowsOf(columns: (Column | undefined)[], rowCount: number) {
 
 /**
  * The problems of a plot block without drawing it: unknown keys, a missing table, column or
- * cell, a kind that does not exist.
+ * cell, a figure that does not exist.
  *
  * @example
  * ```ts
  * import { Notebook } from "../engine/engine.ts";
  * import { plotProblems } from "./plot.ts";
- * const nb = Notebook.fromText("~~~lentil plot\nkind: pie\n~~~\n", "p.lentil.md");
- * plotProblems(nb.doc.blocks[0] as never, nb)[0].message.includes("kind"); // true
+ * const nb = Notebook.fromText("~~~lentil plot\nfigure: pie\n~~~\n", "p.lentil.md");
+ * plotProblems(nb.doc.blocks[0] as never, nb)[0].message.includes("figure"); // true
  * ```
  */
 export function plotProblems(block: PlotBlock, nb: Notebook): Diagnostic[] {
@@ -230,7 +241,7 @@ export function plotProblems(block: PlotBlock, nb: Notebook): Diagnostic[] {
  * import { Notebook } from "../engine/engine.ts";
  * import { renderPlot } from "./plot.ts";
  * const nb = Notebook.fromText(
- *   "~~~lentil table t\nv [D]\n1\n2\n2\n~~~\n\n~~~lentil plot h\nkind: histogram\ntable: t\nx-axis: v\n~~~\n",
+ *   "~~~lentil table t\nv [D]\n1\n2\n2\n~~~\n\n~~~lentil plot h\nfigure: distribution\ntable: t\nhorizontal: v\n~~~\n",
  *   "h.lentil.md",
  * );
  * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;
@@ -240,22 +251,26 @@ export function plotProblems(block: PlotBlock, nb: Notebook): Diagnostic[] {
 export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
   const ctx: Ctx = { block, nb, problems: [] };
   const name = block.name ?? `plot-${block.line}`;
-  const title = opt(ctx, "title");
+  const heading = opt(ctx, "heading");
   let caption = opt(ctx, "caption");
-  const none = (): RenderedPlot => ({ name, title, caption, svg: "", problems: ctx.problems });
+  const none = (): RenderedPlot => ({ name, heading, caption, svg: "", problems: ctx.problems });
   for (const [key, o] of Object.entries(block.options)) {
     if (!(key in PLOT_OPTIONS)) {
-      problem(ctx, `unknown option "${key}" (known: ${Object.keys(PLOT_OPTIONS).join(", ")})`, o);
+      problem(
+        ctx,
+        `unknown key "${key}" (valid keys: ${Object.keys(PLOT_OPTIONS).join(", ")})`,
+        o,
+      );
     }
   }
-  const kind = opt(ctx, "kind") as PlotKind | undefined;
-  if (!kind || !(PLOT_KINDS as readonly string[]).includes(kind)) {
+  const kind = opt(ctx, "figure") as PlotFigure | undefined;
+  if (!kind || !(PLOT_FIGURES as readonly string[]).includes(kind)) {
     problem(
       ctx,
       kind
-        ? `kind "${kind}" is not one of ${PLOT_KINDS.join(", ")}`
-        : `needs \`kind:\` (${PLOT_KINDS.join(", ")})`,
-      block.options.kind,
+        ? `figure "${kind}" is not one of ${PLOT_FIGURES.join(", ")}`
+        : `needs \`figure:\` (${PLOT_FIGURES.join(", ")})`,
+      block.options.figure,
     );
     return none();
   }
@@ -276,34 +291,38 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
     );
     return none();
   }
-  if (!opt(ctx, "x-axis")) problem(ctx, "needs `x-axis:` naming a column");
-  if (kind !== "histogram" && !opt(ctx, "y-axis")) {
-    problem(ctx, "needs `y-axis:` naming a column");
+  if (!opt(ctx, "horizontal")) problem(ctx, "needs `horizontal:` naming a column");
+  if (kind !== "distribution" && !opt(ctx, "vertical")) {
+    problem(ctx, "needs `vertical:` naming a column");
   }
-  const xc = columnOf(ctx, info.columns, "x-axis", true);
-  const yc = kind === "histogram" ? undefined : columnOf(ctx, info.columns, "y-axis", true);
-  const gc = columnOf(ctx, info.columns, "group", false);
-  const invert = yes(ctx, "invert-y");
+  const xc = columnOf(ctx, info.columns, "horizontal", true);
+  const yc = kind === "distribution" ? undefined : columnOf(ctx, info.columns, "vertical", true);
+  const gc = columnOf(ctx, info.columns, "colour-by", false);
+  const invert = yes(ctx, "better-up", true) && isLogMAR(yc);
   const markV = kind === "curve" ? cellJson(ctx, "mark") : undefined;
-  const fitV = kind === "curve" ? cellJson(ctx, "fit") : undefined;
+  const fitV = kind === "curve" ? cellJson(ctx, "fitted") : undefined;
   const ellipseV = kind === "scatter" ? cellJson(ctx, "ellipse") : undefined;
   const limitsV = kind === "agreement" ? cellJson(ctx, "limits") : undefined;
   for (const [key, kinds] of Object.entries(KIND_ONLY)) {
     if (block.options[key] && !kinds.includes(kind)) {
-      problem(ctx, `${key} applies to ${kinds.join(", ")} plots, not ${kind}`, block.options[key]);
+      problem(
+        ctx,
+        `${key} applies to ${kinds.join(", ")} figures, not ${kind}`,
+        block.options[key],
+      );
     }
   }
   let bins: number | undefined;
-  if (opt(ctx, "bins")) {
-    bins = Number(opt(ctx, "bins"));
+  if (opt(ctx, "classes")) {
+    bins = Number(opt(ctx, "classes"));
     if (!Number.isInteger(bins) || bins < 1 || bins > 500) {
-      problem(ctx, `bins: expected a whole number from 1 to 500`, block.options.bins);
+      problem(ctx, `classes: expected a whole number from 1 to 500`, block.options.classes);
     }
   }
   const mark = markV === undefined ? undefined : markOf(markV);
   if (markV !== undefined && !mark) problem(ctx, "mark: the cell holds no point or power");
   const fit = fitV === undefined ? undefined : pointsOf(fitV);
-  if (fitV !== undefined && !fit) problem(ctx, "fit: the cell holds no curve points");
+  if (fitV !== undefined && !fit) problem(ctx, "fitted: the cell holds no curve points");
   const ring = ellipseV === undefined ? undefined : pointsOf(ellipseV);
   if (ellipseV !== undefined && !ring) problem(ctx, "ellipse: the cell holds no outline points");
   const limits = limitsV === undefined ? undefined : limitsOf(limitsV);
@@ -311,7 +330,7 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
   if (ctx.problems.some((p) => p.severity === "error") || !xc) return none();
 
   const { rows, step } = rowsOf([xc, yc, gc], info.rowCount);
-  if (step > 1 && kind !== "histogram") {
+  if (step > 1 && kind !== "distribution") {
     const note = `One row in ${step} drawn, of ${info.rowCount.toLocaleString("en")}.`;
     caption = caption ? `${caption} ${note}` : note;
   }
@@ -352,7 +371,7 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
       const closed: XY[] = [...ring, ring[0]];
       marks.push(Plot.line(closed, { x: "x", y: "y", stroke: ACCENT, strokeWidth: 1.5 }));
     }
-  } else if (kind === "histogram") {
+  } else if (kind === "distribution") {
     marks.push(
       Plot.rectY(rows, {
         ...Plot.binX({ y: "count" }, { x, ...(bins ? { thresholds: bins } : {}) }),
@@ -389,27 +408,29 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
   const el = Plot.plot({
     document: svgDocument(),
     width: 640,
-    height: kind === "histogram" ? 320 : 380,
+    height: kind === "distribution" ? 320 : 380,
     marginLeft: 56,
     marginRight: 24,
     grid: true,
     style: { fontSize: "12px", background: "white", color: "#222" },
-    x: { label: axisLabel(ctx, "x", xc) },
+    x: { label: axisLabel(ctx, "horizontal", xc) },
     y: {
-      label: kind === "histogram" ? (opt(ctx, "y-label") ?? "count") : axisLabel(ctx, "y", yc),
+      label: kind === "distribution"
+        ? (opt(ctx, "vertical-title") ?? "number of rows")
+        : axisLabel(ctx, "vertical", yc),
       reverse: invert,
     },
     color: gc ? { legend: true, type: gc.numeric ? "linear" : "categorical" } : undefined,
     marks,
   }) as unknown as { outerHTML: string };
-  return { name, title, caption, svg: el.outerHTML, problems: ctx.problems };
+  return { name, heading, caption, svg: el.outerHTML, problems: ctx.problems };
 }
 
-/** Options that apply only to some kinds. */
-const KIND_ONLY: Readonly<Record<string, readonly PlotKind[]>> = {
+/** Options that apply only to some figures. */
+const KIND_ONLY: Readonly<Record<string, readonly PlotFigure[]>> = {
   mark: ["curve"],
-  fit: ["curve"],
+  fitted: ["curve"],
   ellipse: ["scatter"],
   limits: ["agreement"],
-  bins: ["histogram"],
+  classes: ["distribution"],
 };
