@@ -30,7 +30,7 @@ Deno.test("lentil export: problems are listed and the exit status is 1, the page
     const io = captureIo();
     const code = await runCli(["export", HOSTILE, "--out", out, "--data"], io);
     assert.equal(code, 1);
-    assert.match(io.stderr(), /hostile\.lentil\.md:\d+:\d+: .*plot broken: kind/);
+    assert.match(io.stderr(), /hostile\.lentil\.md:\d+:\d+: .*plot broken: figure/);
     assert.match(io.stderr(), /unknown name or unit "nosuch"/);
     assert.ok((await Deno.stat(out)).size > 0);
   } finally {

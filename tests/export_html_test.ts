@@ -175,5 +175,5 @@ Deno.test("hostile notebook: nothing the user wrote becomes markup", async () =>
   assert.ok(!/href="\s*(javascript|vbscript|data:text\/html)/i.test(html));
   assert.ok(html.includes("&lt;/title&gt;&lt;script&gt;"), "title escaped");
   assert.ok(html.includes("&lt;script&gt;alert(&#39;note&#39;)&lt;/script&gt;"), "note escaped");
-  assert.ok(page.problems.some((p) => p.message.includes('kind "<script>')));
+  assert.ok(page.problems.some((p) => p.message.includes('figure "<script>')));
 });
