@@ -17,8 +17,8 @@
 
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { Column, makeTable } from "./table.ts";
-import { defineValueType } from "./types.ts";
-import { formatNumber, formatQuantity } from "./display.ts";
+import { type CheckLine, defineValueType } from "./types.ts";
+import { formatNumber } from "./display.ts";
 import { quantity } from "./quantity.ts";
 import type { RxValue } from "./rx.ts";
 import type { AmplitudeLevel } from "../lib/accommodation.ts";
@@ -49,46 +49,109 @@ export class ToleranceReportValue {
   constructor(readonly report: ToleranceReport) {}
 }
 
-/** A prism figure of a check with its base, as an optician reads it ("0.50 Δ BD"). */
-function prismText(quantity: string, v: number): string {
-  const amount = `${Math.abs(v).toFixed(2)} Δ`;
-  if (Math.round(Math.abs(v) * 100) === 0) return "0.00 Δ";
-  if (quantity.includes("imbalance")) return `${amount} (${v > 0 ? "R" : "L"} relatively base up)`;
-  if (quantity.includes("horizontal")) return `${amount} ${v > 0 ? "BI" : "BO"}`;
-  if (quantity.includes("vertical")) return `${amount} ${v > 0 ? "BU" : "BD"}`;
-  return `${v.toFixed(2)} Δ`;
+/** A power in a check: two decimals, three when the figure is on an eighth-dioptre step. */
+function checkPower(v: number, sign = true): string {
+  const r3 = Math.round(v * 1000) / 1000;
+  const digits = Math.abs(r3 * 100 - Math.round(r3 * 100)) > 1e-6 ? 3 : 2;
+  const text = Math.abs(r3).toFixed(digits);
+  const zero = Number(text) === 0;
+  return `${!sign || zero ? "" : v > 0 ? "+" : "-"}${text} D`;
+}
+
+/** A prism or position figure of a check with its direction, as an optician reads it. */
+function directed(c: ToleranceCheck, v: number): string {
+  const unit = c.unit === "mm" ? "mm" : "Δ";
+  const amount = `${Math.abs(v).toFixed(2)} ${unit}`;
+  if (Math.round(Math.abs(v) * 100) === 0) return `0.00 ${unit}`;
+  switch (c.direction) {
+    case "imbalance":
+      return `${amount} (${v > 0 ? "R" : "L"} relatively base up)`;
+    case "horizontal":
+    case "net-horizontal":
+      return `${amount} ${v > 0 ? "BI" : "BO"}`;
+    case "vertical":
+      return `${amount} ${v > 0 ? "BU" : "BD"}`;
+    case "height":
+      return `${amount} (R ${v > 0 ? "higher" : "lower"})`;
+    case "centres":
+      return `${amount} ${v > 0 ? "wider" : "narrower"}`;
+    default:
+      return amount;
+  }
+}
+
+/** The figures of one check as displayed, in one place for the line and the table. */
+function checkFigures(c: ToleranceCheck) {
+  const size = (v: number) =>
+    c.unit === "deg"
+      ? `${formatNumber(v)}°`
+      : c.unit === "D"
+      ? checkPower(v, false)
+      : `${v.toFixed(2)} ${c.unit === "mm" ? "mm" : "Δ"}`;
+  const value = (v: number) =>
+    c.unit === "deg" ? `${formatNumber(v)}°` : c.unit === "D" ? checkPower(v) : directed(c, v);
+  // The deviation is measured − ordered: signed for powers and axes; for prism and positions,
+  // the amount in the direction it points (a base-down deviation reads "0.50 Δ BD").
+  const deviation = c.unit === "deg"
+    ? `${c.deviation > 0 ? "+" : c.deviation < 0 ? "-" : ""}${size(Math.abs(c.deviation))}`
+    : c.unit === "D"
+    ? checkPower(c.deviation)
+    : directed(c, c.deviation);
+  const atLimit = size(Math.abs(c.margin)) === size(0);
+  const ownPass = c.margin >= 0;
+  const margin = ownPass
+    ? atLimit ? "at the limit" : `${size(c.margin)} inside the limit`
+    : `${atLimit ? "just" : size(-c.margin)} beyond the limit`;
+  const tolerance = c.limit === "at-most"
+    ? `at most ${size(c.tolerance)}`
+    : `±${size(c.tolerance)}`;
+  return {
+    ordered: value(c.ordered),
+    measured: value(c.measured),
+    deviation,
+    tolerance,
+    remark: c.remark ? `${margin}; ${c.remark}` : margin,
+  };
+}
+
+/** The clause without the standard's name, for a line that already names the standard. */
+function clauseTitle(clause: string): string {
+  return clause.replace(/^ANSI Z80\.1-2015, /, "");
 }
 
 function describeCheck(c: ToleranceCheck): string {
-  const unit = c.unit === "deg" ? "°" : c.unit === "prism" ? " Δ" : " D";
-  const q = (v: number) =>
-    c.unit === "deg"
-      ? `${formatNumber(v)}°`
-      : c.unit === "prism"
-      ? prismText(c.quantity, v)
-      : formatQuantity(v, c.unit);
-  const size = (v: number) => `${c.unit === "deg" ? formatNumber(v) : v.toFixed(2)}${unit}`;
-  const dev = `${c.deviation > 0 ? "+" : c.deviation < 0 ? "-" : ""}${size(Math.abs(c.deviation))}`;
-  const atLimit = size(Math.abs(c.margin)) === size(0);
-  const verdict = c.pass
-    ? atLimit ? "pass, at the limit" : `pass, ${size(c.margin)} inside the limit`
-    : `FAIL, ${atLimit ? "just" : size(-c.margin)} beyond the limit`;
-  // Prism limits are a largest allowed amount; power and axis limits are ± the ordered value.
-  const limit = c.unit === "prism" ? `at most ${size(c.tolerance)}` : `±${size(c.tolerance)}`;
-  return `${c.quantity}: ordered ${q(c.ordered)}, measured ${
-    q(c.measured)
-  }, deviation ${dev}, tolerance ${limit}: ${verdict}`;
+  const f = checkFigures(c);
+  const verdict = c.pass ? `pass, ${f.remark}` : `FAIL, ${f.remark}`;
+  return `${c.quantity}: ordered ${f.ordered}, measured ${f.measured}, deviation ${f.deviation}, tolerance ${f.tolerance}: ${verdict} (${
+    clauseTitle(c.clause)
+  })`;
 }
 
 /** The `toleranceReport` value type. */
 export const TOLERANCE_REPORT_TYPE = defineValueType<ToleranceReportValue>({
   name: "toleranceReport",
-  summary: "lens verification against a tolerance standard, quantity by quantity",
+  summary:
+    "lens verification against a tolerance standard, quantity by quantity (deviation = measured − ordered)",
   is: (x): x is ToleranceReportValue => x instanceof ToleranceReportValue,
   display: (v) =>
     `${v.report.standard}: ${v.report.pass ? "pass" : "FAIL"} — ${
       v.report.checks.map(describeCheck).join("; ")
     }`,
+  headline: (v) => `${v.report.standard}: ${v.report.pass ? "PASS" : "FAIL"}`,
+  checks: (v) =>
+    v.report.checks.map((c): CheckLine => {
+      const f = checkFigures(c);
+      return {
+        quantity: c.quantity,
+        ordered: f.ordered,
+        measured: f.measured,
+        deviation: f.deviation,
+        tolerance: f.tolerance,
+        verdict: c.pass ? "pass" : "fail",
+        clause: c.clause,
+        remark: f.remark,
+      };
+    }),
   json: (v) => v.report,
 });
 

@@ -113,7 +113,8 @@ const entries: readonly Source[] = [
     citation:
       "ANSI Z80.1-2015 Ophthalmics — Prescription Ophthalmic Lenses — Recommendations (values as published in summaries of the standard).",
     status: "published",
-    note: "International equivalents: ISO 21987 and ISO 8980-1.",
+    note:
+      "Values checked against published summaries of the 2015 edition (a quick-reference guide) and the 2010 edition: powers, axis, add, 0.33 Δ or 1.0 mm at the prism reference point, and the mounted imbalance (0.33 Δ, or at most 1.0 mm difference in height of the reference points above ±3.375 D vertical; 0.67 Δ, or ±2.5 mm of the ordered distance between centres above ±2.75 D horizontal). Clauses are named by their titles; the clause numbers are from memory and not given. That either rule accepts a strong pair is our reading. International equivalents: ISO 21987 and ISO 8980-1.",
   },
   {
     id: "ico-1984",
