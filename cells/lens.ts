@@ -349,7 +349,7 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     name: "checkTolerance",
     group: "verification",
     summary:
-      "A measured lens against the ordered prescription: each quantity, the ANSI Z80.1-2015 tolerance, the deviation, pass or fail and by how much.",
+      "A measured lens against the ordered prescription: each quantity, the ANSI Z80.1-2015 tolerance and its clause, the deviation (measured − ordered), pass or fail and by how much.",
     params: [
       { name: "ordered", type: "rx", doc: "the ordered prescription" },
       { name: "measured", type: "rx", doc: "the lens as measured" },
@@ -364,7 +364,7 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     name: "checkPairTolerance",
     group: "verification",
     summary:
-      "A measured pair against the ordered pair: each lens, the vertical imbalance and the net horizontal prism against ANSI Z80.1-2015.",
+      "A measured pair against the ordered pair under ANSI Z80.1-2015: each lens, the vertical imbalance and the net horizontal prism, and for strong lenses the position of the reference points (Prentice: mm = 10·Δ/F); each line names its clause, deviation = measured − ordered.",
     params: [
       { name: "orderedRight", type: "rx", doc: "ordered right lens" },
       { name: "orderedLeft", type: "rx", doc: "ordered left lens" },
