@@ -44,6 +44,32 @@ export function lineEnding(text: string): string {
   return nl > 0 && text[nl - 1] === "\r" ? "\r\n" : "\n";
 }
 
+/**
+ * The ending of the line that `end` closes (`end` is the offset just after the line's text,
+ * before its ending): "\r\n", "\n", or "" for the last line of a text without one.
+ *
+ * @example
+ * ```ts
+ * import { endingAfter } from "./_splice.ts";
+ * endingAfter("a\nb\r\nc", 3); // "\r\n"
+ * ```
+ */
+export function endingAfter(text: string, end: number): string {
+  if (text.startsWith("\r\n", end)) return "\r\n";
+  if (text[end] === "\n") return "\n";
+  return "";
+}
+
+/**
+ * The ending of the line just before offset `at` (a line start), or of the first line that
+ * has one when there is none before: what a line inserted at `at` takes from its neighbour.
+ */
+function endingBefore(text: string, at: number): string {
+  if (at >= 2 && text.startsWith("\r\n", at - 2)) return "\r\n";
+  if (at >= 1 && text[at - 1] === "\n") return "\n";
+  return lineEnding(text);
+}
+
 /** Span of a 1-based line, without its line ending. */
 function lineSpan(text: string, no: number): Span {
   let start = 0;
@@ -89,15 +115,16 @@ export function expressionEdit(exprSpan: Span, expression: string): TextEdit {
  * ```
  */
 export function appendLineEdit(text: string, block: CalcBlock, line: string): TextEdit {
-  const eol = lineEnding(text);
   const blockText = text.slice(block.span.start, block.span.end);
   const lastNl = blockText.lastIndexOf("\n");
   if (lastNl === -1) {
-    // An unclosed one-line block: add after the fence line.
+    // An unclosed one-line block: add after the fence line, ended like the line before it.
+    const eol = endingBefore(text, block.span.start);
     return { start: block.span.end, end: block.span.end, text: eol + line };
   }
   const at = block.span.start + lastNl + 1; // start of the closing fence line
-  return { start: at, end: at, text: line + eol };
+  // The new line ends as the line before it does (the block's own ending, in a mixed file).
+  return { start: at, end: at, text: line + endingBefore(text, at) };
 }
 
 /** Escape a table cell for a `|`-separated row. */
@@ -162,8 +189,10 @@ export function tableRowsEdit(
   rows: readonly (readonly string[])[],
 ): TextEdit {
   if (!block.headerLine) throw new Error(`table ${block.name} has no header line to edit under`);
-  const eol = lineEnding(text);
   const header = lineSpan(text, block.headerLine);
+  // Each kept line keeps its own ending; a new line takes its neighbour's (the header's
+  // when it comes first), so a file mixing LF and CRLF keeps every untouched line's bytes.
+  const headerEol = endingAfter(text, header.end) || lineEnding(text);
   const headerText = text.slice(header.start, header.end);
   const old: readonly RowDef[] = block.rows;
   // Comment and blank lines between two rows belong to the row after them ("line EOL"...).
@@ -194,29 +223,36 @@ export function tableRowsEdit(
       pending = "";
     }
   });
+  let eol = headerEol;
   const lines = rows.map((cells, j) => {
     const at = source[j];
     const anchor = at === -1 ? replaces[j] : at;
     const line = at === -1
       ? formatRow(cells, headerText)
       : text.slice(old[at].span.start, old[at].span.end);
-    return (anchor === -1 ? "" : lead.get(anchor) ?? "") + line;
+    const own = anchor === -1 ? "" : endingAfter(text, old[anchor].span.end);
+    if (own) eol = own;
+    return { text: (anchor === -1 ? "" : lead.get(anchor) ?? "") + line, eol: own || eol };
   });
-  const tail = pending.endsWith("\n")
-    ? pending.slice(0, pending.endsWith("\r\n") ? -2 : -1)
-    : pending;
-  if (tail) lines.push(tail);
-  const body = lines.join(eol);
   if (old.length === 0) {
-    return { start: header.end, end: header.end, text: body ? eol + body : "" };
+    const body = lines.map((l) => headerEol + l.text).join("");
+    return { start: header.end, end: header.end, text: body };
   }
   const start = old[0].span.start;
-  const end = old[old.length - 1].span.end;
-  if (!body) {
+  const last = old[old.length - 1].span.end;
+  // The edit covers the last old row's ending too, so a moved row takes its ending along.
+  const lastEol = endingAfter(text, last);
+  const end = last + lastEol.length;
+  let body = lines.map((l) => l.text + l.eol).join("") + pending;
+  if (!lastEol && body) {
+    // The table's last line ended the file without a line ending: so does the new last line.
+    body = body.replace(/\r?\n$/, "");
+  }
+  if (!lines.length && !pending) {
     // Remove the rows together with the line ending before the first one.
     let from = start - 1;
     if (from > 0 && text[from - 1] === "\r") from--;
-    return { start: from, end, text: "" };
+    return { start: from, end: last, text: "" };
   }
   return { start, end, text: body };
 }

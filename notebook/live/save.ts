@@ -76,8 +76,9 @@ export async function fingerprint(path: string): Promise<Fingerprint | undefined
 }
 
 /**
- * Whether the file at `path` still holds what `known` describes. A changed modification
- * time alone is not a change when the bytes hash the same (a `touch`, a copy back).
+ * Whether the file at `path` still holds what `known` describes, by the hash of its bytes:
+ * a changed modification time alone is not a change when the bytes hash the same (a
+ * `touch`, a copy back), and the same size and time are no proof of the same bytes.
  *
  * @example
  * ```ts ignore
@@ -96,7 +97,9 @@ export async function changedOnDisk(
     throw e;
   }
   if (!known) return true;
-  if (stat.size === known.size && (stat.mtime?.getTime() ?? 0) === known.mtime) return false;
+  // Size and time alone do not tell: a change of the same size within the time stamp's
+  // resolution (or on a file system with coarse times) keeps both. The bytes decide.
+  if (stat.size !== known.size) return true;
   const now = await fingerprint(path);
   return now?.hash !== known.hash;
 }
@@ -121,14 +124,17 @@ function randomSuffix(): string {
 
 /**
  * Write `bytes` to `path` atomically: temporary file in the same folder, flushed, the old
- * version copied to {@linkcode backupPath}, then renamed into place. The file's permission
- * bits are kept. Returns the fingerprint of what was written.
+ * version copied to {@linkcode backupPath} the same way (temporary, flushed, renamed), then
+ * renamed into place. The file's permission bits are kept. Returns the fingerprint of what
+ * was written.
  *
  * @example
  * ```ts ignore
  * import { writeAtomic } from "./save.ts";
  * await writeAtomic("trials.csv", new TextEncoder().encode("lens [D],va [logMAR]\n"));
  * ```
+ * @throws {SaveError} when the folder is read-only, the disk is full, or writing fails
+ * otherwise; temporary files are removed and the file and its backup are left as they were.
  */
 export async function writeAtomic(path: string, bytes: Uint8Array): Promise<Fingerprint> {
   const dir = dirname(path);
@@ -141,24 +147,22 @@ export async function writeAtomic(path: string, bytes: Uint8Array): Promise<Fing
     if (!(e instanceof Deno.errors.NotFound)) throw e;
     existed = false;
   }
-  const file = await Deno.open(tmp, { write: true, createNew: true, mode: mode ?? 0o644 });
+  const tmps: string[] = [];
   try {
-    let done = 0;
-    while (done < bytes.length) done += await file.write(bytes.subarray(done));
-    await file.sync();
-  } catch (e) {
-    file.close();
-    await Deno.remove(tmp).catch(() => {});
-    throw e;
-  }
-  file.close();
-  try {
+    await writeFlushed(tmp, bytes, mode ?? 0o644, tmps);
     if (mode !== null) await Deno.chmod(tmp, mode & 0o7777);
-    if (existed) await Deno.copyFile(path, backupPath(path));
+    if (existed) {
+      // The backup is written like the file: a complete copy beside it, flushed, then
+      // renamed over the old backup, so the last good backup is never truncated.
+      const bak = backupPath(path);
+      const bakTmp = join(dir, `.${basename(bak)}.${randomSuffix()}.tmp`);
+      await writeFlushed(bakTmp, await Deno.readFile(path), mode ?? 0o644, tmps);
+      await Deno.rename(bakTmp, bak);
+    }
     await Deno.rename(tmp, path);
   } catch (e) {
-    await Deno.remove(tmp).catch(() => {});
-    throw e;
+    for (const t of tmps) await Deno.remove(t).catch(() => {});
+    throw saveError(path, e);
   }
   try {
     const d = await Deno.open(dir, { read: true });
@@ -168,4 +172,70 @@ export async function writeAtomic(path: string, bytes: Uint8Array): Promise<Fing
     // Flushing the folder entry is best effort (not every platform opens folders).
   }
   return await fingerprintOf(bytes, await Deno.stat(path));
+}
+
+/** Write `bytes` to a new file and flush it to disk; its name goes into `made` first. */
+async function writeFlushed(
+  path: string,
+  bytes: Uint8Array,
+  mode: number,
+  made: string[],
+): Promise<void> {
+  const file = await Deno.open(path, { write: true, createNew: true, mode });
+  made.push(path);
+  try {
+    let done = 0;
+    while (done < bytes.length) done += await file.write(bytes.subarray(done));
+    await file.sync();
+  } finally {
+    file.close();
+  }
+}
+
+/** Why a file could not be saved: the folder is read-only, the disk is full, or another cause. */
+export type SaveFailure = "read-only" | "disk-full" | "other";
+
+/**
+ * A save that failed on the file system, in words a user can act on; nothing was replaced
+ * (the file and its last backup are as they were).
+ */
+export class SaveError extends Error {
+  /** @param file the file being saved; @param reason the kind; @param detail the system's words. */
+  constructor(readonly file: string, readonly reason: SaveFailure, readonly detail: string) {
+    super(
+      `cannot save ${basename(file)}: ${
+        reason === "read-only"
+          ? "the folder is read-only"
+          : reason === "disk-full"
+          ? "the disk is full"
+          : detail
+      }`,
+    );
+    this.name = "SaveError";
+  }
+}
+
+/**
+ * Classify a file-system error met while saving.
+ *
+ * @example
+ * ```ts
+ * import { saveError } from "./save.ts";
+ * saveError("a.lentil.md", new Deno.errors.PermissionDenied("denied")).reason; // "read-only"
+ * ```
+ */
+export function saveError(path: string, e: unknown): SaveError {
+  if (e instanceof SaveError) return e;
+  const err = e as Error & { code?: string };
+  const text = `${err?.name ?? ""} ${err?.code ?? ""} ${err?.message ?? e}`;
+  if (
+    e instanceof Deno.errors.PermissionDenied ||
+    /EACCES|EROFS|EPERM|read-only|permission denied/i.test(text)
+  ) {
+    return new SaveError(path, "read-only", err?.message ?? String(e));
+  }
+  if (/ENOSPC|EDQUOT|no space left|quota exceeded|StorageFull|file too large|EFBIG/i.test(text)) {
+    return new SaveError(path, "disk-full", err?.message ?? String(e));
+  }
+  return new SaveError(path, "other", err?.message ?? String(e));
 }

@@ -39,6 +39,7 @@ import { UnsafePathError } from "./_paths.ts";
 import { CLIENT_JS } from "./_client.ts";
 import { pageHtml, STYLE_CSS } from "./_page.ts";
 import { EditRefused, type EditResult, LiveSession } from "./session.ts";
+import { SaveError } from "./save.ts";
 import type { Renderers } from "./_views.ts";
 
 /** A running live server. */
@@ -99,9 +100,57 @@ function json(data: unknown, status = 200): Response {
 
 class BadRequest extends Error {}
 
+/** The method and path of a request, for a line in the terminal. */
+function key(req: Request): string {
+  return `${req.method} ${new URL(req.url).pathname}`;
+}
+
+/** An error as one line of printable text. */
+function oneLine(e: unknown): string {
+  const text = e instanceof Error ? `${e.name}: ${e.message}` : String(e);
+  // deno-lint-ignore no-control-regex
+  return text.replace(/[\u0000-\u001f\u007f-\u009f]+/g, " ").slice(0, 300);
+}
+
+/** A request body over the limit: refused without reading further. */
+class TooLarge extends Error {
+  constructor() {
+    super(`request too large (at most ${MAX_BODY / 1024 / 1024} MB)`);
+  }
+}
+
+/**
+ * The body as text, refused by its declared `Content-Length` before any of it is read, and
+ * cut off at the limit when it declares none (or declares less than it sends).
+ */
+async function readBody(req: Request): Promise<string> {
+  const declared = Number(req.headers.get("content-length") ?? "0");
+  if (!(declared <= MAX_BODY)) throw new TooLarge();
+  if (!req.body) return "";
+  const reader = req.body.getReader();
+  const parts: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.length;
+    if (size > MAX_BODY) {
+      await reader.cancel().catch(() => {});
+      throw new TooLarge();
+    }
+    parts.push(value);
+  }
+  const all = new Uint8Array(size);
+  let at = 0;
+  for (const p of parts) {
+    all.set(p, at);
+    at += p.length;
+  }
+  return new TextDecoder().decode(all);
+}
+
 async function readJson<T>(req: Request, schema: z.ZodType<T>): Promise<T> {
-  const text = await req.text();
-  if (text.length > MAX_BODY) throw new BadRequest("request too large");
+  const text = await readBody(req);
   let data: unknown;
   try {
     data = JSON.parse(text);
@@ -188,6 +237,7 @@ export async function startLiveServer(
       case "POST /api/save": {
         await readJson(req, Empty);
         const r = await session.save();
+        if (!r.ok && "error" in r) return json(r, r.reason === "disk-full" ? 507 : 503);
         return json(r, r.ok ? 200 : 409);
       }
       case "POST /api/reload":
@@ -209,11 +259,16 @@ export async function startLiveServer(
       try {
         return await route(req);
       } catch (e) {
+        if (e instanceof TooLarge) return json({ error: e.message }, 413);
         if (e instanceof BadRequest || e instanceof EditRefused) {
           return json({ error: e.message }, 400);
         }
         if (e instanceof UnsafePathError) return json({ error: e.message }, 403);
-        console.error(e);
+        if (e instanceof SaveError) {
+          return json({ error: `${e.message}; your edits are kept in the page` }, 503);
+        }
+        // One line in the terminal, never a trace: the page keeps its state.
+        console.error(`lentil live: ${key(req)} failed: ${oneLine(e)}`);
         return json({ error: "internal error (see the terminal)" }, 500);
       }
     });

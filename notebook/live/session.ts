@@ -23,7 +23,14 @@ import { stringify as stringifyCsv } from "csv-stringify/sync";
 import { Notebook } from "../engine/engine.ts";
 import { decodeNotebook } from "../format/read.ts";
 import { type NotebookDoc, noteStart, parseNotebook, type TableBlock } from "../format/parse.ts";
-import { changedOnDisk, type Fingerprint, fingerprintOf, writeAtomic } from "./save.ts";
+import {
+  changedOnDisk,
+  type Fingerprint,
+  fingerprintOf,
+  SaveError,
+  type SaveFailure,
+  writeAtomic,
+} from "./save.ts";
 import {
   appendLineEdit,
   applyEdit,
@@ -98,7 +105,18 @@ export interface EditResult {
 /** The outcome of a save. */
 export type SaveResult =
   | { readonly ok: true; readonly written: readonly string[]; readonly status: SessionStatus }
-  | { readonly ok: false; readonly conflict: readonly string[]; readonly status: SessionStatus };
+  | { readonly ok: false; readonly conflict: readonly string[]; readonly status: SessionStatus }
+  | {
+    readonly ok: false;
+    readonly conflict: readonly [];
+    /** Why the files could not be written ("cannot save: the disk is full; …"). */
+    readonly error: string;
+    /** What kind of failure. */
+    readonly reason: SaveFailure;
+    /** Files written before the failure (each complete). */
+    readonly written: readonly string[];
+    readonly status: SessionStatus;
+  };
 
 /** An edit the session refuses; nothing was changed. */
 export class EditRefused extends Error {
@@ -154,6 +172,8 @@ export class LiveSession {
   readonly #undo: TextState[] = [];
   readonly #redo: TextState[] = [];
   readonly #renderers: Renderers;
+  /** Set when an edit changed the engine in place (so undoing it means rebuilding). */
+  #touched = false;
 
   private constructor(path: string, renderers: Renderers) {
     this.#path = path;
@@ -249,9 +269,13 @@ export class LiveSession {
     return text;
   }
 
+  #engineOptions() {
+    return { host: { readText: (rel: string) => this.#readCsv(rel) } };
+  }
+
   #rebuild(): string[] {
     this.#doc = parseNotebook(this.#text, this.#path);
-    const options = { host: { readText: (rel: string) => this.#readCsv(rel) } };
+    const options = this.#engineOptions();
     if (!this.#nb) {
       this.#nb = new Notebook(this.#doc, options);
       return this.#nb.evaluateAll();
@@ -321,21 +345,73 @@ export class LiveSession {
     };
   }
 
+  /**
+   * Run a change of the session's state as one step that applies in full or not at all:
+   * when anything in it throws, the text, the CSV texts, the document, the engine, the page
+   * and both undo stacks are put back as they were, and the edit is refused with the reason.
+   */
+  #atomically(change: () => EditResult): EditResult {
+    const kept = {
+      text: this.#text,
+      csv: [...this.#csv.values()].map((e) => [e, e.text] as const),
+      doc: this.#doc,
+      nb: this.#nb,
+      view: this.#view,
+      undo: [...this.#undo],
+      redo: [...this.#redo],
+    };
+    this.#touched = false;
+    try {
+      return change();
+    } catch (e) {
+      if (e instanceof EditRefused) throw e;
+      this.#text = kept.text;
+      for (const [entry, text] of kept.csv) entry.text = text;
+      this.#doc = kept.doc;
+      this.#nb = kept.nb;
+      if (this.#touched) {
+        this.#nb = new Notebook(kept.doc, this.#engineOptions());
+        this.#nb.evaluateAll();
+      }
+      this.#view = kept.view;
+      this.#undo.splice(0, this.#undo.length, ...kept.undo);
+      this.#redo.splice(0, this.#redo.length, ...kept.redo);
+      return {
+        ok: false,
+        error: `the edit was not applied (nothing changed): ${(e as Error).message}`,
+        recomputed: [],
+        patch: this.#samePage(),
+      };
+    }
+  }
+
+  /** A patch that changes nothing on the page (built without rendering it again). */
+  #samePage(): Patch {
+    const v = this.#view;
+    const common = { sources: v.sources, cautions: v.cautions, problems: v.problems };
+    return { cells: [], removed: [], tables: [], plots: [], ...common, status: this.status() };
+  }
+
   /** Apply a text edit of the notebook as one undoable step, re-parse and re-evaluate. */
   #commitText(edit: TextEdit, fast?: { id: string; expression: string }): EditResult {
-    const before = this.#view;
-    this.#push();
-    const oldDoc = this.#doc;
-    this.#text = applyEdit(this.#text, edit);
-    let recomputed: string[];
-    const doc = parseNotebook(this.#text, this.#path);
-    if (fast && this.#sameShape(oldDoc, doc, fast)) {
-      this.#doc = doc;
-      recomputed = this.#nb.update(fast.id, fast.expression);
-    } else {
-      recomputed = this.#rebuild();
-    }
-    return { ok: true, recomputed, patch: this.#patch(before) };
+    return this.#atomically(() => {
+      const before = this.#view;
+      this.#push();
+      const oldDoc = this.#doc;
+      const text = applyEdit(this.#text, edit);
+      const doc = parseNotebook(text, this.#path);
+      this.#text = text;
+      let recomputed: string[];
+      if (fast && this.#sameShape(oldDoc, doc, fast)) {
+        // The engine changes in place: should it fail, it is rebuilt from the old text.
+        this.#touched = true;
+        this.#doc = doc;
+        recomputed = this.#nb.update(fast.id, fast.expression);
+      } else {
+        recomputed = this.#rebuild();
+      }
+      return { ok: true, recomputed, patch: this.#patch(before) };
+    });
   }
 
   /** Whether only the one cell's expression changed, so the engine can update in place. */
@@ -463,11 +539,13 @@ export class LiveSession {
     const entry = this.#csv.get(file)!;
     const next = csvWithRows(entry.text, clean);
     if (next === entry.text) return this.#unchanged();
-    const before = this.#view;
-    this.#push();
-    entry.text = next;
-    const recomputed = this.#rebuild();
-    return { ok: true, recomputed, patch: this.#patch(before) };
+    return this.#atomically(() => {
+      const before = this.#view;
+      this.#push();
+      entry.text = next;
+      const recomputed = this.#rebuild();
+      return { ok: true, recomputed, patch: this.#patch(before) };
+    });
   }
 
   /**
@@ -495,13 +573,15 @@ export class LiveSession {
   }
 
   #step(from: TextState[], to: TextState[]): EditResult {
-    const s = from.pop();
-    if (!s) return { ...this.#unchanged(), ok: false, error: "nothing to undo or redo" };
-    const before = this.#view;
-    to.push(this.#snapshot());
-    this.#restore(s);
-    const recomputed = this.#rebuild();
-    return { ok: true, recomputed, patch: this.#patch(before) };
+    if (!from.length) return { ...this.#unchanged(), ok: false, error: "nothing to undo or redo" };
+    return this.#atomically(() => {
+      const s = from.pop()!;
+      const before = this.#view;
+      to.push(this.#snapshot());
+      this.#restore(s);
+      const recomputed = this.#rebuild();
+      return { ok: true, recomputed, patch: this.#patch(before) };
+    });
   }
 
   /**
@@ -538,14 +618,35 @@ export class LiveSession {
     const conflict = changed.filter((f) => f === basename(this.#path) || dirty.has(f));
     if (conflict.length) return { ok: false, conflict, status: this.status() };
     const written: string[] = [];
-    this.#base = await writeAtomic(this.#path, this.#bytes(this.#text, this.#bom));
-    this.#saved = this.#text;
-    written.push(basename(this.#path));
-    for (const rel of dirty) {
-      const e = this.#csv.get(rel)!;
-      e.base = await writeAtomic(insideFolder(this.#dir, rel), this.#bytes(e.text, e.bom));
-      e.disk = e.text;
-      written.push(rel);
+    // What is written is the state when Save was asked for, even if an edit lands meanwhile.
+    const text = this.#text;
+    const csv = [...dirty].map((rel) =>
+      [rel, this.#csv.get(rel)!, this.#csv.get(rel)!.text] as const
+    );
+    try {
+      this.#base = await writeAtomic(this.#path, this.#bytes(text, this.#bom));
+      this.#saved = text;
+      written.push(basename(this.#path));
+      for (const [rel, e, t] of csv) {
+        e.base = await writeAtomic(insideFolder(this.#dir, rel), this.#bytes(t, e.bom));
+        e.disk = t;
+        written.push(rel);
+      }
+    } catch (e) {
+      if (!(e instanceof SaveError)) throw e;
+      const why = e.reason === "read-only"
+        ? "the folder is read-only"
+        : e.reason === "disk-full"
+        ? "the disk is full"
+        : e.detail;
+      return {
+        ok: false,
+        conflict: [],
+        error: `cannot save: ${why}; your edits are kept in the page`,
+        reason: e.reason,
+        written,
+        status: this.status(),
+      };
     }
     return { ok: true, written, status: this.status() };
   }

@@ -1,0 +1,77 @@
+// Fault injection and extreme input for the live server: oversized request bodies, refused
+// by their declared length or cut off at the limit, without a trace or a large resident copy.
+import assert from "node:assert/strict";
+import { join } from "node:path";
+import { startLiveServer } from "../notebook/live/server.ts";
+
+const F = "```";
+
+async function liveOn(text: string) {
+  const dir = await Deno.makeTempDir({ prefix: "lentil-fault-live-" });
+  const path = join(dir, "a.lentil.md");
+  await Deno.writeTextFile(path, text);
+  const server = await startLiveServer(path);
+  const close = async () => {
+    await server.shutdown();
+    await Deno.remove(dir, { recursive: true });
+  };
+  return { dir, path, server, close };
+}
+
+/** Send raw bytes over TCP and read the answer's status line. */
+async function rawStatus(port: number, head: string, body: Uint8Array): Promise<string> {
+  const conn = await Deno.connect({ hostname: "127.0.0.1", port });
+  try {
+    await conn.write(new TextEncoder().encode(head));
+    await conn.write(body).catch(() => 0);
+    const buf = new Uint8Array(4096);
+    const n = await conn.read(buf);
+    return new TextDecoder().decode(buf.subarray(0, n ?? 0)).split("\r\n")[0];
+  } finally {
+    conn.close();
+  }
+}
+
+Deno.test("a body declared larger than the limit is refused before it is read", async () => {
+  const { server, close } = await liveOn(`${F}lentil\nx = 1\n${F}\n`);
+  try {
+    const head = `POST /api/cell?t=${server.token} HTTP/1.1\r\nHost: 127.0.0.1:${server.port}\r\n` +
+      `Content-Type: application/json\r\nContent-Length: 1073741824\r\n\r\n`;
+    const t0 = performance.now();
+    const status = await rawStatus(server.port, head, new Uint8Array(1024));
+    assert.match(status, / 413 /);
+    assert.ok(performance.now() - t0 < 2000, "answered at once");
+  } finally {
+    await close();
+  }
+});
+
+Deno.test("a streamed body without a length is cut off at the limit (413), and the server goes on", async () => {
+  const { server, close } = await liveOn(`${F}lentil\nx = 1\n${F}\n`);
+  try {
+    const chunk = new Uint8Array(1024 * 1024).fill(0x20);
+    let sent = 0;
+    const body = new ReadableStream<Uint8Array>({
+      pull(c) {
+        // Up to 64 MB offered; the server stops reading after 8 MB.
+        if (sent++ >= 64) c.close();
+        else c.enqueue(chunk);
+      },
+    });
+    const r = await fetch(`${server.origin}/api/cell`, {
+      method: "POST",
+      headers: { "x-lentil-token": server.token, "content-type": "application/json" },
+      body,
+    });
+    assert.equal(r.status, 413);
+    assert.match((await r.json()).error, /too large/);
+    assert.ok(sent < 40, `the server stopped reading (${sent} MB offered)`);
+    const state = await fetch(`${server.origin}/api/state`, {
+      headers: { "x-lentil-token": server.token },
+    });
+    assert.equal(state.status, 200);
+    await state.body?.cancel();
+  } finally {
+    await close();
+  }
+});
