@@ -44,7 +44,7 @@ import { readFrontMatter } from "./_front.ts";
 import type { Fenced } from "./_fence.ts";
 import { readFormulaBlock } from "./_formula_block.ts";
 import { readPlotBlock } from "./_plot_block.ts";
-import { readTableBlock, TABLE_OPTION_KEYS } from "./_table_block.ts";
+import { readTableBlock, type TABLE_OPTION_KEYS } from "./_table_block.ts";
 import { type Line, type ReadContext, splitLines } from "./_text.ts";
 
 export { isLiteral, NAME_PATTERN, noteStart, optionValue } from "./_text.ts";
