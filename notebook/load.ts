@@ -12,7 +12,8 @@
  * @module
  */
 
-import { dirname, join } from "node:path";
+import { dirname } from "node:path";
+import { checkedTableFile, type TableFilePolicy } from "./engine/_table_file.ts";
 import { Notebook } from "./engine/engine.ts";
 import { decodeNotebookLenient } from "./format/read.ts";
 import type { Diagnostic } from "./format/diagnostic.ts";
@@ -63,7 +64,8 @@ export async function readNotebookBytes(path: string): Promise<Uint8Array> {
 }
 
 /**
- * Build and evaluate a notebook from its bytes; CSV tables are streamed from `path`'s folder.
+ * Build and evaluate a notebook from its bytes; CSV tables are streamed from `path`'s folder
+ * (regular files only, no symbolic links unless `policy.followLinks`).
  *
  * @example
  * ```ts
@@ -72,14 +74,19 @@ export async function readNotebookBytes(path: string): Promise<Uint8Array> {
  * r.ok; // true
  * ```
  */
-export async function notebookFromBytes(bytes: Uint8Array, path: string): Promise<LoadResult> {
+export async function notebookFromBytes(
+  bytes: Uint8Array,
+  path: string,
+  policy: TableFilePolicy = {},
+): Promise<LoadResult> {
   const decoded = decodeNotebookLenient(bytes, path);
   const dir = dirname(path);
   const notebook = await Notebook.load(decoded.text, path, {
     encoding: decoded.diagnostics,
     host: {
-      readText: (rel) => Deno.readTextFileSync(join(dir, rel)),
-      open: (rel) => openStream(join(dir, rel)),
+      // Only regular files in the notebook's folder tree (no links, devices or pipes).
+      readText: (rel) => Deno.readTextFileSync(checkedTableFile(dir, rel, policy)),
+      open: (rel) => openStream(checkedTableFile(dir, rel, policy)),
     },
   });
   return { ok: true, notebook, bytes };
@@ -102,6 +109,9 @@ function openStream(path: string): AsyncIterable<Uint8Array> {
  * ```
  * @throws {NotebookFileError} when the file cannot be read.
  */
-export async function loadNotebook(path: string): Promise<LoadResult> {
-  return notebookFromBytes(await readNotebookBytes(path), path);
+export async function loadNotebook(
+  path: string,
+  policy: TableFilePolicy = {},
+): Promise<LoadResult> {
+  return notebookFromBytes(await readNotebookBytes(path), path, policy);
 }

@@ -49,7 +49,12 @@ export interface TableProblem {
 /** How a column's text becomes values. */
 export type ColumnKind =
   | { readonly type: "quantity"; readonly unit: string }
-  | { readonly type: "number"; readonly unit: string }
+  | {
+    readonly type: "number";
+    readonly unit: string;
+    /** Read as numbers because the first rows all were (no bracket in the header). */
+    readonly inferred?: boolean;
+  }
   | { readonly type: "text" }
   | { readonly type: "infer" }
   | { readonly type: "value"; readonly name: string };
@@ -131,6 +136,23 @@ export function readNumber(text: string): number | undefined {
   return NUMBER.test(text) ? Number(text) : undefined;
 }
 
+/**
+ * Whether reading `text` as a number would change what it says: a leading zero before a
+ * digit (`08123`, `012`: identifiers such as subject numbers or postal codes) or more
+ * significant digits than a double keeps (a record number of 17 digits).
+ *
+ * @example
+ * ```ts
+ * import { numberWouldChange } from "./_tables.ts";
+ * [numberWouldChange("08123"), numberWouldChange("0.5"), numberWouldChange("-1.25")]; // [true, false, false]
+ * ```
+ */
+export function numberWouldChange(text: string): boolean {
+  if (/^[+-]?0\d/.test(text)) return true;
+  const digits = text.replace(/e.*$/i, "").replace(/[^0-9]/g, "").replace(/^0+/, "");
+  return digits.replace(/0+$/, "").length > 15;
+}
+
 /** A growable Float64Array. */
 class NumberBuffer {
   data = new Float64Array(1024);
@@ -179,8 +201,13 @@ function resolveKinds(
       return { type: "text" };
     }
     if (k.type !== "infer") return k;
-    const numeric = sample.every((r) => readNumber(r[ci] ?? "") !== undefined);
-    return numeric ? { type: "number", unit: "" } : { type: "text" };
+    // A value a number would change (a leading zero, more digits than a number holds) is
+    // an identifier: the column keeps its text, so `08123` and `012` stay as written.
+    const numeric = sample.every((r) => {
+      const t = r[ci] ?? "";
+      return readNumber(t) !== undefined && !numberWouldChange(t);
+    });
+    return numeric ? { type: "number", unit: "", inferred: true } : { type: "text" };
   });
   return { kinds, problems };
 }
@@ -267,6 +294,14 @@ export class TableBuilder {
           const x = readNumber(text);
           if (x === undefined) {
             at(`column ${col.name}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`);
+            this.#parsed[ci] = NaN;
+            continue;
+          }
+          if (k.type === "number" && k.inferred && numberWouldChange(text)) {
+            // Met after the rows the column's kind was read from: never silently changed.
+            at(
+              `column ${col.name}: "${text}" would lose its digits as a number; declare the column as ${col.name} [text] to keep identifiers as written`,
+            );
             this.#parsed[ci] = NaN;
             continue;
           }

@@ -259,6 +259,10 @@ export class LiveSession {
     const hit = this.#csv.get(rel);
     if (hit) return hit.text;
     const full = insideFolder(this.#dir, rel);
+    // A device or pipe would never end (or never answer): only a regular file is read.
+    if (!Deno.statSync(full).isFile) {
+      throw new Error("it is not a regular file (a device, pipe or folder?)");
+    }
     const bytes = Deno.readFileSync(full);
     const mtime = Deno.statSync(full).mtime?.getTime() ?? 0;
     const bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;

@@ -41,6 +41,7 @@ import { parseNotebook, type TableBlock } from "../format/parse.ts";
 import { Notebook } from "../engine/engine.ts";
 import { CAUTIONS } from "../../shared/cautions.ts";
 import { createTempBeside } from "./_temp.ts";
+import { checkedTableFile } from "../engine/_table_file.ts";
 import { type ColumnPlan, planColumn } from "../engine/_columns.ts";
 import {
   CsvReadError,
@@ -58,6 +59,8 @@ export interface StreamOptions {
   readonly out?: string;
   /** Replace an existing output file. */
   readonly overwrite?: boolean;
+  /** Let the table file be reached through a symbolic link (default: refused). */
+  readonly followLinks?: boolean;
   /** Rows per chunk (default 16,384). */
   readonly chunkRows?: number;
   /** Called after each chunk with the rows read so far (for progress or memory sampling). */
@@ -377,7 +380,10 @@ export async function streamNotebook(
   const chunkRows = options.chunkRows ?? 8192;
   let file: Deno.FsFile;
   try {
-    file = await Deno.open(input);
+    // A regular file in the notebook's folder tree only: no link, device or pipe.
+    file = await Deno.open(
+      checkedTableFile(dir, block.options.file!.value, { followLinks: options.followLinks }),
+    );
   } catch (e) {
     const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
     throw new StreamSetupError(`cannot read table file ${input}: ${why}`);

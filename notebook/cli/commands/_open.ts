@@ -7,12 +7,17 @@
 import type { CliIo } from "../command.ts";
 import type { Notebook } from "../../engine/engine.ts";
 import { loadNotebook, NotebookFileError } from "../../load.ts";
+import type { TableFilePolicy } from "../../engine/_table_file.ts";
 import { formatDiagnostic } from "../../format/diagnostic.ts";
 
 /** Load `file`; on failure print a one-line message and return undefined. */
-export async function openNotebook(file: string, io: CliIo): Promise<Notebook | undefined> {
+export async function openNotebook(
+  file: string,
+  io: CliIo,
+  policy: TableFilePolicy = {},
+): Promise<Notebook | undefined> {
   try {
-    const r = await loadNotebook(file);
+    const r = await loadNotebook(file, policy);
     if (!r.ok) {
       io.err(formatDiagnostic(r.diagnostic));
       return undefined;

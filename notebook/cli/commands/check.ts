@@ -18,10 +18,15 @@ export const checkCommand: Command = {
   help: "Parses and evaluates FILE, checks its plot blocks, and prints one line\n" +
     "FILE:LINE:COL: message for each problem.\n" +
     "Exit status: 0 when clean (warnings allowed), 1 when any error was found.",
-  options: {},
+  options: {
+    "follow-links": {
+      type: "boolean",
+      doc: "let file: tables follow symbolic links (to regular files only)",
+    },
+  },
   positionals: [1, 1],
-  async run([file], _options, io) {
-    const nb = await openNotebook(file, io);
+  async run([file], options, io) {
+    const nb = await openNotebook(file, io, { followLinks: !!options["follow-links"] });
     if (!nb) return 1;
     // Plot blocks are checked too: their columns, cells and options are validated as the
     // export would draw them.

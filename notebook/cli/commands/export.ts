@@ -38,6 +38,10 @@ export const exportCommand: Command = {
     out: { type: "string", short: "o", value: "OUT.html", doc: "where to write the page" },
     data: { type: "boolean", doc: "embed each table's full data as CSV" },
     rows: { type: "string", value: "N", doc: "rows of a table shown before it is cut (25)" },
+    "follow-links": {
+      type: "boolean",
+      doc: "let file: tables follow symbolic links (to regular files only)",
+    },
   },
   positionals: [1, 1],
   async run([file], options, io) {
@@ -56,7 +60,9 @@ export const exportCommand: Command = {
       }
       throw e;
     }
-    const loaded = await notebookFromBytes(bytes, file);
+    const loaded = await notebookFromBytes(bytes, file, {
+      followLinks: !!options["follow-links"],
+    });
     if (!loaded.ok) {
       io.err(formatDiagnostic(loaded.diagnostic));
       return 1;

@@ -73,10 +73,16 @@ export const runCommand: Command = {
     "the numbers of the sources it used, then the numbered sources and any cautions.\n" +
     "Problems no cell shows (an unterminated block, a bad CSV row) are listed at the end.\n" +
     "Exit status: 0 when every cell evaluated, 1 when any cell or the file has an error.",
-  options: { json: { type: "boolean", doc: "print the results as JSON" } },
+  options: {
+    json: { type: "boolean", doc: "print the results as JSON" },
+    "follow-links": {
+      type: "boolean",
+      doc: "let file: tables follow symbolic links (to regular files only)",
+    },
+  },
   positionals: [1, 1],
   async run([file], options, io) {
-    const opened = await openNotebook(file, io);
+    const opened = await openNotebook(file, io, { followLinks: !!options["follow-links"] });
     if (!opened) return 1;
     const report = buildReport(opened);
     const problems = otherProblems(opened, report);

@@ -30,6 +30,10 @@ export const streamCommand: Command = {
     table: { type: "string", value: "NAME", doc: "the table to stream (when there are several)" },
     overwrite: { type: "boolean", doc: "replace the output file if it exists" },
     json: { type: "boolean", doc: "print the outcome as JSON" },
+    "follow-links": {
+      type: "boolean",
+      doc: "let file: tables follow symbolic links (to regular files only)",
+    },
   },
   positionals: [1, 1],
   async run([file], options, io) {
@@ -39,6 +43,7 @@ export const streamCommand: Command = {
         out: options.out as string | undefined,
         table: options.table as string | undefined,
         overwrite: !!options.overwrite,
+        followLinks: !!options["follow-links"],
       });
     } catch (e) {
       if (e instanceof StreamSetupError || e instanceof Deno.errors.NotFound) {
