@@ -24,10 +24,14 @@ import type { RxValue } from "./rx.ts";
 import type { AmplitudeLevel } from "../lib/accommodation.ts";
 import { nearDemand, tentativeAdd, WORKING_DISTANCE_RANGE_CM } from "../lib/near.ts";
 import {
+  blankSize,
   COMMON_INDICES,
   DEFAULT_FRONT_CURVE,
   DIAMETER_RANGE,
+  EDGING_ALLOWANCE,
   frameDiameter,
+  type FrameEdges,
+  frameEdges,
   INDEX_RANGE,
   lensThickness,
   surfaceRadius,
@@ -42,6 +46,50 @@ import {
   type ToleranceReport,
 } from "../lib/tolerance.ts";
 import { REFERENCE_VALUES } from "../shared/constants.ts";
+
+/** Edge thickness where the frame is, as a value of the formula language. */
+export class FrameEdgesValue {
+  /** @param edges the estimate at the four edges of the frame. */
+  constructor(readonly edges: FrameEdges) {}
+}
+
+const mm = (v: number) => `${v.toFixed(2)} mm`;
+const edgeWords = (e: FrameEdges["thickest"]) =>
+  `${mm(e.thickness)} at the ${e.edge} edge (${
+    e.meridian === 180 ? "horizontal" : "vertical"
+  } meridian, ${e.meridian}°)`;
+
+/** The `frameEdges` value type. */
+export const FRAME_EDGES_TYPE = defineValueType<FrameEdgesValue>({
+  name: "frameEdges",
+  summary: "edge thickness at the nasal, temporal, upper and lower edges of a frame",
+  is: (x): x is FrameEdgesValue => x instanceof FrameEdgesValue,
+  display: (v) =>
+    `thickest ${edgeWords(v.edges.thickest)}; centre ${mm(v.edges.centre)}, ${
+      v.edges.edges.map((e) => `${e.edge} ${mm(e.thickness)}`).join(", ")
+    }`,
+  headline: (v) => `thickest ${edgeWords(v.edges.thickest)}`,
+  parts: (v) => [
+    { key: "centre", label: "centre thickness", value: quantity(v.edges.centre, "mm") },
+    ...v.edges.edges.map((e) => ({
+      key: e.edge,
+      label: `${e.edge} edge, ${mm(e.distance)} from the optical centre`,
+      value: quantity(e.thickness, "mm"),
+    })),
+    {
+      key: "thickest",
+      label: "thickest edge",
+      value: quantity(v.edges.thickest.thickness, "mm"),
+      display: edgeWords(v.edges.thickest),
+    },
+    {
+      key: "thickestMeridian",
+      label: "meridian of the thickest edge",
+      value: quantity(v.edges.thickest.meridian, "deg"),
+    },
+  ],
+  json: (v) => v.edges,
+});
 
 /** A verification result as a value of the formula language. */
 export class ToleranceReportValue {
@@ -297,7 +345,7 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     name: "frameDiameter",
     group: "thickness",
     summary:
-      "Smallest uncut lens for a frame: twice the distance from the optical centre to the farthest box corner, plus a margin (an upper bound).",
+      "Fallback blank size when the frame's effective diameter is not known: twice the distance from the optical centre to the farthest box corner, plus a margin. An upper bound that can refuse a strong lens the frame would take; use blankSize with the ED when you have it.",
     params: [
       { name: "boxA", type: "quantity", unit: "mm", range: [20, 80], doc: "box width A" },
       { name: "boxB", type: "quantity", unit: "mm", range: [10, 80], doc: "box depth B" },
@@ -323,6 +371,89 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     caution: true,
     example: "frameDiameter(52 mm, 40 mm, 3 mm)",
     fn: (a, b, dec, m) => frameDiameter(a as number, b as number, dec as number, m as number),
+  }),
+  defineFormula({
+    name: "blankSize",
+    group: "thickness",
+    summary:
+      "Minimum blank for a frame by the trade's rule: effective diameter + 2 × decentration + an allowance for edging (about 2 mm).",
+    params: [
+      {
+        name: "ed",
+        type: "quantity",
+        unit: "mm",
+        range: [20, 90],
+        doc: "the frame's effective diameter (twice its longest radius from the box centre)",
+      },
+      {
+        name: "decentration",
+        type: "quantity",
+        unit: "mm",
+        range: [-15, 15],
+        doc: "optical centre from the box centre, in or out",
+      },
+      {
+        name: "allowance",
+        type: "quantity",
+        unit: "mm",
+        range: [0, 10],
+        optional: true,
+        default: EDGING_ALLOWANCE,
+        doc: "allowance for edging (default 2 mm)",
+      },
+    ],
+    returns: { type: "quantity", unit: "mm", doc: "minimum blank diameter" },
+    sources: ["minimum-blank"],
+    caution: true,
+    example: "blankSize(57 mm, 5 mm)",
+    fn: (ed, dec, a) => blankSize(ed as number, dec as number, a as number),
+  }),
+  defineFormula({
+    name: "frameEdges",
+    group: "thickness",
+    summary:
+      "Edge thickness where the frame is: at the nasal, temporal, upper and lower edges of the box from the decentred optical centre, each in its own meridian's power, and the thickest edge with its meridian (thin-lens estimate).",
+    params: [
+      { name: "rx", type: "rx", doc: "the lens power" },
+      INDEX,
+      { name: "boxA", type: "quantity", unit: "mm", range: [20, 80], doc: "box width A" },
+      { name: "boxB", type: "quantity", unit: "mm", range: [10, 80], doc: "box depth B" },
+      {
+        name: "decentration",
+        type: "quantity",
+        unit: "mm",
+        range: [-15, 15],
+        doc: "optical centre from the box centre toward the nose (negative: toward the temple)",
+      },
+      MIN_THICKNESS,
+      FRONT,
+      {
+        name: "verticalDecentration",
+        type: "quantity",
+        unit: "mm",
+        range: [-15, 15],
+        optional: true,
+        default: 0,
+        doc: "optical centre above the box centre (negative: below; default 0 mm)",
+      },
+    ],
+    returns: {
+      type: "frameEdges",
+      doc: "centre, nasal, temporal, upper, lower, thickest (mm) and thickestMeridian",
+    },
+    sources: ["jalie-lenses", "sine-squared", "common-practice"],
+    caution: true,
+    example: 'frameEdges(rx("-4.00 / -2.00 x 90"), 1.6, 54 mm, 40 mm, 3 mm, 1.5 mm)',
+    fn: (r, n, a, b, dec, t, f, dy) =>
+      new FrameEdgesValue(frameEdges(rxOf(r), {
+        index: n as number,
+        boxA: a as number,
+        boxB: b as number,
+        decentration: dec as number,
+        verticalDecentration: dy as number,
+        minThickness: t as number,
+        frontCurve: f as number,
+      })),
   }),
   defineFormula({
     name: "trueLensPower",

@@ -103,6 +103,12 @@ const entries: readonly Source[] = [
     status: "from-memory",
   },
   {
+    id: "minimum-blank",
+    citation:
+      "Minimum blank size = effective diameter (ED) + 2 × decentration per lens + about 2 mm for edging; ED is the frame's longest diameter through the box centre, smaller than the box diagonal.",
+    status: "common-practice",
+  },
+  {
     id: "lens-measure",
     citation:
       "Lens measure (lens clock) correction F_true = F_read × (n − 1)/(n_tool − 1), tool usually calibrated for n = 1.53.",

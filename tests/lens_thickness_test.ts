@@ -1,8 +1,11 @@
 import assert from "node:assert/strict";
 import {
+  blankSize,
   COMMON_INDICES,
   frameDiameter,
+  frameEdges,
   lensThickness,
+  steepnessLimits,
   surfaceRadius,
   surfaceSag,
   thicknessByIndex,
@@ -125,4 +128,93 @@ Deno.test("lens measure: true power for another index", () => {
   near(trueLensPower(4, 1.53), 4);
   near(trueLensPower(5, 1.6, 1.5), 6);
   assert.throws(() => trueLensPower(4, 1.2), /1.4–1.9/);
+});
+
+Deno.test("minimum blank: ED + 2 × decentration + 2 mm (common practice, no source)", () => {
+  assert.equal(blankSize(57, 5), 69);
+  assert.equal(blankSize(57, -5, 0), 67);
+  assert.throws(() => blankSize(57, 20), LentilRangeError);
+  // a 54 × 40 box with the centre 5 mm in: the box-corner fallback says 77.5 mm, too large
+  // for a −10.00 D lens on a +4.00 D front in 1.50 (the back is −14.00 D, radius 35.7 mm)
+  const lens = { sphere: -10, cylinder: 0, axis: 180 };
+  const options = { index: 1.5, minThickness: 1.5, frontCurve: 4 };
+  near(frameDiameter(54, 40, 5), 2 * Math.hypot(32, 20) + 2);
+  assert.throws(() => lensThickness(lens, { ...options, diameter: frameDiameter(54, 40, 5) }));
+  // the frame's ED (57 mm, invented) gives a 69 mm blank, which the lens reaches
+  const t = lensThickness(lens, { ...options, diameter: blankSize(57, 5) });
+  near(t.centre, 1.5);
+  near(t.edgeThick, 1.5 + sag(500 / 14, 34.5) - sag(500 / 4, 34.5));
+});
+
+Deno.test("a lens too steep for its size: the diameter or front curve that would work", () => {
+  const lens = { sphere: -10, cylinder: 0, axis: 180 };
+  let message = "";
+  try {
+    lensThickness(lens, { index: 1.5, diameter: 77.5, minThickness: 1.5, frontCurve: 4 });
+  } catch (e) {
+    assert.ok(e instanceof LentilInputError);
+    message = e.message;
+  }
+  // every surface's semi-diameter at most its radius 1000·(n − 1)/|F| (Jalie, from memory):
+  // the −14.00 D back reaches 2 · 500/14 = 71.4 mm; at 77.5 mm a front up to +2.90 D fits
+  assert.match(message, /diameter of 71\.0 mm or less/);
+  assert.match(message, /flatter front curve of \+2\.75 D/);
+  assert.doesNotMatch(message, /\d\.\d{3,}/, "numbers by the display rules, not raw floats");
+  const limits = steepnessLimits([-10], 4, 1.5, 77.5);
+  near(limits.largestDiameter, 1000 / 14);
+  near(limits.frontCurves![1], 500 / 38.75 - 10);
+  // the suggestion works
+  assert.ok(lensThickness(lens, { index: 1.5, diameter: 71, minThickness: 1.5, frontCurve: 4 }));
+  assert.ok(
+    lensThickness(lens, { index: 1.5, diameter: 77.5, minThickness: 1.5, frontCurve: 2.75 }),
+  );
+  assert.doesNotMatch(
+    (() => {
+      try {
+        surfaceSag(35.714285714, 38.75);
+      } catch (e) {
+        return (e as Error).message;
+      }
+      return "";
+    })(),
+    /\d\.\d{3,}/,
+  );
+});
+
+Deno.test("edge thickness where the frame is: four edges and the thickest with its meridian", () => {
+  // −4.00 / −2.00 × 90 in 1.60 on a +4.00 D front, box 54 × 40, centre 3 mm in: the
+  // horizontal meridian is −6.00 D, the vertical −4.00 D (F(θ) = S + C·sin²(θ − axis),
+  // common textbook result); each edge is the minimum + back sag − front sag at its distance
+  // (Jalie, from memory)
+  const e = frameEdges({ sphere: -4, cylinder: -2, axis: 90 }, {
+    index: 1.6,
+    boxA: 54,
+    boxB: 40,
+    decentration: 3,
+    minThickness: 1.5,
+  });
+  const edge = (y: number, f: number) => 1.5 + sag(600 / Math.abs(f - 4), y) - sag(600 / 4, y);
+  near(e.centre, 1.5);
+  const by = (name: string) => e.edges.find((x) => x.edge === name)!;
+  near(by("nasal").thickness, edge(24, -6));
+  near(by("temporal").thickness, edge(30, -6));
+  near(by("upper").thickness, edge(20, -4));
+  near(by("lower").thickness, edge(20, -4));
+  assert.equal(e.thickest.edge, "temporal");
+  assert.equal(e.thickest.meridian, 180);
+  near(by("temporal").power, -6);
+  // a plus lens: the thinnest of the four edges is held at the minimum
+  const plus = frameEdges({ sphere: 3, cylinder: 0, axis: 180 }, {
+    index: 1.5,
+    boxA: 50,
+    boxB: 36,
+    decentration: 2,
+    verticalDecentration: -1,
+    minThickness: 1,
+    frontCurve: 7,
+  });
+  near(plus.thinnest.thickness, 1);
+  assert.equal(plus.thinnest.edge, "temporal");
+  near(plus.centre, 1 + sag(500 / 7, 27) - sag(500 / 4, 27));
+  near(plus.edges.find((x) => x.edge === "lower")!.distance, 17);
 });
