@@ -46,7 +46,9 @@ export interface ParamSpec {
   readonly type: BuiltinType | string;
   /**
    * For `quantity`: the unit the `lib` function expects. A notebook value in any
-   * compatible unit is converted; a bare number is read in this unit.
+   * compatible unit is converted; a bare number is refused (the message shows the value
+   * with this unit), so `1.2` can never be read as 1.2 mm by accident. Parameters of type
+   * `number` or `integer` are unitless and take bare numbers.
    */
   readonly unit?: string;
   /** Inclusive accepted range, in `unit`. */
@@ -55,9 +57,18 @@ export interface ParamSpec {
   readonly optional?: boolean;
   /** Value used when the argument is left out (already in `unit`). */
   readonly default?: unknown;
+  /** For `text`: the words accepted; anything else is refused with this list. */
+  readonly choices?: readonly string[];
   /** One line: what the parameter is. */
   readonly doc: string;
 }
+
+/**
+ * One named option of a formula: a setting given by name in an options record written as
+ * the last argument, `endpoint(trials, {tolerance: 0.05, model: "peak"})`. Declared like a
+ * parameter; an option is always optional and takes its `default` when left out.
+ */
+export type OptionSpec = Omit<ParamSpec, "optional">;
 
 /** What a formula returns. */
 export interface ReturnSpec {
@@ -87,6 +98,11 @@ export interface FormulaSpec {
   readonly params: readonly ParamSpec[];
   /** The last parameter may repeat. */
   readonly variadic?: boolean;
+  /**
+   * Settings given by name in a record after the arguments (`{step: 0.125 D}`). A
+   * misspelt name is refused with the list of valid ones.
+   */
+  readonly options?: readonly OptionSpec[];
   /** Declared result. */
   readonly returns: ReturnSpec;
   /** Ids in the sources registry. */
@@ -95,7 +111,10 @@ export interface FormulaSpec {
   readonly caution?: boolean;
   /** A notebook expression that calls the formula; the docs test runs it. */
   readonly example: string;
-  /** The implementation: receives converted arguments, returns the declared result. */
+  /**
+   * The implementation: receives the converted arguments in `params` order, then each
+   * option in `options` order (its `default` when not given), and returns the declared result.
+   */
   readonly fn: (...args: unknown[]) => unknown;
 }
 
@@ -156,9 +175,27 @@ export function defineFormula(spec: FormulaSpec): FormulaSpec {
     throw new CatalogueError(`formula ${spec.name} must cite at least one source`);
   }
   checkSources(`formula ${spec.name}`, spec.sources);
-  for (const p of spec.params) {
+  for (const p of [...spec.params, ...(spec.options ?? [])]) {
     if (p.type === "quantity" && !p.unit) {
       throw new CatalogueError(`formula ${spec.name}: quantity parameter ${p.name} needs a unit`);
+    }
+    if (p.choices && p.type !== "text") {
+      throw new CatalogueError(`formula ${spec.name}: ${p.name} has choices but is not text`);
+    }
+  }
+  if (spec.options?.length) {
+    if (spec.variadic) {
+      throw new CatalogueError(`formula ${spec.name}: a repeating formula cannot take options`);
+    }
+    const names = new Set<string>();
+    for (const o of spec.options) {
+      if (!NAME.test(o.name)) {
+        throw new CatalogueError(`formula ${spec.name}: option "${o.name}" must be camelCase`);
+      }
+      if (names.has(o.name) || spec.params.some((p) => p.name === o.name)) {
+        throw new CatalogueError(`formula ${spec.name}: option ${o.name} is declared twice`);
+      }
+      names.add(o.name);
     }
   }
   return spec;

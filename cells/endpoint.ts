@@ -131,26 +131,27 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
         optional: true,
         doc: "acuity column: logMAR numbers, acuity text, or letters read per line (default va)",
       },
+    ],
+    options: [
       {
         name: "tolerance",
         type: "number",
         range: [0, 0.5],
-        optional: true,
         default: 0.02,
         doc: "logMAR within which a reading counts as best (default 0.02, one letter)",
       },
       {
         name: "repeats",
         type: "text",
-        optional: true,
         default: "report",
+        choices: ["report", "mean"],
         doc: 'a power repeated with different readings: "report" (an error) or "mean"',
       },
       {
         name: "model",
         type: "text",
-        optional: true,
         default: "auto",
+        choices: ["auto", "peak", "hinge"],
         doc: 'through-focus model: "auto", "peak" or "hinge"',
       },
       {
@@ -158,13 +159,11 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
         type: "quantity",
         unit: "years",
         range: [0, 100],
-        optional: true,
         doc: "age, to check the plateau against the accommodation expected",
       },
       {
         name: "chart",
         type: "table",
-        optional: true,
         doc:
           "chart lines (size, letters) for letters-per-line readings (default 1.0 to −0.3, 5 letters)",
       },
@@ -174,12 +173,6 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
     caution: true,
     example: "endpoint(throughFocus(-1 D, 4 mm, 1 D))",
     fn: (t, pc, ac, tol, repeats, model, age, chart) => {
-      if (repeats !== "report" && repeats !== "mean") {
-        throw new LentilInputError(`repeats must be "report" or "mean" (got "${repeats}")`);
-      }
-      if (model !== "auto" && model !== "peak" && model !== "hinge") {
-        throw new LentilInputError(`model must be "auto", "peak" or "hinge" (got "${model}")`);
-      }
       const table = t as TableValue;
       const rows = trialRows(
         table,
@@ -190,7 +183,7 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
       return new EndpointValue(
         findEndpoint(rows, {
           tolerance: tol as number,
-          duplicates: repeats,
+          duplicates: repeats as "report" | "mean",
           model: model as FocusModel | "auto",
           age: age as number | undefined,
         }),

@@ -16,13 +16,13 @@
  */
 
 import type { MathNode, Unit } from "mathjs";
-import type { Catalogue, FormulaSpec, ParamSpec } from "./catalogue.ts";
-import { Column, isTable, tableInfo } from "./table.ts";
-import { DEFAULT_DISPLAY, type DisplayOptions, getValueType, typeOfValue } from "./types.ts";
+import type { Catalogue, FormulaSpec } from "./catalogue.ts";
+import { Column, tableInfo } from "./table.ts";
+import { DEFAULT_DISPLAY, type DisplayOptions, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
 import { CATALOGUE } from "./mod.ts";
+import { bindFormula } from "./_arguments.ts";
 import {
-  columnToArray,
   formulaMath,
   isExact,
   isUnsigned,
@@ -33,15 +33,7 @@ import {
 } from "./quantity.ts";
 
 export { LENTIL_UNITS } from "./quantity.ts";
-
-/** A formula call whose arguments do not fit its declaration. */
-export class FormulaArgumentError extends TypeError {
-  /** @param formula formula name; @param message what was wrong. */
-  constructor(readonly formula: string, message: string) {
-    super(`${formula}: ${message}`);
-    this.name = "FormulaArgumentError";
-  }
-}
+export { FormulaArgumentError } from "./_arguments.ts";
 
 /** An expression that does not parse; `offset` is zero-based within the expression. */
 export class ExpressionSyntaxError extends SyntaxError {
@@ -170,103 +162,14 @@ function buildLanguage(catalogue: Catalogue): Language {
   const parse = math.parse;
   const unitOf = quantity;
 
-  const convertArg = (spec: FormulaSpec, p: ParamSpec, x: unknown): unknown => {
-    if (x === undefined) {
-      if (p.optional) return p.default;
-      throw new FormulaArgumentError(spec.name, `missing argument ${p.name} (${p.doc})`);
-    }
-    const fail = (why: string) => new FormulaArgumentError(spec.name, `${p.name}: ${why}`);
-    switch (p.type) {
-      case "quantity":
-      case "number":
-      case "integer": {
-        let n: number;
-        try {
-          n = toNumberIn(x, p.type === "quantity" ? p.unit! : "");
-        } catch (e) {
-          throw fail((e as Error).message);
-        }
-        if (!Number.isFinite(n)) throw fail(`must be a finite number (got ${n})`);
-        if (p.type === "integer" && !Number.isInteger(n)) {
-          throw fail(`must be a whole number (got ${n})`);
-        }
-        if (p.range && (n < p.range[0] || n > p.range[1])) {
-          const u = p.unit ? ` ${p.unit}` : "";
-          throw fail(
-            `${formatNumber(n)}${u} is outside the accepted range ${p.range[0]}–${p.range[1]}${u}`,
-          );
-        }
-        return n;
-      }
-      case "text":
-        if (typeof x !== "string") throw fail(`expected text in quotes, got ${kindOf(x)}`);
-        return x;
-      case "boolean":
-        if (typeof x !== "boolean") throw fail(`expected true or false, got ${kindOf(x)}`);
-        return x;
-      case "list":
-        if (math.isMatrix(x)) return (x as { toArray(): unknown[] }).toArray();
-        if (x instanceof Column) return columnToArray(x);
-        if (Array.isArray(x)) return x;
-        throw fail(`expected a list [..] or a column, got ${kindOf(x)}`);
-      case "column":
-        if (x instanceof Column) return x;
-        throw fail(`expected a table column (table.column), got ${kindOf(x)}`);
-      case "table":
-        if (isTable(x)) return x;
-        throw fail(`expected a table, got ${kindOf(x)}`);
-      case "any":
-        return x;
-      default: {
-        const t = getValueType(p.type);
-        if (!t) throw fail(`unknown parameter type ${p.type}`);
-        if (t.is(x)) return x;
-        if (typeof x === "string" && t.fromText) {
-          try {
-            return t.fromText(x);
-          } catch (e) {
-            throw fail((e as Error).message);
-          }
-        }
-        throw fail(`expected ${t.summary}, got ${kindOf(x)}`);
-      }
-    }
-  };
-
-  const bind = (spec: FormulaSpec) => {
-    const wrapped = (...args: unknown[]) => {
-      const n = spec.params.length;
-      if (args.length > n && !spec.variadic) {
-        throw new FormulaArgumentError(
-          spec.name,
-          `takes at most ${n} argument${n === 1 ? "" : "s"}, got ${args.length}`,
-        );
-      }
-      const converted: unknown[] = [];
-      for (let i = 0; i < Math.max(n, args.length); i++) {
-        const p = spec.params[Math.min(i, n - 1)];
-        converted.push(convertArg(spec, p, args[i]));
-      }
-      let out: unknown;
-      try {
-        out = spec.fn(...converted);
-      } catch (e) {
-        if (e instanceof FormulaArgumentError) throw e;
-        const err = e as Error;
-        const wrappedErr = new Error(`${spec.name}: ${err.message}`);
-        wrappedErr.name = err.name;
-        throw wrappedErr;
-      }
-      if (spec.returns.type === "quantity" && typeof out === "number") {
-        if (!spec.returns.unit) return out;
+  const bind = (spec: FormulaSpec) =>
+    bindFormula(spec, (out) => {
+      if (spec.returns.type === "quantity" && typeof out === "number" && spec.returns.unit) {
         const q = unitOf(out, spec.returns.unit);
         return spec.returns.display === "exact" ? markExact(q) : q;
       }
       return out;
-    };
-    Object.defineProperty(wrapped, "name", { value: spec.name });
-    return wrapped;
-  };
+    });
 
   const imports: Record<string, unknown> = {};
   for (const spec of catalogue.formulas.values()) imports[spec.name] = bind(spec);
@@ -391,17 +294,4 @@ function buildLanguage(catalogue: Catalogue): Language {
     toNumberIn,
     describe,
   };
-}
-
-function kindOf(x: unknown): string {
-  if (x === null || x === undefined) return "nothing";
-  if (typeof x === "string") return `text "${x}"`;
-  if (typeof x === "number") return `the number ${x}`;
-  if (x instanceof Column) return `column ${x.name}`;
-  if (isTable(x)) return "a table";
-  const t = typeOfValue(x);
-  if (t) return `a ${t.name}`;
-  if ((x as { type?: string }).type === "Unit") return `${String(x)}`;
-  if (Array.isArray(x)) return "a list";
-  return typeof x;
 }

@@ -14,7 +14,7 @@
  */
 
 import { CATALOGUE } from "../cells/mod.ts";
-import type { FormulaSpec, ParamSpec } from "../cells/catalogue.ts";
+import type { FormulaSpec, OptionSpec, ParamSpec } from "../cells/catalogue.ts";
 import { getSource, statusLabel } from "../shared/sources.ts";
 
 /** Marker lines around the generated reference in the README. */
@@ -42,20 +42,29 @@ export function returnsText(r: { type: string; unit?: string; doc: string }): st
   return record ? `Returns a record: ${r.doc.slice(record[0].length)}` : `Returns ${r.doc}`;
 }
 
+function defaultText(p: OptionSpec): string {
+  if (p.default === undefined) return "";
+  const v = typeof p.default === "string" ? `"${p.default}"` : String(p.default);
+  return ` (default ${v}${p.unit ? ` ${p.unit}` : ""})`;
+}
+
 function paramText(p: ParamSpec): string {
   const range = p.range ? `, ${p.range[0]}–${p.range[1]}${p.unit ? ` ${p.unit}` : ""}` : "";
-  const opt = p.optional
-    ? `, optional${
-      p.default !== undefined ? ` (default ${p.default}${p.unit ? ` ${p.unit}` : ""})` : ""
-    }`
-    : "";
-  return `${typeText(p)}${range}${opt}`;
+  const choices = p.choices ? `: ${p.choices.map((c) => `"${c}"`).join(", ")}` : "";
+  const opt = p.optional ? `, optional${defaultText(p)}` : "";
+  return `${typeText(p)}${choices}${range}${opt}`;
+}
+
+function optionText(o: OptionSpec): string {
+  const range = o.range ? `, ${o.range[0]}–${o.range[1]}${o.unit ? ` ${o.unit}` : ""}` : "";
+  const choices = o.choices ? `: ${o.choices.map((c) => `"${c}"`).join(", ")}` : "";
+  return `${typeText(o)}${choices}${range}${defaultText(o)}`;
 }
 
 function signature(f: FormulaSpec): string {
-  return `${f.name}(${f.params.map((p) => (p.optional ? `${p.name}?` : p.name)).join(", ")}${
-    f.variadic ? ", …" : ""
-  })`;
+  const args = f.params.map((p) => (p.optional ? `${p.name}?` : p.name));
+  if (f.options?.length) args.push(`{${f.options.map((o) => o.name).join(", ")}}`);
+  return `${f.name}(${args.join(", ")}${f.variadic ? ", …" : ""})`;
 }
 
 /** The reference as plain data, for `--json`. */
@@ -70,6 +79,15 @@ export function referenceData(): {
       unit?: string;
       range?: readonly number[];
       optional: boolean;
+      doc: string;
+    }[];
+    options: {
+      name: string;
+      type: string;
+      unit?: string;
+      range?: readonly number[];
+      choices?: readonly string[];
+      default?: unknown;
       doc: string;
     }[];
     returns: { type: string; unit?: string; doc: string };
@@ -96,6 +114,15 @@ export function referenceData(): {
         optional: !!p.optional,
         doc: p.doc,
       })),
+      options: (f.options ?? []).map((o) => ({
+        name: o.name,
+        type: o.type,
+        ...(o.unit ? { unit: o.unit } : {}),
+        ...(o.range ? { range: o.range } : {}),
+        ...(o.choices ? { choices: o.choices } : {}),
+        ...(o.default !== undefined ? { default: o.default } : {}),
+        doc: o.doc,
+      })),
       returns: {
         type: f.returns.type,
         ...(f.returns.unit ? { unit: f.returns.unit } : {}),
@@ -113,6 +140,18 @@ export function referenceData(): {
       source: c.source,
     })),
   };
+}
+
+/** A call showing the options record: the required arguments, then the first option. */
+function optionCall(f: FormulaSpec): string {
+  const o = f.options![0];
+  const v = o.default === undefined
+    ? (o.type === "quantity" ? `1 ${o.unit}` : o.choices ? `"${o.choices[0]}"` : "…")
+    : typeof o.default === "string"
+    ? `"${o.default}"`
+    : `${o.default}${o.unit ? ` ${o.unit}` : ""}`;
+  const args = f.params.filter((p) => !p.optional).map((p) => p.name);
+  return `${f.name}(${[...args, `{${o.name}: ${v}}`].join(", ")})`;
 }
 
 const cellText = (s: string) => s.replaceAll("|", "\\|").replaceAll("\n", " ");
@@ -146,6 +185,18 @@ export function referenceMarkdown(): string {
         out.push("| parameter | type | meaning |", "| --- | --- | --- |");
         for (const p of f.params) {
           out.push(`| ${p.name} | ${cellText(paramText(p))} | ${cellText(p.doc)} |`);
+        }
+        out.push("");
+      }
+      if (f.options?.length) {
+        out.push(
+          `Options, by name in a record after the arguments, e.g. \`${optionCall(f)}\`:`,
+          "",
+          "| option | type | meaning |",
+          "| --- | --- | --- |",
+        );
+        for (const o of f.options) {
+          out.push(`| ${o.name} | ${cellText(optionText(o))} | ${cellText(o.doc)} |`);
         }
         out.push("");
       }

@@ -194,5 +194,8 @@ Deno.test("the endpoint formula reads a table with text acuities", () => {
   const curve = lang.describe(run("endpointCurve(endpoint(trials))"));
   assert.match(curve.display, /endpointCurve: \d+ rows × 2 columns/);
   assert.throws(() => run('endpoint(trials, "lens", "nope")'), /no column "nope"/);
-  assert.throws(() => run('endpoint(trials, "lens", "va", 0.02, "sometimes")'), /repeats/);
+  assert.throws(
+    () => run('endpoint(trials, "lens", "va", {repeats: "sometimes"})'),
+    /option repeats: "sometimes" is not one of "report", "mean"/,
+  );
 });

@@ -337,6 +337,10 @@ function generate(
       `${spec.name} takes or gives values that are not numbers or quantities`,
     );
     need(args.length <= spec.params.length, `${spec.name} with too many arguments`);
+    need(
+      (spec.options ?? []).every((o) => typeof o.default === "number"),
+      `${spec.name} with options`,
+    );
     const codes: string[] = [];
     spec.params.forEach((p, i) => {
       if (i >= args.length) {
@@ -346,12 +350,17 @@ function generate(
         return;
       }
       const g = value(visit(args[i]));
-      if (g.ty.kind === "num") return void codes.push(g.code);
+      if (g.ty.kind === "num") {
+        // A bare number for a parameter with a unit is refused row-wise, with the fix.
+        need(p.type !== "quantity", `${spec.name}: ${p.name} without a unit`);
+        return void codes.push(g.code);
+      }
       need(p.type === "quantity", `${spec.name}: ${p.name} is a plain number`);
       const pu = unitInfo(lang, p.unit!);
       need(!!pu && pu.base === (g.ty as { base: string }).base, `${spec.name}: unit of ${p.name}`);
       codes.push(pu!.scale === 1 ? g.code : `(${g.code}/${konst(pu!.scale)})`);
     });
+    for (const o of spec.options ?? []) codes.push(konst(o.default as number));
     const f = fn(checkedFormula(spec));
     const call = `${f}(${codes.join(",")})`;
     if (spec.returns.type === "quantity" && spec.returns.unit) {
