@@ -22,6 +22,7 @@ import { DEFAULT_DISPLAY, type DisplayOptions, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
 import { CATALOGUE } from "./mod.ts";
 import { bindFormula } from "./_arguments.ts";
+import { NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
 import {
   formulaMath,
   isExact,
@@ -190,13 +191,9 @@ function buildLanguage(catalogue: Catalogue): Language {
 
   const isFunction = (name: string) =>
     catalogue.formulas.has(name) ||
-    (typeof (math as unknown as Record<string, unknown>)[name] === "function" &&
-      !DISABLED_FUNCTIONS.includes(name));
+    (NOTEBOOK_FUNCTION_NAMES.has(name) && !DISABLED_FUNCTIONS.includes(name));
 
-  const isBuiltinSymbol = (name: string) =>
-    !DISABLED_FUNCTIONS.includes(name) &&
-    Object.hasOwn(math as unknown as Record<string, unknown>, name) &&
-    typeof (math as unknown as Record<string, unknown>)[name] !== "function";
+  const isBuiltinSymbol = (name: string) => NOTEBOOK_CONSTANTS.includes(name);
 
   const isUnit = (name: string) => {
     try {

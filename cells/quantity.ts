@@ -13,7 +13,8 @@
  * @module
  */
 
-import { all, create, type MathJsInstance, type Unit } from "mathjs";
+import type { MathJsInstance, Unit } from "mathjs";
+import { createMath } from "./_mathjs.ts";
 import { Column } from "./table.ts";
 
 /**
@@ -100,17 +101,18 @@ export function typedOf(math: MathJsInstance): TypedRegistry {
 let shared: MathJsInstance | undefined;
 
 /**
- * The shared mathjs instance with Lentil's units and the `Column` type registered.
+ * The shared mathjs instance with Lentil's units and the `Column` type registered. It holds
+ * only the functions of `cells/functions.ts` and what they need.
  *
  * @example
  * ```ts
  * import { formulaMath } from "./quantity.ts";
- * formulaMath().evaluate("1 / (0.5 m)").toNumber("D"); // 2
+ * formulaMath().parse("1 / (0.5 m)").compile().evaluate({}).toNumber("D"); // 2
  * ```
  */
 export function formulaMath(): MathJsInstance {
   if (shared) return shared;
-  const math = create(all, {});
+  const math = createMath();
   math.createUnit("D", { definition: "1 m^-1", aliases: ["dpt", "dioptre", "diopter"] });
   math.createUnit("prism", { aliases: ["pdpt"] });
   typedOf(math).addTypes([{ name: "Column", test: (x: unknown) => x instanceof Column }]);

@@ -151,7 +151,14 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
           if (DISABLED_FUNCTIONS.includes(name)) {
             fail(`function ${name} is not available in Lentil formulas`, name);
           } else if (catalogue.formulas.has(name)) formulas.add(name);
-          else if (!ctx.lang.isFunction(name)) fail(`unknown function "${name}"`, name);
+          else if (!ctx.lang.isFunction(name)) {
+            fail(
+              `unknown function "${name}": a formula calls Lentil's formulas (lentil formulas) ` +
+                `and the arithmetic, rounding, comparison, trigonometry, unit, summary and ` +
+                `small-matrix functions listed in the README`,
+              name,
+            );
+          }
         }
         return;
       }

@@ -1,0 +1,87 @@
+/**
+ * Loads the expression library's factories the formula language uses (module by module,
+ * never the library's index, which builds every one of its functions on import) and creates
+ * an instance from them with the library's documented `create(factories, config)`.
+ *
+ * @module
+ */
+
+import type { ConfigOptions, FactoryFunctionMap, MathJsInstance } from "mathjs";
+import { MATHJS_FACTORIES } from "./_mathjs_files.ts";
+import { MAX_RANGE_LENGTH, NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
+
+const folder = new URL("./", import.meta.resolve("mathjs"));
+
+type Create = (factories: FactoryFunctionMap, config?: ConfigOptions) => MathJsInstance;
+
+const [createModule, ...modules] = await Promise.all([
+  import(new URL("core/create.js", folder).href),
+  ...[...new Set(MATHJS_FACTORIES.map(([file]) => file))].map((file) =>
+    import(new URL(file, folder).href).then((m) => [file, m] as const)
+  ),
+]);
+
+const byFile = new Map<string, Record<string, unknown>>(
+  modules as (readonly [string, Record<string, unknown>])[],
+);
+
+/** The chosen factories by export name (`createAdd`, …). */
+const factories = Object.fromEntries(
+  MATHJS_FACTORIES.map(([file, name]) => {
+    const f = byFile.get(file)?.[name];
+    if (typeof f !== "function") {
+      throw new Error(`the expression library has no ${name} in ${file} (reinstall or regenerate)`);
+    }
+    return [name, f];
+  }),
+) as unknown as FactoryFunctionMap;
+
+/** A range too long for a notebook. */
+export class RangeLengthError extends RangeError {
+  /** @param count how many values the range would hold. */
+  constructor(readonly count: number) {
+    super(
+      `a range of ${
+        Number.isFinite(count) ? count.toLocaleString("en") : "endless"
+      } values is more than a notebook takes (at most ${MAX_RANGE_LENGTH.toLocaleString("en")})`,
+    );
+    this.name = "RangeLengthError";
+  }
+}
+
+/**
+ * A new instance holding only the chosen functions. Formulas see only the functions and
+ * constants of `cells/functions.ts` (what the chosen ones depend on stays internal), and a
+ * range is refused before it is built when it would hold more than `MAX_RANGE_LENGTH` values.
+ *
+ * @example
+ * ```ts
+ * import { createMath } from "./_mathjs.ts";
+ * createMath().parse("2 + 3").compile().evaluate(); // 5
+ * ```
+ */
+export function createMath(): MathJsInstance {
+  const math = (createModule.create as Create)(factories, {});
+  const inExpressions = (math as unknown as { expression: { mathWithTransform: Fns } })
+    .expression.mathWithTransform;
+  for (const name of Object.keys(inExpressions)) {
+    if (name === "config" || NOTEBOOK_FUNCTION_NAMES.has(name)) continue;
+    if (NOTEBOOK_CONSTANTS.includes(name)) continue;
+    delete inExpressions[name];
+  }
+  const range = inExpressions.range;
+  const m = math as unknown as Fns;
+  inExpressions.range = (...args: unknown[]) => {
+    if (typeof args[0] === "string") {
+      throw new TypeError("range takes numbers: write 1:10 or range(1, 10, 1)");
+    }
+    const [start, end, step = 1] = args;
+    const span = m.divide(m.subtract(end, start), step);
+    const count = typeof span === "number" ? Math.floor(span) + 1 : NaN;
+    if (!(count <= MAX_RANGE_LENGTH)) throw new RangeLengthError(count);
+    return range(...args);
+  };
+  return math;
+}
+
+type Fns = Record<string, (...a: unknown[]) => unknown>;
