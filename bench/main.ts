@@ -8,6 +8,7 @@ import { formatGoal, type Goal } from "./goal.ts";
 import * as engine from "./engine.ts";
 import * as exporting from "./export.ts";
 import * as live from "./live.ts";
+import * as start from "./start.ts";
 import * as tables from "./tables.ts";
 
 /** A bench module: measures, returns its goals and any lines of detail. */
@@ -19,6 +20,7 @@ const modules: [string, BenchModule][] = [
   ["engine", engine],
   ["export", exporting],
   ["live", live],
+  ["start", start],
   ["tables", tables],
 ];
 

@@ -69,9 +69,11 @@ export function createMath(): MathJsInstance {
     if (NOTEBOOK_CONSTANTS.includes(name)) continue;
     delete inExpressions[name];
   }
-  const range = inExpressions.range;
+  // The library builds its functions on first use; so does the bounded range.
+  const transforms = (math as unknown as { expression: { transform: Fns } }).expression.transform;
+  const range = (...args: unknown[]) => transforms.range(...args);
   const m = math as unknown as Fns;
-  inExpressions.range = (...args: unknown[]) => {
+  const bounded = (...args: unknown[]) => {
     if (typeof args[0] === "string") {
       throw new TypeError("range takes numbers: write 1:10 or range(1, 10, 1)");
     }
@@ -81,7 +83,48 @@ export function createMath(): MathJsInstance {
     if (!(count <= MAX_RANGE_LENGTH)) throw new RangeLengthError(count);
     return range(...args);
   };
+  Object.defineProperty(inExpressions, "range", { value: bounded, enumerable: true });
   return math;
 }
 
 type Fns = Record<string, (...a: unknown[]) => unknown>;
+
+/**
+ * Make `names` refuse to run in formulas, with a message naming the function. Only the
+ * formulas' namespace changes: the library's own functions keep the real ones (its `config`
+ * above all, which functions built later still read), and the formulas' `config` keeps the
+ * settings the expression nodes read from it.
+ *
+ * @example
+ * ```ts
+ * import { createMath, refuseInFormulas } from "./_mathjs.ts";
+ * const math = createMath();
+ * refuseInFormulas(math, ["config"]);
+ * try {
+ *   math.parse("config({})").compile().evaluate();
+ * } catch (e) {
+ *   (e as Error).message; // "function config is not available in Lentil formulas"
+ * }
+ * ```
+ */
+export function refuseInFormulas(math: MathJsInstance, names: readonly string[]): void {
+  const inExpressions = (math as unknown as { expression: { mathWithTransform: Fns } })
+    .expression.mathWithTransform;
+  for (const name of names) {
+    const refused = () => {
+      throw new Error(`function ${name} is not available in Lentil formulas`);
+    };
+    if (name === "config") {
+      const real = math.config as unknown as Record<string, unknown>;
+      for (const key of Object.keys(real)) {
+        Object.defineProperty(refused, key, { get: () => real[key], enumerable: true });
+      }
+    }
+    Object.defineProperty(inExpressions, name, {
+      value: refused,
+      enumerable: true,
+      configurable: true,
+      writable: true,
+    });
+  }
+}

@@ -23,6 +23,7 @@ import { formatNumber, formatQuantity } from "./display.ts";
 import { CATALOGUE } from "./mod.ts";
 import { bindFormula } from "./_arguments.ts";
 import { NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
+import { refuseInFormulas } from "./_mathjs.ts";
 import {
   formulaMath,
   isExact,
@@ -181,13 +182,7 @@ function buildLanguage(catalogue: Catalogue): Language {
     constants[c.name] = c.unit ? unitOf(c.value, c.unit) : c.value;
   }
 
-  const disabled: Record<string, unknown> = {};
-  for (const name of DISABLED_FUNCTIONS) {
-    disabled[name] = () => {
-      throw new Error(`function ${name} is not available in Lentil formulas`);
-    };
-  }
-  math.import(disabled, { override: true });
+  refuseInFormulas(math, DISABLED_FUNCTIONS);
 
   const isFunction = (name: string) =>
     catalogue.formulas.has(name) ||

@@ -8,7 +8,6 @@
 import type { Command } from "../command.ts";
 import { formatDiagnostic } from "../../format/diagnostic.ts";
 import { openNotebook } from "./_open.ts";
-import { plotProblems } from "../../export/plot.ts";
 
 /** The `check` command. */
 export const checkCommand: Command = {
@@ -30,7 +29,12 @@ export const checkCommand: Command = {
     if (!nb) return 1;
     // Plot blocks are checked too: their columns, cells and options are validated as the
     // export would draw them.
-    const plots = nb.doc.blocks.flatMap((b) => (b.kind === "plot" ? plotProblems(b, nb) : []));
+    // The plotting modules load only for a notebook that has plot blocks.
+    const plotBlocks = nb.doc.blocks.filter((b) => b.kind === "plot");
+    const { plotProblems } = plotBlocks.length
+      ? await import("../../export/plot.ts")
+      : { plotProblems: () => [] };
+    const plots = plotBlocks.flatMap((b) => plotProblems(b, nb));
     const diags = [...nb.diagnostics(), ...plots].sort((a, b) =>
       a.file === b.file ? a.line - b.line || a.col - b.col : a.file < b.file ? -1 : 1
     );

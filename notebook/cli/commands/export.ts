@@ -8,7 +8,6 @@
 import type { Command } from "../command.ts";
 import { NotebookFileError, notebookFromBytes, readNotebookBytes } from "../../load.ts";
 import { formatDiagnostic } from "../../format/diagnostic.ts";
-import { renderNotebookPage } from "../../export/html.ts";
 
 /**
  * The output path for a notebook: `case.lentil.md` → `case.html` beside it.
@@ -68,6 +67,7 @@ export const exportCommand: Command = {
       return 1;
     }
     const nb = loaded.notebook;
+    const { renderNotebookPage } = await import("../../export/html.ts");
     const page = await renderNotebookPage(nb, {
       bytes,
       embedData: options.data === true,

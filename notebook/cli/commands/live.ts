@@ -16,7 +16,6 @@
 
 import { basename } from "node:path";
 import type { Command } from "../command.ts";
-import { startLiveServer } from "../../live/server.ts";
 import { NotebookFileError, readNotebookBytes } from "../../load.ts";
 
 /** The `live` command. */
@@ -53,6 +52,7 @@ export const liveCommand: Command = {
     }
     let server;
     try {
+      const { startLiveServer } = await import("../../live/server.ts");
       server = await startLiveServer(file, { port });
     } catch (e) {
       io.err(`lentil live: ${(e as Error).message}`);

@@ -7,7 +7,6 @@
  */
 
 import type { Command } from "../command.ts";
-import { streamNotebook, StreamSetupError } from "../../table/stream.ts";
 
 /** The `stream` command. */
 export const streamCommand: Command = {
@@ -37,6 +36,7 @@ export const streamCommand: Command = {
   },
   positionals: [1, 1],
   async run([file], options, io) {
+    const { streamNotebook, StreamSetupError } = await import("../../table/stream.ts");
     let r;
     try {
       r = await streamNotebook(file, {
