@@ -90,6 +90,34 @@ export function createMath(): MathJsInstance {
 type Fns = Record<string, (...a: unknown[]) => unknown>;
 
 /**
+ * Offer `functions` to formulas under their names (over a library function of the same name,
+ * which the library's own functions keep using).
+ *
+ * @example
+ * ```ts
+ * import { createMath, provideInFormulas } from "./_mathjs.ts";
+ * const math = createMath();
+ * provideInFormulas(math, { twice: (x: number) => 2 * x });
+ * math.parse("twice(3)").compile().evaluate(); // 6
+ * ```
+ */
+export function provideInFormulas(
+  math: MathJsInstance,
+  functions: Readonly<Record<string, unknown>>,
+): void {
+  const inExpressions = (math as unknown as { expression: { mathWithTransform: Fns } })
+    .expression.mathWithTransform;
+  for (const [name, value] of Object.entries(functions)) {
+    Object.defineProperty(inExpressions, name, {
+      value,
+      enumerable: true,
+      configurable: true,
+      writable: true,
+    });
+  }
+}
+
+/**
  * Make `names` refuse to run in formulas, with a message naming the function. Only the
  * formulas' namespace changes: the library's own functions keep the real ones (its `config`
  * above all, which functions built later still read), and the formulas' `config` keeps the

@@ -23,7 +23,7 @@ import { formatNumber, formatQuantity } from "./display.ts";
 import { CATALOGUE } from "./mod.ts";
 import { bindFormula } from "./_arguments.ts";
 import { NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
-import { refuseInFormulas } from "./_mathjs.ts";
+import { provideInFormulas, refuseInFormulas } from "./_mathjs.ts";
 import {
   formulaMath,
   isExact,
@@ -175,7 +175,7 @@ function buildLanguage(catalogue: Catalogue): Language {
 
   const imports: Record<string, unknown> = {};
   for (const spec of catalogue.formulas.values()) imports[spec.name] = bind(spec);
-  math.import(imports, { override: true });
+  provideInFormulas(math, imports);
 
   const constants: Record<string, unknown> = {};
   for (const c of catalogue.constants.values()) {
