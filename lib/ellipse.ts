@@ -1,11 +1,12 @@
 /**
  * The 95% ellipse of a bivariate sample (for refraction data: J0 against J45) from its mean
- * and covariance matrix. For 2 degrees of freedom the χ² quantile has the closed form
- * −2·ln(1 − p), 5.991 at p = 0.95. Two regions are offered: the confidence ellipse of the
- * mean (covariance divided by n, a large-sample approximation to Hotelling's T² region)
- * and the ellipse expected to hold 95% of individual observations.
+ * and covariance matrix. Two regions are offered: the confidence ellipse of the mean and
+ * the ellipse expected to hold 95% of individual observations. Each is scaled by
+ * Hotelling's T² (exact for normal data at any n ≥ 3: 2(n − 1)/(n − 2)·F(2, n − 2)) unless
+ * the large-sample χ² form is asked for (for 2 degrees of freedom the χ² quantile has the
+ * closed form −2·ln(1 − p), 5.991 at p = 0.95).
  *
- * Source: chi2-ellipse.
+ * Sources: hotelling-1931, chi2-ellipse.
  *
  * @example
  * ```ts
@@ -17,6 +18,7 @@
  */
 
 import { LentilInputError, LentilRangeError } from "./errors.ts";
+import { fQuantile } from "./distributions.ts";
 
 /** An ellipse in the plane of two variables (x, y). */
 export interface Ellipse {
@@ -32,9 +34,16 @@ export interface Ellipse {
   readonly angle: number;
   /** Coverage probability. */
   readonly level: number;
-  /** The χ² (2 d.f.) quantile used. */
+  /** The χ² (2 d.f.) quantile (the large-sample scale, kept for reference). */
   readonly chi2: number;
+  /** How the region was scaled: Hotelling's T² (exact) or the large-sample χ². */
+  readonly method?: EllipseMethod;
+  /** The factor the covariance's eigenvalues were multiplied by (semi-axis = √(factor·λ)). */
+  readonly scale?: number;
 }
+
+/** The scaling of an ellipse: Hotelling's T² (default) or the large-sample χ² form. */
+export type EllipseMethod = "hotelling" | "chi-square";
 
 /** A 2 × 2 covariance matrix: var x, var y, cov xy. */
 export interface Covariance2 {
@@ -80,15 +89,17 @@ export function principalAxes(c: Covariance2): { major: number; minor: number; a
 }
 
 /**
- * The ellipse of a bivariate sample at coverage `level`: of the mean (`"mean"`, semi-axes
- * √(χ²·λ/n)) or of individual observations (`"observations"`, semi-axes √(χ²·λ)).
- * Source: chi2-ellipse.
+ * The ellipse of a bivariate sample at coverage `level`: of the mean (`"mean"`) or of
+ * individual observations (`"observations"`). By Hotelling's T² the semi-axes are
+ * √(c·λ/n) with c = 2(n − 1)/(n − 2)·F(2, n − 2) for the mean, and √(c·λ·(n + 1)/n) for a
+ * new observation; by the large-sample χ² form (`method` "chi-square") √(χ²·λ/n) and √(χ²·λ).
+ * Sources: hotelling-1931, chi2-ellipse.
  *
  * @example
  * ```ts
  * import { ellipseOf } from "./ellipse.ts";
  * const e = ellipseOf({ x: 0, y: 0 }, { xx: 1, yy: 1, xy: 0 }, 100, "mean");
- * e.semiMajor.toFixed(3); // "0.245"
+ * e.semiMajor.toFixed(3); // "0.248"
  * ```
  * @throws {LentilInputError} with fewer than 3 observations or a covariance that is not
  * positive semi-definite.
@@ -99,6 +110,7 @@ export function ellipseOf(
   n: number,
   region: "mean" | "observations",
   level = 0.95,
+  method: EllipseMethod = "hotelling",
 ): Ellipse {
   if (!(n >= 3)) {
     throw new LentilInputError(`an ellipse needs at least 3 observations, got ${n}`);
@@ -109,7 +121,19 @@ export function ellipseOf(
     );
   }
   const chi2 = chiSquare2(level);
-  const k = region === "mean" ? chi2 / n : chi2;
+  const c = method === "chi-square" ? chi2 : hotellingScale(n, level);
+  const k = region === "mean" ? c / n : method === "chi-square" ? chi2 : (c * (n + 1)) / n;
+  return scaled(centre, cov, k, level, chi2, method);
+}
+
+function scaled(
+  centre: { x: number; y: number },
+  cov: Covariance2,
+  k: number,
+  level: number,
+  chi2: number,
+  method: EllipseMethod,
+): Ellipse {
   const ax = principalAxes(cov);
   return {
     cx: centre.x,
@@ -119,7 +143,62 @@ export function ellipseOf(
     angle: ax.angle,
     level,
     chi2,
+    method,
+    scale: k,
   };
+}
+
+/**
+ * Hotelling's T² critical value for a mean of 2 variables from n observations:
+ * 2(n − 1)/(n − 2)·F(level; 2, n − 2). Source: hotelling-1931.
+ *
+ * @example
+ * ```ts
+ * import { hotellingScale } from "./ellipse.ts";
+ * hotellingScale(12).toFixed(3); // "8.197"
+ * ```
+ * @throws {LentilInputError} with fewer than 3 observations.
+ */
+export function hotellingScale(n: number, level = 0.95): number {
+  if (!(n >= 3)) {
+    throw new LentilInputError(`Hotelling's T² needs at least 3 observations, got ${n}`);
+  }
+  return ((2 * (n - 1)) / (n - 2)) * fQuantile(level, 2, n - 2);
+}
+
+/**
+ * The confidence ellipse of a mean from the covariance matrix of the mean itself (for
+ * example a cluster-robust one, from G subjects): semi-axes √(c·λ) with Hotelling's
+ * c = 2(G − 1)/(G − 2)·F(2, G − 2), or χ² when asked.
+ * Sources: hotelling-1931, chi2-ellipse, liang-zeger-1986.
+ *
+ * @example
+ * ```ts
+ * import { meanEllipse } from "./ellipse.ts";
+ * meanEllipse({ x: 0, y: 0 }, { xx: 0.01, yy: 0.01, xy: 0 }, 1000, 0.95, "chi-square").semiMajor.toFixed(3); // "0.245"
+ * ```
+ * @throws {LentilInputError} with fewer than 3 subjects or a covariance that is not
+ * positive semi-definite.
+ */
+export function meanEllipse(
+  centre: { x: number; y: number },
+  covOfMean: Covariance2,
+  subjects: number,
+  level = 0.95,
+  method: EllipseMethod = "hotelling",
+): Ellipse {
+  checkCovariance(covOfMean);
+  const chi2 = chiSquare2(level);
+  const k = method === "chi-square" ? chi2 : hotellingScale(subjects, level);
+  return scaled(centre, covOfMean, k, level, chi2, method);
+}
+
+function checkCovariance(cov: Covariance2): void {
+  if (!(cov.xx >= 0 && cov.yy >= 0) || cov.xy * cov.xy > cov.xx * cov.yy * (1 + 1e-12)) {
+    throw new LentilInputError(
+      `covariance (var ${cov.xx}, ${cov.yy}; cov ${cov.xy}) is not positive semi-definite`,
+    );
+  }
 }
 
 /**

@@ -257,6 +257,106 @@ const entries: readonly Source[] = [
     note: "Quantiles by definition 7: linear interpolation, h = (n − 1)·p.",
   },
   {
+    id: "numerical-recipes-2007",
+    citation:
+      "Press WH, Teukolsky SA, Vetterling WT, Flannery BP. Numerical Recipes: The Art of Scientific Computing, 3rd ed. Cambridge University Press 2007, §6.1–6.2, 6.4 (gamma, incomplete gamma and beta functions).",
+    status: "from-memory",
+    note:
+      "Lanczos log-gamma; incomplete beta by continued fraction (modified Lentz); incomplete gamma by series and continued fraction. Checked against jstat in the tests.",
+  },
+  {
+    id: "abramowitz-stegun-1964",
+    citation:
+      "Abramowitz M, Stegun IA. Handbook of Mathematical Functions. National Bureau of Standards 1964, 26.2.23 (rational approximation of the normal quantile).",
+    status: "from-memory",
+    note: "Used only as the starting value of a Newton refinement.",
+  },
+  {
+    id: "lenth-1989",
+    citation:
+      "Lenth RV. Algorithm AS 243: Cumulative distribution function of the non-central t distribution. Appl Stat 1989;38(1):185–189.",
+    status: "from-memory",
+    note:
+      "The non-central t as a Poisson mixture of incomplete beta functions; summed outward from the mode here. Checked against jstat.",
+  },
+  {
+    id: "bland-altman-1999",
+    citation:
+      "Bland JM, Altman DG. Measuring agreement in method comparison studies. Stat Methods Med Res 1999;8(2):135–160.",
+    status: "published",
+    note:
+      "Approximate confidence interval of a limit of agreement (standard error √(3s²/n)); regression of the difference on the mean; limits when a subject gives several pairs (true value varying: one-way analysis of variance of the differences).",
+  },
+  {
+    id: "bland-altman-1996",
+    citation: "Bland JM, Altman DG. Statistics notes: Measurement error. BMJ 1996;313:744.",
+    status: "published",
+    note:
+      "Within-subject SD from repeated measures; the difference of two measurements lies within 2.77·Sw (1.96·√2) for 95% of pairs.",
+  },
+  {
+    id: "carkeet-2015",
+    citation:
+      "Carkeet A. Exact parametric confidence intervals for Bland-Altman limits of agreement. Optom Vis Sci 2015;92(3):e71–e80.",
+    status: "published",
+    note:
+      "Each limit considered alone: one-sided tolerance factors of a normal distribution, quantiles of the non-central t with n − 1 d.f. and non-centrality 1.96·√n.",
+  },
+  {
+    id: "shrout-fleiss-1979",
+    citation:
+      "Shrout PE, Fleiss JL. Intraclass correlations: uses in assessing rater reliability. Psychol Bull 1979;86(2):420–428.",
+    status: "published",
+    note:
+      "ICC(1,1), (2,1), (3,1) and their k-rater averages from the mean squares; a 6-target × 4-judge example with its values.",
+  },
+  {
+    id: "mcgraw-wong-1996",
+    citation:
+      "McGraw KO, Wong SP. Forming inferences about some intraclass correlation coefficients. Psychol Methods 1996;1(1):30–46.",
+    status: "published",
+    note:
+      "Names of the forms (one-way random; two-way random, absolute agreement; two-way mixed, consistency; single or average measures) and F-based confidence intervals.",
+  },
+  {
+    id: "murdoch-1998",
+    citation:
+      "Murdoch IE, Morris SS, Cousens SN. People and eyes: statistical approaches in ophthalmology. Br J Ophthalmol 1998;82(8):971–973.",
+    status: "published",
+    note:
+      "Fellow eyes are correlated: analyse one eye per person, the person, or allow for the pairing.",
+  },
+  {
+    id: "armstrong-2013",
+    citation:
+      "Armstrong RA. Statistical guidelines for the analysis of data obtained from one or both eyes. Ophthalmic Physiol Opt 2013;33(1):7–14.",
+    status: "published",
+  },
+  {
+    id: "ying-2017",
+    citation:
+      "Ying GS, Maguire MG, Glynn R, Rosner B. Tutorial on biostatistics: statistical analysis for correlated binary eye data. Ophthalmic Epidemiol 2017;24(2):130–140.",
+    status: "published",
+    note:
+      "Subject-level (cluster-robust) standard errors; the design effect for pairs of eyes is 1 + ρ.",
+  },
+  {
+    id: "liang-zeger-1986",
+    citation:
+      "Liang KY, Zeger SL. Longitudinal data analysis using generalized linear models. Biometrika 1986;73(1):13–22.",
+    status: "published",
+    note:
+      "The sandwich (cluster-robust) variance: sums of residuals within each cluster; here with the small-sample factor G/(G − 1) for G clusters (from memory).",
+  },
+  {
+    id: "hotelling-1931",
+    citation:
+      "Hotelling H. The generalization of Student's ratio. Ann Math Stat 1931;2(3):360–378.",
+    status: "published",
+    note:
+      "Confidence region of a mean vector of p variables: n(x̄ − μ)ᵀS⁻¹(x̄ − μ) ≤ p(n − 1)/(n − p)·F(p, n − p); for p = 2, 2(n − 1)/(n − 2)·F(2, n − 2).",
+  },
+  {
     id: "rfc-4180",
     citation:
       "Shafranovich Y. Common Format and MIME Type for Comma-Separated Values (CSV) Files. RFC 4180, IETF, 2005.",

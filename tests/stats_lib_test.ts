@@ -10,7 +10,13 @@ import {
   vectorSummary,
 } from "../lib/stats.ts";
 import { limitsOfAgreement, vectorAgreement, vectorDifference } from "../lib/agreement.ts";
-import { chiSquare2, ellipseOf, insideEllipse, principalAxes } from "../lib/ellipse.ts";
+import {
+  chiSquare2,
+  ellipseOf,
+  hotellingScale,
+  insideEllipse,
+  principalAxes,
+} from "../lib/ellipse.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
 
 const close = (a: number, b: number, tol = 1e-9, what = "") =>
@@ -122,7 +128,14 @@ Deno.test("χ² (2 d.f.) quantile and the 95% ellipse", () => {
   close(ax.major, 3, 1e-12, "major");
   close(ax.minor, 1, 1e-12, "minor");
   close(ax.angle, 45, 1e-12, "angle");
-  const e = ellipseOf({ x: 0.1, y: -0.05 }, { xx: 0.04, yy: 0.01, xy: 0 }, 50, "mean");
+  const e = ellipseOf(
+    { x: 0.1, y: -0.05 },
+    { xx: 0.04, yy: 0.01, xy: 0 },
+    50,
+    "mean",
+    0.95,
+    "chi-square",
+  );
   close(e.semiMajor, Math.sqrt(5.991464547107979 * 0.04 / 50), 1e-12, "semi-major");
   assert.ok(insideEllipse(e, 0.1 + e.semiMajor * 0.99, -0.05));
   assert.ok(!insideEllipse(e, 0.1, -0.05 + e.semiMinor * 1.01));
@@ -147,7 +160,26 @@ Deno.test("about 95% of bivariate normal points fall in the observations ellipse
     { xx: m.variance(0), yy: m.variance(1), xy: m.covariance(0, 1) },
     m.count,
     "observations",
+    0.95,
+    "chi-square",
   );
   const inside = pts.filter(([x, y]) => insideEllipse(e, x, y)).length / pts.length;
   assert.ok(Math.abs(inside - 0.95) < 0.01, `coverage ${inside}`);
+});
+
+Deno.test("Hotelling's T² ellipse of a mean: scale against jstat's F quantile, χ² only when asked", () => {
+  // Hotelling 1931: n(x̄ − μ)ᵀS⁻¹(x̄ − μ) ≤ 2(n − 1)/(n − 2)·F(2, n − 2); F checked against jstat
+  for (const n of [3, 5, 12, 40, 2000]) {
+    const c = 2 * (n - 1) / (n - 2) * jStat.centralF.inv(0.95, 2, n - 2);
+    close(hotellingScale(n), c, 1e-7, `T² n=${n}`);
+    const e = ellipseOf({ x: 0, y: 0 }, { xx: 0.04, yy: 0.01, xy: 0 }, n, "mean");
+    close(e.semiMajor, Math.sqrt(c * 0.04 / n), 1e-7, `semi-major n=${n}`);
+    assert.equal(e.method, "hotelling");
+  }
+  // the T² region is wider than the χ² one, and tends to it as n grows
+  const small = ellipseOf({ x: 0, y: 0 }, { xx: 1, yy: 1, xy: 0 }, 8, "mean");
+  const chi = ellipseOf({ x: 0, y: 0 }, { xx: 1, yy: 1, xy: 0 }, 8, "mean", 0.95, "chi-square");
+  assert.ok(small.semiMajor > 1.4 * chi.semiMajor);
+  close(hotellingScale(1e6), chiSquare2(0.95), 1e-4, "large n");
+  assert.throws(() => hotellingScale(2), /at least 3/);
 });
