@@ -29,6 +29,7 @@ import { ACUITY_FORMULAS } from "./acuity.ts";
 import { BLUR_FORMULAS } from "./blur.ts";
 import { ENDPOINT_FORMULAS } from "./endpoint.ts";
 import { STATS_FORMULAS } from "./stats.ts";
+import { STUDY_FORMULAS } from "./study.ts";
 import { PAIRING_FORMULAS } from "./pairing.ts";
 
 /** Every formula and constant, checked for duplicate names. */
@@ -43,6 +44,7 @@ export const CATALOGUE: Catalogue = buildCatalogue(
     ...ENDPOINT_FORMULAS,
     ...PAIRING_FORMULAS,
     ...STATS_FORMULAS,
+    ...STUDY_FORMULAS,
   ],
   [
     ...CORE_CONSTANTS,

@@ -22,15 +22,10 @@
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { Column } from "./table.ts";
 import { markExact, quantity, quantityParts, toNumberIn } from "./quantity.ts";
+import { joinShared, qty, sampleStatsRecord, showStat, statRecord } from "./_stat_records.ts";
+import type { DisplayOptions } from "./types.ts";
 import { rxValue } from "./rx.ts";
-import {
-  defineValueType,
-  type DisplayOptions,
-  getValueType,
-  typeOfValue,
-  type ValuePart,
-} from "./types.ts";
-import { formatNumber, formatQuantity, signed } from "./display.ts";
+import { getValueType } from "./types.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
 import { CYLINDER_RANGE, SPHERE_RANGE } from "../lib/prescription.ts";
 import { LentilInputError } from "../lib/errors.ts";
@@ -38,140 +33,13 @@ import {
   checkPaired,
   quantileSorted,
   RunningMoments,
-  type SampleStats,
   sampleStats,
   sortedValues,
   type VectorSummary,
   vectorSummary,
 } from "../lib/stats.ts";
-import { type Agreement, limitsOfAgreement, vectorAgreement } from "../lib/agreement.ts";
-import { ellipseOf } from "../lib/ellipse.ts";
-
-/**
- * Records of statistics. They stay plain records (fields read as `s.sd`, quantities kept for
- * arithmetic) but are shown as statistics, not as lens powers: dioptric values exact (two
- * decimals, three below 0.1 D) rather than rounded to the notebook's power step, and spreads
- * (SDs, semi-axes) without a sign. Each field is a part with a label in words.
- */
-const STAT_RECORDS = new WeakMap<object, StatShape>();
-
-/** How one kind of statistics record reads: its headline and its display line. */
-interface StatShape {
-  readonly headline?: (r: Record<string, unknown>, options: DisplayOptions) => string;
-  readonly display?: (r: Record<string, unknown>, options: DisplayOptions) => string;
-}
-
-/** Keys of spreads: never negative, shown without a sign. */
-const SPREAD_KEYS = new Set(["sd", "sdM", "sdJ0", "sdJ45", "semiMajor", "semiMinor"]);
-
-/** Labels in words of the parts of statistics records, by key. */
-const PART_LABELS: Record<string, string> = {
-  n: "number of values",
-  missing: "empty cells left out",
-  mean: "mean",
-  sd: "standard deviation",
-  median: "median",
-  lowest: "lowest",
-  highest: "highest",
-  lowerQuartile: "lower quartile",
-  upperQuartile: "upper quartile",
-  rx: "mean prescription",
-  M: "mean M (spherical equivalent)",
-  J0: "mean J0",
-  J45: "mean J45",
-  meanM: "mean M (spherical equivalent)",
-  meanJ0: "mean J0",
-  meanJ45: "mean J45",
-  sdM: "standard deviation of M",
-  sdJ0: "standard deviation of J0",
-  sdJ45: "standard deviation of J45",
-  covMJ0: "covariance of M and J0 (D²)",
-  covMJ45: "covariance of M and J45 (D²)",
-  covJ0J45: "covariance of J0 and J45 (D²)",
-  region: "region",
-  centreJ0: "centre, J0",
-  centreJ45: "centre, J45",
-  semiMajor: "major semi-axis",
-  semiMinor: "minor semi-axis",
-  angle: "angle of the major axis",
-  bias: "mean difference (bias)",
-  lower: "lower limit of agreement",
-  upper: "upper limit of agreement",
-  note: "note",
-};
-
-/** The label in words of a statistics part (its key spelt out when none is declared). */
-export function partLabel(key: string): string {
-  return PART_LABELS[key] ?? key.replace(/([a-z0-9])([A-Z])/g, "$1 $2").toLowerCase();
-}
-
-/**
- * Mark a record as statistics, so its parts display as measures (SDs unsigned, figures
- * exact) rather than lens powers, labelled in words; returns it.
- */
-export function statRecord<T extends Record<string, unknown>>(record: T, shape: StatShape = {}): T {
-  STAT_RECORDS.set(record, shape);
-  return record;
-}
-
-/** A statistic as displayed: exact figures, spreads unsigned, nothing shown as NaN. */
-export function showStat(key: string, v: unknown, options: DisplayOptions): string {
-  const q = quantityParts(v);
-  if (q) {
-    if (!Number.isFinite(q.value)) return "not available";
-    if (q.unit !== "D") return formatQuantity(q.value, q.unit);
-    // Two decimals as powers are written; three for small values (a mean's ellipse, a bias).
-    const x = Math.round(q.value * 1000) / 1000;
-    if (x !== 0 && Math.abs(x) < 0.1) {
-      const digits = Math.abs(x).toFixed(3);
-      return SPREAD_KEYS.has(key) ? `${digits} D` : `${x > 0 ? "+" : "-"}${digits} D`;
-    }
-    return SPREAD_KEYS.has(key) ? `${Math.abs(q.value).toFixed(2)} D` : `${signed(q.value)} D`;
-  }
-  if (typeof v === "number") return Number.isFinite(v) ? formatNumber(v) : "not available";
-  if (typeof v === "string") return v;
-  const t = typeOfValue(v);
-  return t ? t.display(v, options) : String(v);
-}
-
-function statJson(v: unknown): unknown {
-  const q = quantityParts(v);
-  if (q) return Number.isFinite(q.value) ? q.value : null;
-  if (typeof v === "number") return Number.isFinite(v) ? v : null;
-  if (v === null || typeof v !== "object") return v;
-  const t = typeOfValue(v);
-  return t ? t.json(v) : v;
-}
-
-const statParts = (r: Record<string, unknown>, options: DisplayOptions): ValuePart[] =>
-  Object.entries(r).map(([key, value]) => ({
-    key,
-    label: partLabel(key),
-    value,
-    display: showStat(key, value, options),
-  }));
-
-const statDisplay = (r: Record<string, unknown>, options: DisplayOptions) =>
-  STAT_RECORDS.get(r)?.display?.(r, options) ??
-    statParts(r, options).map((p) => `${p.label}: ${p.display}`).join(", ");
-
-defineValueType<Record<string, unknown>>({
-  name: "statistics",
-  summary: "a record of statistics (means, SDs, limits) with units",
-  is: (x): x is Record<string, unknown> => STAT_RECORDS.has(x as object),
-  display: statDisplay,
-  headline: (r, options) => STAT_RECORDS.get(r)?.headline?.(r, options) ?? statDisplay(r, options),
-  parts: statParts,
-  json: (r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, statJson(v)])),
-});
-
-/**
- * A quantity of the shared language, made when a formula runs (never at module load). A
- * statistic is a measure, not a lens power: it is shown exactly, not in the power step.
- */
-function qty(value: number, unit: string): unknown {
-  return unit ? markExact(quantity(value, unit)) : value;
-}
+import { type Agreement, agreementIntervals, type Interval } from "../lib/agreement.ts";
+import { type Ellipse, type EllipseMethod, ellipseOf } from "../lib/ellipse.ts";
 
 /**
  * A column argument: a table column as it is, or a list written in the formula (numbers,
@@ -254,75 +122,8 @@ export function refractionArrays(
   return { sph, cyl, axis };
 }
 
-/** Figures of sample statistics; the order statistics are absent when not computed. */
-export type SampleStatsFigures =
-  & Pick<SampleStats, "n" | "missing" | "mean" | "sd">
-  & Partial<Omit<SampleStats, "n" | "missing" | "mean" | "sd">>;
-
-const ORDER_KEYS = ["median", "lowest", "highest", "lowerQuartile", "upperQuartile"] as const;
-
-/**
- * How a paper's table prints sample statistics: n, mean ± SD, range, IQR (and the median).
- * Nothing not computed is shown as a number.
- */
-function sampleStatsLine(r: Record<string, unknown>, options: DisplayOptions): string {
-  const show = (k: string) => showStat(k, r[k], options);
-  const two = (a: string, sep: string, b: string) => joinShared(show(a), sep, show(b));
-  const has = (k: string) => r[k] !== undefined && Number.isFinite(toNumber(r[k]));
-  const out = [`n ${r.n}`];
-  if (r.missing) out.push(`${r.missing} empty left out`);
-  if (has("mean")) {
-    out.push(has("sd") ? `mean ± SD ${two("mean", " ± ", "sd")}` : `mean ${show("mean")}`);
-  }
-  if (has("median")) out.push(`median ${show("median")}`);
-  if (has("lowest") && has("highest")) out.push(`range ${two("lowest", " to ", "highest")}`);
-  if (has("lowerQuartile") && has("upperQuartile")) {
-    out.push(`IQR ${two("lowerQuartile", " to ", "upperQuartile")}`);
-  }
-  if (typeof r.note === "string") out.push(r.note);
-  return out.join("; ");
-}
-
-/** Two displayed figures joined, their shared unit written once ("-1.44 ± 0.43 D"). */
-export function joinShared(a: string, sep: string, b: string): string {
-  const unit = / [^\d\s]+$/.exec(b)?.[0];
-  return unit && a.endsWith(unit) ? `${a.slice(0, -unit.length)}${sep}${b}` : `${a}${sep}${b}`;
-}
-
-function sampleStatsHeadline(r: Record<string, unknown>, options: DisplayOptions): string {
-  const show = (k: string) => showStat(k, r[k], options);
-  if (!Number.isFinite(toNumber(r.mean))) return `n ${r.n}, no mean`;
-  return Number.isFinite(toNumber(r.sd))
-    ? `${joinShared(show("mean"), " ± ", show("sd"))} (n ${r.n})`
-    : `${show("mean")} (n ${r.n})`;
-}
-
-function toNumber(v: unknown): number {
-  const q = quantityParts(v);
-  return q ? q.value : typeof v === "number" ? v : NaN;
-}
-
-/**
- * Sample statistics as a record of the language (quantities in `unit`): n, missing, mean,
- * sd, median, lowest, highest, lowerQuartile, upperQuartile; `note` says what is left out.
- */
-export function sampleStatsRecord(
-  s: SampleStatsFigures,
-  unit: string,
-  note?: string,
-): Record<string, unknown> {
-  const record: Record<string, unknown> = {
-    n: s.n,
-    missing: s.missing,
-    mean: qty(s.mean, unit),
-    sd: qty(s.sd, unit),
-  };
-  for (const k of ORDER_KEYS) if (s[k] !== undefined) record[k] = qty(s[k]!, unit);
-  if (note) record.note = note;
-  return statRecord(record, { headline: sampleStatsHeadline, display: sampleStatsLine });
-}
-
-function unitOf(c: Column): string {
+/** The unit of a quantity column, "" otherwise. */
+export function unitOf(c: Column): string {
   return c.type === "quantity" ? c.unit : "";
 }
 
@@ -359,39 +160,103 @@ export function vectorStatsRecord(v: VectorSummary): Record<string, unknown> {
 export function ellipseRecord(
   v: VectorSummary,
   region: "mean" | "observations",
+  method: EllipseMethod = "hotelling",
+  extra: Record<string, unknown> = {},
 ): Record<string, unknown> {
   const e = ellipseOf(
     { x: v.mean.j0, y: v.mean.j45 },
     { xx: v.sd.j0 ** 2, yy: v.sd.j45 ** 2, xy: v.cov.j0J45 },
     v.n,
     region,
+    0.95,
+    method,
   );
+  return ellipseFields(e, region, v.n, extra);
+}
+
+/** An ellipse as a record of the language, its region and scaling said in words. */
+export function ellipseFields(
+  e: Ellipse,
+  region: "mean" | "observations",
+  n: number,
+  extra: Record<string, unknown> = {},
+): Record<string, unknown> {
+  const how = e.method === "chi-square"
+    ? "large-sample χ² form (2 d.f.)"
+    : "Hotelling's T² (exact for normal data)";
   return statRecord({
     region: region === "mean"
-      ? "95% confidence ellipse of the mean (J0, J45)"
-      : "ellipse expected to hold 95% of eyes (J0, J45)",
+      ? `95% confidence ellipse of the mean (J0, J45), ${how}`
+      : `ellipse expected to hold 95% of eyes (J0, J45), ${how}`,
     centreJ0: qty(e.cx, "D"),
     centreJ45: qty(e.cy, "D"),
     semiMajor: qty(e.semiMajor, "D"),
     semiMinor: qty(e.semiMinor, "D"),
     angle: qty(e.angle, "deg"),
-    n: v.n,
+    n,
+    ...extra,
   });
 }
 
-/** Agreement as a record of the language (quantities in `unit`). */
-export function agreementRecord(a: Agreement, unit: string): Record<string, unknown> {
-  return statRecord({
+/**
+ * Agreement as a record of the language (quantities in `unit`): bias and limits, with the
+ * 95% confidence interval of the bias and of each limit (approximate and exact) when there
+ * are at least 3 pairs.
+ */
+export function agreementRecord(
+  a: Agreement,
+  unit: string,
+  extra: Record<string, unknown> = {},
+  intervals = true,
+): Record<string, unknown> {
+  const record: Record<string, unknown> = {
     n: a.n,
     missing: a.missing,
     bias: qty(a.bias, unit),
     sd: qty(a.sd, unit),
     lower: qty(a.lower, unit),
     upper: qty(a.upper, unit),
-  });
+  };
+  if (intervals && a.n >= 3 && a.sd > 0) {
+    const ci = agreementIntervals(a);
+    const put = (key: string, i: Interval) => {
+      record[`${key}From`] = qty(i.lower, unit);
+      record[`${key}To`] = qty(i.upper, unit);
+    };
+    put("bias", ci.bias);
+    put("lower", ci.lowerApprox);
+    put("upper", ci.upperApprox);
+    put("lowerExact", ci.lowerExact);
+    put("upperExact", ci.upperExact);
+  }
+  return statRecord({ ...record, ...extra }, { display: agreementLine });
 }
 
-function vectorsOf(r: { sph: Float64Array; cyl: Float64Array; axis: Float64Array }) {
+function agreementLine(r: Record<string, unknown>, options: DisplayOptions): string {
+  const show = (k: string) => showStat(k, r[k], options);
+  const range = (a: string, b: string) => joinShared(show(a), " to ", show(b));
+  const out = [`bias ${show("bias")}`];
+  if (r.biasFrom !== undefined) out[0] += ` (95% CI ${range("biasFrom", "biasTo")})`;
+  out.push(`95% limits of agreement ${range("lower", "upper")}`);
+  if (r.lowerFrom !== undefined) {
+    out.push(
+      `95% CI of the lower limit ${range("lowerFrom", "lowerTo")} (exact ${
+        range("lowerExactFrom", "lowerExactTo")
+      })`,
+      `of the upper limit ${range("upperFrom", "upperTo")} (exact ${
+        range("upperExactFrom", "upperExactTo")
+      })`,
+    );
+  }
+  out.push(`n ${r.n}`);
+  if (r.subjects !== undefined) out.push(`${r.subjects} persons`);
+  for (const k of ["eyes", "note", "warning"]) {
+    if (typeof r[k] === "string") out.push(`${k}: ${r[k]}`);
+  }
+  return out.join("; ");
+}
+
+export function vectorsOf(r: { sph: Float64Array; cyl: Float64Array; axis: Float64Array }) {
   const n = r.sph.length;
   const m = new Float64Array(n);
   const j0 = new Float64Array(n);
@@ -425,19 +290,30 @@ function groups(g: Column, n: number): Map<string, number[]> {
   return out;
 }
 
+export {
+  joinShared,
+  partLabel,
+  type SampleStatsFigures,
+  sampleStatsRecord,
+  showStat,
+  statRecord,
+} from "./_stat_records.ts";
+
 const C = (x: unknown, what = "column"): Column => asColumn(x, what);
 const O = (x: unknown): Column | undefined => (x === undefined ? undefined : C(x));
 
 const pick = (xs: Float64Array, rows: number[]) => Float64Array.from(rows, (i) => xs[i]);
 
-const COL = (name: string, doc: string, optional = false): ParamSpec => ({
+/** A column parameter. */
+export const COL = (name: string, doc: string, optional = false): ParamSpec => ({
   name,
   type: "any",
   doc: `${doc} (a table column or a list)`,
   ...(optional ? { optional: true } : {}),
 });
 
-const RX_PARAMS: readonly ParamSpec[] = [
+/** The refraction parameters: one rx column, or sphere, cylinder and axis columns. */
+export const RX_PARAMS: readonly ParamSpec[] = [
   COL("rx", "a column of prescriptions, or the sphere column (D)"),
   COL("cyl", "the cylinder column (D), when the first is the sphere", true),
   COL("axis", "the axis column (deg), when the first is the sphere", true),
@@ -624,83 +500,6 @@ export const STATS_FORMULAS: readonly FormulaSpec[] = [
     fn: (a, b, c) => {
       const r = refractionArrays(C(a), O(b), O(c));
       return vectorStatsRecord(vectorSummary(r.sph, r.cyl, r.axis));
-    },
-  }),
-  ...(["mean", "observations"] as const).map((region) =>
-    defineFormula({
-      name: region === "mean" ? "ellipse95" : "spread95",
-      group: "statistics",
-      summary: region === "mean"
-        ? "95% confidence ellipse of the mean (J0, J45) of refractions (χ², 2 d.f.)."
-        : "Ellipse expected to hold 95% of the eyes' (J0, J45) (χ², 2 d.f.).",
-      params: RX_PARAMS,
-      returns: { type: "any", doc: "centre, semi-axes (D), angle of the major axis (deg), n" },
-      sources: ["chi2-ellipse", "thibos-1997"],
-      example: `${
-        region === "mean" ? "ellipse95" : "spread95"
-      }([-1 D, -1.5 D, -2 D, -1 D], [-0.5 D, -0.75 D, -0.25 D, -1 D], [90 deg, 85 deg, 10 deg, 170 deg])`,
-      fn: (a, b, c) => {
-        const r = refractionArrays(C(a), O(b), O(c));
-        return ellipseRecord(vectorSummary(r.sph, r.cyl, r.axis), region);
-      },
-    })
-  ),
-  defineFormula({
-    name: "agreement",
-    group: "statistics",
-    summary:
-      "Bland–Altman bias and 95% limits of agreement (bias ± 1.96 SD) of two paired numeric columns.",
-    params: [COL("a", "first method's column"), COL("b", "second method's column, same rows")],
-    returns: { type: "any", doc: "n, bias, sd, lower, upper (in a's unit)" },
-    sources: ["bland-altman-1986"],
-    example: "agreement([1, 2, 3.5], [0.75, 2.25, 3])",
-    fn: (a, b) => {
-      const ca = C(a, "a");
-      const unit = unitOf(ca);
-      return agreementRecord(
-        limitsOfAgreement(columnNumbers(ca), columnNumbers(C(b, "b"), unit || undefined)),
-        unit,
-      );
-    },
-  }),
-  defineFormula({
-    name: "rxAgreement",
-    group: "statistics",
-    summary:
-      "Bland–Altman agreement of paired refractions on M, J0 and J45: rxAgreement(a.rx, b.rx) or with sphere, cylinder and axis columns of each.",
-    params: [
-      COL("a", "first method's prescriptions, or its sphere column"),
-      COL("b", "second method's prescriptions, or the first's cylinder column"),
-      COL("aAxis", "first method's axis column", true),
-      COL("bSph", "second method's sphere column", true),
-      COL("bCyl", "second method's cylinder column", true),
-      COL("bAxis", "second method's axis column", true),
-    ],
-    returns: { type: "any", doc: "n and, for M, J0 and J45: bias, sd, lower, upper" },
-    sources: ["bland-altman-1986", "thibos-1997"],
-    example:
-      'rxAgreement(["-1.00 / -0.50 x 90", "-2.00 DS", "+0.50 / -0.25 x 180"], ["-1.25 / -0.50 x 85", "-2.25 DS", "+0.50 DS"])',
-    fn: (...args) => {
-      const cols = args.filter((x) => x !== undefined).map((x) => C(x));
-      let ra, rb;
-      if (cols.length === 2) {
-        ra = refractionArrays(cols[0]);
-        rb = refractionArrays(cols[1]);
-      } else if (cols.length === 6) {
-        ra = refractionArrays(cols[0], cols[1], cols[2]);
-        rb = refractionArrays(cols[3], cols[4], cols[5]);
-      } else {
-        throw new LentilInputError(
-          `give two columns of prescriptions, or six columns (sphere, cylinder, axis of each); got ${cols.length}`,
-        );
-      }
-      const agg = vectorAgreement(vectorsOf(ra), vectorsOf(rb));
-      return {
-        n: agg.m.n,
-        M: agreementRecord(agg.m, "D"),
-        J0: agreementRecord(agg.j0, "D"),
-        J45: agreementRecord(agg.j45, "D"),
-      };
     },
   }),
 ];

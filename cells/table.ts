@@ -53,12 +53,17 @@ export interface TableInfo {
   readonly excluded: number;
   /** CSV file the data came from, relative to the notebook, if any. */
   readonly file?: string;
+  /** The column naming the person (subject key), when the table block declares one. */
+  readonly subject?: string;
+  /** The column naming the eye (R or L), when the table block declares one. */
+  readonly eye?: string;
 }
 
 /** A table as the formula language sees it: columns by name. */
 export type TableValue = Record<string, Column>;
 
 const infos = new WeakMap<object, TableInfo>();
+const owners = new WeakMap<Column, TableValue>();
 
 /**
  * Make a table value from columns of equal length.
@@ -74,7 +79,7 @@ const infos = new WeakMap<object, TableInfo>();
 export function makeTable(
   name: string,
   columns: readonly Column[],
-  extra: { excluded?: number; file?: string } = {},
+  extra: { excluded?: number; file?: string; subject?: string; eye?: string } = {},
 ): TableValue {
   const rowCount = columns.length ? columns[0].length : 0;
   const value: TableValue = {};
@@ -85,8 +90,17 @@ export function makeTable(
       );
     }
     value[c.name] = c;
+    owners.set(c, value);
   }
-  infos.set(value, { name, columns, rowCount, excluded: extra.excluded ?? 0, file: extra.file });
+  infos.set(value, {
+    name,
+    columns,
+    rowCount,
+    excluded: extra.excluded ?? 0,
+    file: extra.file,
+    ...(extra.subject ? { subject: extra.subject } : {}),
+    ...(extra.eye ? { eye: extra.eye } : {}),
+  });
   return value;
 }
 
@@ -112,6 +126,7 @@ export function addColumn(table: TableValue, column: Column): void {
     );
   }
   table[column.name] = column;
+  owners.set(column, table);
   const columns = info.columns.filter((c) => c.name !== column.name).concat([column]);
   infos.set(table, { ...info, columns });
 }
@@ -140,4 +155,20 @@ export function tableInfo(x: unknown): TableInfo | undefined {
  */
 export function isTable(x: unknown): x is TableValue {
   return tableInfo(x) !== undefined;
+}
+
+/**
+ * The table a column belongs to (the latest one it was placed in), or undefined for a
+ * column made inside a formula.
+ *
+ * @example
+ * ```ts
+ * import { Column, makeTable, tableOfColumn } from "./table.ts";
+ * const x = new Column("x", "number", "", new Float64Array([1, 2]));
+ * const t = makeTable("t", [x]);
+ * tableOfColumn(x) === t; // true
+ * ```
+ */
+export function tableOfColumn(c: Column): TableValue | undefined {
+  return owners.get(c);
 }

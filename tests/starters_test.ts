@@ -132,13 +132,28 @@ Deno.test("refraction study: power-vector means and Bland–Altman limits from t
   close(nb.language.toNumberIn(meanRx.J0, "D"), mean(subj.map((v) => v.j0)), 1e-9, "mean J0");
   close(nb.language.toNumberIn(meanRx.J45, "D"), mean(subj.map((v) => v.j45)), 1e-9, "mean J45");
 
-  // Bland & Altman 1986: bias = mean difference, limits = bias ± 1.96 SD.
+  // Bland & Altman 1999 (section 5.2): both eyes of each person are two pairs of one
+  // subject, so the SD of a difference is √(σ²_between + σ²_within) from the one-way
+  // analysis of variance by person; with two pairs each σ²_between = (MSB − MSW)/2, taken
+  // as zero when negative (as Bland & Altman do).
   const diff = obj.map((o, i) => o.m - subj[i].m);
   const loa = (nb.value("methods") as Record<string, Record<string, unknown>>).M;
   const bias = mean(diff);
+  const persons = new Map<string, number[]>();
+  rows.forEach((r, i) => persons.set(r.subject, [...(persons.get(r.subject) ?? []), diff[i]]));
+  const pm = [...persons.values()].map(mean);
+  const msb = 2 * pm.reduce((a, m) => a + (m - bias) ** 2, 0) / (pm.length - 1);
+  const msw = [...persons.values()].reduce((a, [x, y]) => a + (x - y) ** 2 / 2, 0) / pm.length;
+  const sdRepeated = Math.sqrt(Math.max(0, (msb - msw) / 2) + msw);
+  assert.ok(Math.abs(sdRepeated - sd(diff)) < 0.01, "close to the naive SD here");
   close(nb.language.toNumberIn(loa.bias, "D"), bias, 1e-9, "bias");
-  close(nb.language.toNumberIn(loa.lower, "D"), bias - 1.96 * sd(diff), 1e-9, "lower limit");
-  close(nb.language.toNumberIn(loa.upper, "D"), bias + 1.96 * sd(diff), 1e-9, "upper limit");
+  close(nb.language.toNumberIn(loa.lower, "D"), bias - 1.96 * sdRepeated, 1e-9, "lower limit");
+  close(nb.language.toNumberIn(loa.upper, "D"), bias + 1.96 * sdRepeated, 1e-9, "upper limit");
+  // The confidence ellipse of the mean counts persons, not eyes (Murdoch et al. 1998).
+  const ell = nb.value("meanEllipse") as Record<string, unknown>;
+  assert.equal(ell.subjects, 1000);
+  assert.match(String(ell.eyes), /standard errors from persons/);
+  assert.match(String(ell.region), /Hotelling/);
 });
 
 Deno.test("the committed study CSV is what the seeded generator writes", async () => {

@@ -143,7 +143,7 @@ Deno.test("statistics read as statistics: SDs unsigned, exact figures, ellipses 
   );
   assert.match(
     shown("agree"),
-    /bias\): [+-]?\d\.\d\d\d? D, standard deviation: \d\.\d\d\d? D, lower limit of agreement: -/,
+    /^bias [+-]?\d\.\d\d\d? D \(95% CI [+-]\d\.\d\d\d? to [+-]\d\.\d\d\d? D\); 95% limits of agreement -/,
   );
   // the fields are still quantities for arithmetic, and parts labelled in words
   const s = nb.value("s") as Record<string, unknown>;

@@ -670,7 +670,15 @@ export class Notebook {
     try {
       if (n.kind === "table") {
         const b = n.built!;
-        set({ value: makeTable(n.name, b.columns, { excluded: b.excluded, file: b.file }) });
+        const o = n.block?.options;
+        set({
+          value: makeTable(n.name, b.columns, {
+            excluded: b.excluded,
+            file: b.file,
+            subject: o?.subject?.value,
+            eye: o?.eye?.value,
+          }),
+        });
       } else if (n.kind === "column") {
         const table = this.#scope.get(n.table!) as TableValue;
         const column = this.#evaluateColumn(n, table);

@@ -1,6 +1,6 @@
 /**
  * The reader of a table block (```` ```lentil table NAME ````): option lines (`file:`,
- * `bad rows:`), a header `name [unit] | name [type] | name`, then one row a line.
+ * `bad rows:`, `subject:` and `eye:` naming the person and eye columns of a both-eyes study), a header `name [unit] | name [type] | name`, then one row a line.
  *
  * @module
  */
@@ -10,7 +10,7 @@ import type { Fenced } from "./_fence.ts";
 import { isBlankOrComment, type Line, optionValue, type ReadContext, splitRow } from "./_text.ts";
 
 /** The option keys a table block knows. */
-export const TABLE_OPTION_KEYS = ["file", "bad rows"] as const;
+export const TABLE_OPTION_KEYS = ["file", "bad rows", "subject", "eye"] as const;
 
 /**
  * Read a table block: its name (claimed), options, header and rows; a row with another

@@ -34,6 +34,7 @@ import {
   vectorStatsRecord,
 } from "../../cells/stats.ts";
 import { markExact } from "../../cells/quantity.ts";
+import { INDEPENDENT_NOTE } from "../../cells/_eyes_context.ts";
 import { agreementFrom } from "../../lib/agreement.ts";
 import { pushRefraction, RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
 import { toPowerVector } from "../../lib/power_vector.ts";
@@ -244,7 +245,9 @@ function aggregateFor(
     case "vectorStats":
       return vector((r) => vectorStatsRecord(vectorSummaryFrom(r)));
     case "ellipse95":
-      return vector((r) => ellipseRecord(vectorSummaryFrom(r), "mean"));
+      return vector((r) =>
+        ellipseRecord(vectorSummaryFrom(r), "mean", "hotelling", { eyes: INDEPENDENT_NOTE })
+      );
     case "spread95":
       return vector((r) => ellipseRecord(vectorSummaryFrom(r), "observations"));
     case "agreement": {
