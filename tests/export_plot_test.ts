@@ -4,7 +4,7 @@ import { loadNotebook } from "../notebook/load.ts";
 import { Notebook } from "../notebook/engine/engine.ts";
 import type { PlotBlock } from "../notebook/format/parse.ts";
 import { MAX_PLOT_POINTS, PLOT_FIGURES, renderPlot } from "../notebook/export/plot.ts";
-import { formatNumber } from "../cells/display.ts";
+import { signed } from "../cells/display.ts";
 import { limitsOf, markOf, outlineOf, pointsOf } from "../notebook/export/_plot_values.ts";
 
 const FIXTURE = new URL("./fixtures/export-plots.lentil.md", import.meta.url).pathname;
@@ -18,6 +18,13 @@ if (!loaded.ok) throw new Error(loaded.diagnostic.message);
 const nb = loaded.notebook;
 const byName = new Map(plots(nb).map((b) => [b.name, renderPlot(b, nb)]));
 
+/** The marks drawn in a part of a figure: each mark's path starts with `M x,y`. */
+function marks(svg: string, part: string): [number, number][] {
+  const g = new RegExp(`<g data-part="${part}">([^]*?)</g>`).exec(svg);
+  if (!g) return [];
+  return [...g[1].matchAll(/M(-?[\d.]+),(-?[\d.]+)/g)].map((m) => [Number(m[1]), Number(m[2])]);
+}
+
 Deno.test("plot: the fixture has one plot of every figure, all without problems", () => {
   const kinds = plots(nb).map((b) => b.options.figure.value).sort();
   assert.deepEqual(kinds, [...PLOT_FIGURES].sort());
@@ -27,43 +34,47 @@ Deno.test("plot: the fixture has one plot of every figure, all without problems"
   }
 });
 
-Deno.test("plot curve: line, dots, the endpoint marked and the fitted curve dashed", () => {
+Deno.test("plot curve: line, marks, the endpoint marked in words and the fitted curve dashed", () => {
   const p = byName.get("focus")!;
-  assert.match(p.svg, /aria-label="line"/);
-  assert.equal(
-    (/aria-label="dot"[^>]*>([^]*?)<\/g>/.exec(p.svg)![1].match(/<circle/g) ?? []).length,
-    10,
-  );
-  assert.match(p.svg, /aria-label="rule"/);
-  assert.match(p.svg, /stroke-dasharray="5 4"/);
+  assert.match(p.svg, /data-part="curve"/);
+  assert.equal(marks(p.svg, "rows").length, 10);
+  assert.match(p.svg, /data-part="mark"/);
+  assert.match(p.svg, /data-part="fitted"[^>]*stroke-dasharray="6 4"/);
   const ep = nb.value("ep");
   const json = nb.language.describe(ep).value as { endpoint: number };
-  assert.ok(p.svg.includes(`ep ${json.endpoint}`), "endpoint label");
+  assert.ok(p.svg.includes(`endpoint ${signed(json.endpoint)} D`), "endpoint label");
   assert.equal(p.heading, "Acuity through focus");
 });
 
 Deno.test("plot scatter: a dot a row, coloured by group, with the ellipse outline", () => {
   const p = byName.get("vectors")!;
-  assert.equal((p.svg.match(/<circle/g) ?? []).length, 240);
-  assert.match(p.svg, /aria-label="line"/);
-  assert.ok(p.svg.includes("j0 [D]") && p.svg.includes("j45 [D]"));
+  assert.equal(marks(p.svg, "rows").length, 240);
+  assert.match(p.svg, /data-part="ellipse"/);
+  assert.ok(p.svg.includes(">j0 (D)<") && p.svg.includes(">j45 (D)<"));
+  // Two series (R and L eyes) in two colours and shapes, with their key.
+  assert.equal((p.svg.match(/data-series="/g) ?? []).length, 2);
+  assert.match(p.svg, /data-part="key"[^]*>R<[^]*>L</);
 });
 
 Deno.test("plot distribution: bars counting every row", () => {
   const p = byName.get("spread_j0")!;
-  const rects = /aria-label="rect"[^>]*>([^]*?)<\/g>/.exec(p.svg)![1];
-  assert.ok((rects.match(/<rect/g) ?? []).length >= 10);
+  const bars = /data-part="classes" d="([^"]*)"/.exec(p.svg)![1];
+  assert.equal((bars.match(/M/g) ?? []).length, 20, "classes: 20");
   assert.ok(p.svg.includes("number of rows"));
 });
 
 Deno.test("plot agreement: dots, bias and the two limits labelled", () => {
   const p = byName.get("methods")!;
-  assert.equal((p.svg.match(/<circle/g) ?? []).length, 240);
+  assert.equal(marks(p.svg, "rows").length, 240);
   const loa = nb.language.describe(nb.value("loa")).value as Record<string, number>;
   for (
-    const [label, key] of [["bias", "bias"], ["lower limit", "lower"], ["upper limit", "upper"]]
+    const [label, key] of [
+      ["bias", "bias"],
+      ["lower limit of agreement", "lower"],
+      ["upper limit of agreement", "upper"],
+    ]
   ) {
-    const t = `${label} ${formatNumber(loa[key])}`;
+    const t = `${label} ${signed(loa[key])} D`;
     assert.ok(p.svg.includes(t), t);
   }
   assert.ok(loa.lower < loa.bias && loa.bias < loa.upper);
@@ -128,8 +139,7 @@ Deno.test("plot: a logMAR vertical axis puts better acuity up unless better-up: 
   const t = "```lentil table t\nlens [D] | va [logMAR]\n0 | 0.1\n1 | 0.4\n```\n\n```lentil plot\n" +
     "figure: curve\ntable: t\nhorizontal: lens\nvertical: va\n";
   // The y pixel of each dot: with better acuity up, the smaller logMAR (0.1) is higher (smaller y).
-  const ys = (svg: string) =>
-    [...svg.matchAll(/<circle[^>]*cy="([\d.]+)"/g)].map((m) => Number(m[1]));
+  const ys = (svg: string) => marks(svg, "rows").map(([, y]) => y);
   const up = ys(one(t + "```\n").svg);
   assert.ok(up[0] < up[1], String(up));
   const down = ys(one(t + "better-up: no\n```\n").svg);
@@ -166,7 +176,7 @@ Deno.test("plot: a large table is thinned to the point cap and the caption says 
       "\n```\n\n```lentil plot\nfigure: scatter\ntable: big\nhorizontal: x\nvertical: y\n```\n",
   );
   assert.deepEqual(p.problems, []);
-  const dots = (p.svg.match(/<circle/g) ?? []).length;
+  const dots = marks(p.svg, "rows").length;
   assert.ok(dots <= MAX_PLOT_POINTS && dots > MAX_PLOT_POINTS / 2, String(dots));
   assert.match(p.caption ?? "", /One row in 3 drawn, of 8,010\./);
 });
@@ -202,5 +212,28 @@ Deno.test("plot values: points, marks and limits in the shapes cells give them",
     const u = dx * Math.cos(t) + dy * Math.sin(t);
     const v = -dx * Math.sin(t) + dy * Math.cos(t);
     assert.ok(Math.abs((u / 3) ** 2 + v ** 2 - 1) < 1e-9);
+  }
+});
+
+Deno.test("plot theme: titles in words with the unit in brackets, lens-step and logMAR ticks", () => {
+  const p = byName.get("focus")!;
+  const ticks = (part: string) =>
+    [...new RegExp(`<g data-part="${part}"[^>]*>([^]*?)</g>`).exec(p.svg)![1].matchAll(
+      />([^<]*)</g,
+    )].map((m) => m[1]).filter((t) => t !== "");
+  const h = ticks("horizontal-ticks");
+  // Power axis: signed, two decimals, on multiples of a lens step (0.25 D).
+  for (const t of h) assert.match(t, /^([+-]\d+\.\d\d|0\.00)$/, t);
+  for (const t of h) assert.equal(Math.abs(Number(t) * 4 - Math.round(Number(t) * 4)) < 1e-9, true);
+  // logMAR axis: 0.1 steps, better acuity (smaller logMAR) at the top.
+  const v = ticks("vertical-ticks").map(Number);
+  for (let i = 1; i < v.length; i++) assert.ok(Math.abs(Math.abs(v[i] - v[i - 1]) - 0.1) < 1e-9);
+  assert.match(p.svg, />lens \(D\)</);
+  assert.match(p.svg, />visual acuity \(logMAR, better up\)</);
+  for (const q of byName.values()) {
+    assert.doesNotMatch(q.svg, /[↑↓←→]/, "no arrows");
+    // One label for the whole figure; none on its parts.
+    assert.equal((q.svg.match(/aria-/g) ?? []).length, 1, q.name);
+    assert.match(q.svg, /^<svg[^>]*role="img" aria-label="[^"]+"/);
   }
 });

@@ -1,6 +1,7 @@
 /**
- * Plot blocks: what their options mean, and their rendering to inline SVG on the server
- * with `@observablehq/plot` and a `linkedom` document (no browser, no script in the page).
+ * Plot blocks: what their keys mean, and their drawing to inline SVG on the server in
+ * Lentil's own look (`_chart.ts`, no browser, no script in the page). Each figure is a
+ * module in `figures/`.
  *
  * ````text
  * ```lentil plot focus
@@ -45,41 +46,54 @@
  * @module
  */
 
-import * as Plot from "@observablehq/plot";
-import { parseHTML } from "linkedom";
 import type { Notebook } from "../engine/engine.ts";
 import type { OptionDef, PlotBlock } from "../format/parse.ts";
 import type { Diagnostic } from "../format/diagnostic.ts";
 import { type Column, tableInfo } from "../../cells/table.ts";
-import { formatNumber } from "../../cells/display.ts";
-import { limitsOf, markOf, pointsOf, type XY } from "./_plot_values.ts";
+import { type AxisSpec, chartSvg, type Layer, type Legend, rampColour } from "./_chart.ts";
+import { axisKind, axisTitle, valueText } from "./_axes.ts";
+import { FIGURES } from "./figures/mod.ts";
+import type { FigureDef, FigureInput } from "./figures/figure.ts";
 
 /** The figures a plot block can draw. */
-export const PLOT_FIGURES = ["curve", "scatter", "distribution", "agreement"] as const;
+export const PLOT_FIGURES: readonly string[] = FIGURES.map((f) => f.name);
 
 /** A figure a plot block can draw. */
-export type PlotFigure = typeof PLOT_FIGURES[number];
+export type PlotFigure = string;
 
-/** Every option key a plot block accepts, with what it means. */
-export const PLOT_OPTIONS: Readonly<Record<string, string>> = {
+const COMMON_KEYS: Readonly<Record<string, string>> = {
   figure: `one of ${PLOT_FIGURES.join(", ")}`,
   table: "the table whose rows are plotted",
   horizontal: "column for the horizontal axis",
-  vertical: "column for the vertical axis (not for distribution)",
+  vertical: `column for the vertical axis (for ${
+    FIGURES.filter((f) => f.vertical).map((f) => f.name).join(", ")
+  })`,
   heading: "heading above the plot",
   caption: "text below the plot",
-  "horizontal-title": "title of the horizontal axis (default: the column and its unit)",
-  "vertical-title": "title of the vertical axis (default: the column and its unit)",
-  "colour-by": "column whose values colour the dots",
-  mark: "cell whose value marks a point or a power (curve); `cell.part` picks a part of a record",
-  fitted: "cell holding fitted curve points, drawn dashed (curve)",
-  ellipse: "cell holding an outline, e.g. a confidence ellipse (scatter)",
-  limits: "cell holding the bias and limits of agreement (agreement)",
-  classes: "number of equal classes the horizontal column is counted in (distribution)",
+  "horizontal-title": "title of the horizontal axis (default: the column in words and its unit)",
+  "vertical-title": "title of the vertical axis (default: the column in words and its unit)",
+  "colour-by": "column whose values colour and shape the marks",
   "better-up": "no to draw a logMAR vertical axis with smaller values down (default yes)",
 };
 
-/** Largest number of dots drawn; beyond it every k-th row is drawn and the caption says so. */
+/** The figures that take each figure-specific key. */
+const KEY_FIGURES = new Map<string, string[]>();
+for (const f of FIGURES) {
+  for (const k of Object.keys(f.keys)) {
+    if (k in COMMON_KEYS) continue;
+    KEY_FIGURES.set(k, [...(KEY_FIGURES.get(k) ?? []), f.name]);
+  }
+}
+
+/** Every key a plot block accepts, with what it means. */
+export const PLOT_OPTIONS: Readonly<Record<string, string>> = {
+  ...COMMON_KEYS,
+  ...Object.fromEntries(
+    FIGURES.flatMap((f) => Object.entries(f.keys)).filter(([k]) => !(k in COMMON_KEYS)),
+  ),
+};
+
+/** Largest number of marks drawn; beyond it every k-th row is drawn and the caption says so. */
 export const MAX_PLOT_POINTS = 4000;
 
 /** A rendered plot block. */
@@ -90,15 +104,11 @@ export interface RenderedPlot {
   readonly heading?: string;
   /** Caption text (unescaped), including a note when rows were thinned. */
   readonly caption?: string;
-  /** The SVG (or Plot's figure around it) markup; "" when the block has an error. */
+  /** The SVG markup; "" when the block has an error. */
   readonly svg: string;
   /** Problems with the block: with an error, no plot is drawn. */
   readonly problems: readonly Diagnostic[];
 }
-
-const INK = "#1d3557";
-const ACCENT = "#c0392b";
-const FIT = "#2a9d8f";
 
 interface Ctx {
   readonly block: PlotBlock;
@@ -168,16 +178,6 @@ function cellJson(ctx: Ctx, key: string): unknown {
   return v;
 }
 
-function axisLabel(
-  ctx: Ctx,
-  axis: "horizontal" | "vertical",
-  c: Column | undefined,
-): string | undefined {
-  const given = opt(ctx, `${axis}-title`);
-  if (given) return given;
-  return c ? (c.unit ? `${c.name} [${c.unit}]` : c.name) : undefined;
-}
-
 function yes(ctx: Ctx, key: string, byDefault: boolean): boolean {
   const v = opt(ctx, key)?.toLowerCase();
   if (v === undefined) return byDefault;
@@ -189,31 +189,46 @@ function yes(ctx: Ctx, key: string, byDefault: boolean): boolean {
   return false;
 }
 
-/** A logMAR column: smaller is better acuity. */
-function isLogMAR(c: Column | undefined): boolean {
-  return c?.unit?.toLowerCase() === "logmar";
+/** The axis a column gets: its title in words with the unit, and ticks by its measure. */
+function axisOf(ctx: Ctx, which: "horizontal" | "vertical", c: Column | undefined): AxisSpec {
+  const title = opt(ctx, `${which}-title`) ?? (c ? axisTitle(c.name, c.unit) : "");
+  return { title, kind: axisKind(c?.unit) };
 }
 
-type PlotDocument = NonNullable<Plot.PlotOptions["document"]>;
-
-let doc: PlotDocument | undefined;
-function svgDocument(): PlotDocument {
-  doc ??= (parseHTML("<!doctype html><html><head></head><body></body></html>") as unknown as {
-    document: PlotDocument;
-  }).document;
-  return doc;
-}
-
-/** Rows as records for Plot, thinned to at most MAX_PLOT_POINTS. */
-function rowsOf(columns: (Column | undefined)[], rowCount: number) {
-  const step = Math.max(1, Math.ceil(rowCount / MAX_PLOT_POINTS));
-  const out: Record<string, unknown>[] = [];
-  for (let i = 0; i < rowCount; i += step) {
-    const r: Record<string, unknown> = {};
-    for (const c of columns) if (c) r[c.name] = c.data[i];
-    out.push(r);
+/**
+ * What a plot block's drawing depends on: its keys, and the very columns and cell values it
+ * reads. Two lists that are equal item by item (`===`) draw the same figure, so a live page
+ * redraws a plot only when one of them changed.
+ *
+ * @example
+ * ```ts
+ * import { Notebook } from "../engine/engine.ts";
+ * import { plotDependencies } from "./plot.ts";
+ * const nb = Notebook.fromText(
+ *   "~~~lentil table t\nx | y\n1 | 2\n2 | 3\n~~~\n\n~~~lentil plot\nfigure: scatter\ntable: t\nhorizontal: x\nvertical: y\n~~~\n",
+ *   "p.lentil.md",
+ * );
+ * const block = nb.doc.blocks.find((b) => b.kind === "plot")!;
+ * plotDependencies(block, nb).length > 0; // true
+ * ```
+ */
+export function plotDependencies(block: PlotBlock, nb: Notebook): unknown[] {
+  const keys = Object.entries(block.options).map(([k, o]) => `${k}:${o.value}`).join("\n");
+  const deps: unknown[] = [keys, JSON.stringify(nb.display)];
+  const tableName = block.options.table?.value;
+  const tr = tableName ? nb.result(tableName) : undefined;
+  deps.push(tr?.value, tr?.error);
+  const info = tr && !tr.error ? tableInfo(tr.value) : undefined;
+  for (const key of ["horizontal", "vertical", "colour-by"]) {
+    const name = block.options[key]?.value;
+    deps.push(name ? info?.columns.find((c) => c.name === name) : undefined);
   }
-  return { rows: out, step };
+  for (const key of KEY_FIGURES.keys()) {
+    const name = block.options[key]?.value?.split(".")[0];
+    const r = name ? nb.result(name) : undefined;
+    deps.push(r?.value, r?.error);
+  }
+  return deps;
 }
 
 /**
@@ -233,8 +248,8 @@ export function plotProblems(block: PlotBlock, nb: Notebook): Diagnostic[] {
 }
 
 /**
- * Render one plot block to SVG markup. User text (titles, labels, values) reaches the SVG
- * only as text content, escaped by the serialiser.
+ * Render one plot block to SVG markup. User text (headings, titles, values) reaches the SVG
+ * only as escaped text.
  *
  * @example
  * ```ts
@@ -263,12 +278,13 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
       );
     }
   }
-  const kind = opt(ctx, "figure") as PlotFigure | undefined;
-  if (!kind || !(PLOT_FIGURES as readonly string[]).includes(kind)) {
+  const figureName = opt(ctx, "figure");
+  const figure: FigureDef | undefined = FIGURES.find((f) => f.name === figureName);
+  if (!figure) {
     problem(
       ctx,
-      kind
-        ? `figure "${kind}" is not one of ${PLOT_FIGURES.join(", ")}`
+      figureName
+        ? `figure "${figureName}" is not one of ${PLOT_FIGURES.join(", ")}`
         : `needs \`figure:\` (${PLOT_FIGURES.join(", ")})`,
       block.options.figure,
     );
@@ -292,145 +308,113 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
     return none();
   }
   if (!opt(ctx, "horizontal")) problem(ctx, "needs `horizontal:` naming a column");
-  if (kind !== "distribution" && !opt(ctx, "vertical")) {
-    problem(ctx, "needs `vertical:` naming a column");
-  }
+  if (figure.vertical && !opt(ctx, "vertical")) problem(ctx, "needs `vertical:` naming a column");
   const xc = columnOf(ctx, info.columns, "horizontal", true);
-  const yc = kind === "distribution" ? undefined : columnOf(ctx, info.columns, "vertical", true);
+  const yc = figure.vertical ? columnOf(ctx, info.columns, "vertical", true) : undefined;
   const gc = columnOf(ctx, info.columns, "colour-by", false);
-  const invert = yes(ctx, "better-up", true) && isLogMAR(yc);
-  const markV = kind === "curve" ? cellJson(ctx, "mark") : undefined;
-  const fitV = kind === "curve" ? cellJson(ctx, "fitted") : undefined;
-  const ellipseV = kind === "scatter" ? cellJson(ctx, "ellipse") : undefined;
-  const limitsV = kind === "agreement" ? cellJson(ctx, "limits") : undefined;
-  for (const [key, kinds] of Object.entries(KIND_ONLY)) {
-    if (block.options[key] && !kinds.includes(kind)) {
+  const betterUp = yes(ctx, "better-up", true);
+  for (const [key, figures] of KEY_FIGURES) {
+    if (block.options[key] && !figures.includes(figure.name)) {
       problem(
         ctx,
-        `${key} applies to ${kinds.join(", ")} figures, not ${kind}`,
+        `${key} applies to ${figures.join(", ")} figures, not ${figure.name}`,
         block.options[key],
       );
     }
   }
-  let bins: number | undefined;
-  if (opt(ctx, "classes")) {
-    bins = Number(opt(ctx, "classes"));
-    if (!Number.isInteger(bins) || bins < 1 || bins > 500) {
-      problem(ctx, `classes: expected a whole number from 1 to 500`, block.options.classes);
-    }
-  }
-  const mark = markV === undefined ? undefined : markOf(markV);
-  if (markV !== undefined && !mark) problem(ctx, "mark: the cell holds no point or power");
-  const fit = fitV === undefined ? undefined : pointsOf(fitV);
-  if (fitV !== undefined && !fit) problem(ctx, "fitted: the cell holds no curve points");
-  const ring = ellipseV === undefined ? undefined : pointsOf(ellipseV);
-  if (ellipseV !== undefined && !ring) problem(ctx, "ellipse: the cell holds no outline points");
-  const limits = limitsV === undefined ? undefined : limitsOf(limitsV);
-  if (limitsV !== undefined && !limits) problem(ctx, "limits: the cell holds no limits");
   if (ctx.problems.some((p) => p.severity === "error") || !xc) return none();
 
-  const { rows, step } = rowsOf([xc, yc, gc], info.rowCount);
-  if (step > 1 && kind !== "distribution") {
+  const step = Math.max(1, Math.ceil(info.rowCount / MAX_PLOT_POINTS));
+  const drawn = Math.ceil(info.rowCount / step);
+  const xs = new Float64Array(drawn), ys = new Float64Array(yc ? drawn : 0);
+  const groupValues: unknown[] = [];
+  for (let i = 0, j = 0; i < info.rowCount; i += step, j++) {
+    xs[j] = xc.data[i] as number;
+    if (yc) ys[j] = yc.data[i] as number;
+    if (gc) groupValues.push(gc.data[i]);
+  }
+  let series: Uint16Array | undefined;
+  let colours: string[] | undefined;
+  let legend: Legend | undefined;
+  const seriesNames: string[] = [];
+  if (gc?.numeric) {
+    const vs = groupValues as number[];
+    let lo = Infinity, hi = -Infinity;
+    for (const v of vs) {
+      if (Number.isFinite(v)) {
+        lo = Math.min(lo, v);
+        hi = Math.max(hi, v);
+      }
+    }
+    colours = vs.map((v) => rampColour(v, lo, hi));
+    legend = {
+      type: "ramp",
+      title: axisTitle(gc.name, gc.unit),
+      low: valueText(lo, gc.unit),
+      high: valueText(hi, gc.unit),
+    };
+  } else if (gc) {
+    const index = new Map<string, number>();
+    series = new Uint16Array(groupValues.length);
+    groupValues.forEach((v, i) => {
+      const key = v === null || v === undefined ? "" : String(v);
+      let k = index.get(key);
+      if (k === undefined) {
+        index.set(key, k = index.size);
+        seriesNames.push(key || "(none)");
+      }
+      series![i] = k;
+    });
+    legend = { type: "series", title: axisTitle(gc.name, gc.unit), names: seriesNames };
+  }
+  const input: FigureInput = {
+    horizontal: xc,
+    vertical: yc,
+    colourBy: gc,
+    xs,
+    ys,
+    allXs: xc.data as Float64Array,
+    option: (key) => opt(ctx, key),
+    cell: (key) => cellJson(ctx, key),
+    cellName: (key) => opt(ctx, key)?.split(".")[0],
+    problem: (message, key) => problem(ctx, message, key ? block.options[key] : undefined),
+    rowMarks: (part, o = {}): Layer => ({
+      type: "marks",
+      part,
+      xs,
+      ys,
+      ...(series ? { series } : {}),
+      ...(colours ? { colours } : {}),
+      ...o,
+    }),
+    series,
+    seriesNames,
+    betterUp,
+  };
+  const drawing = figure.draw(input);
+  if (!drawing || ctx.problems.some((p) => p.severity === "error")) return none();
+  if (step > 1 && figure.name !== "distribution") {
     const note = `One row in ${step} drawn, of ${info.rowCount.toLocaleString("en")}.`;
     caption = caption ? `${caption} ${note}` : note;
   }
-  const x = xc.name;
-  const y = yc?.name;
-  const dotColour = gc ? gc.name : INK;
-  const marks: Plot.Markish[] = [];
-  const num = (v: number) => formatNumber(v);
-  if (kind === "curve") {
-    marks.push(
-      Plot.line(rows, { x, y, sort: { channel: "x" }, stroke: gc ? gc.name : INK, z: gc?.name }),
-      Plot.dot(rows, { x, y, fill: dotColour, r: 3 }),
-    );
-    if (fit) {
-      marks.push(Plot.line(fit, { x: "x", y: "y", stroke: FIT, strokeDasharray: "5 4" }));
-    }
-    if (mark) {
-      const label = `${opt(ctx, "mark")} ${num(mark.x)}`;
-      marks.push(Plot.ruleX([mark.x], { stroke: ACCENT, strokeDasharray: "3 3" }));
-      if (mark.y !== undefined) {
-        marks.push(
-          Plot.dot([mark], { x: "x", y: "y", r: 7, stroke: ACCENT, strokeWidth: 2 }),
-          Plot.text([mark], {
-            x: "x",
-            y: "y",
-            text: () => label,
-            dy: invert ? 16 : -14,
-            fill: ACCENT,
-          }),
-        );
-      } else {
-        marks.push(Plot.text([mark.x], { x: (d) => d, frameAnchor: "top", text: () => label }));
-      }
-    }
-  } else if (kind === "scatter") {
-    marks.push(Plot.dot(rows, { x, y, fill: dotColour, r: 2.5, fillOpacity: 0.7 }));
-    if (ring) {
-      const closed: XY[] = [...ring, ring[0]];
-      marks.push(Plot.line(closed, { x: "x", y: "y", stroke: ACCENT, strokeWidth: 1.5 }));
-    }
-  } else if (kind === "distribution") {
-    marks.push(
-      Plot.rectY(rows, {
-        ...Plot.binX({ y: "count" }, { x, ...(bins ? { thresholds: bins } : {}) }),
-        fill: INK,
-        inset: 0.5,
-      }),
-      Plot.ruleY([0]),
-    );
-  } else {
-    marks.push(Plot.dot(rows, { x, y, fill: dotColour, r: 2.5, fillOpacity: 0.7 }));
-    if (limits) {
-      const lines = [
-        ...(limits.bias !== undefined
-          ? [{ y: limits.bias, label: `bias ${num(limits.bias)}`, dash: "" }]
-          : []),
-        { y: limits.lower, label: `lower limit ${num(limits.lower)}`, dash: "6 4" },
-        { y: limits.upper, label: `upper limit ${num(limits.upper)}`, dash: "6 4" },
-      ];
-      for (const l of lines) {
-        marks.push(
-          Plot.ruleY([l.y], { stroke: ACCENT, strokeDasharray: l.dash || undefined }),
-          Plot.text([l], {
-            y: "y",
-            text: "label",
-            frameAnchor: "right",
-            textAnchor: "end",
-            dy: -6,
-            fill: ACCENT,
-          }),
-        );
-      }
-    } else marks.push(Plot.ruleY([0], { stroke: "#888" }));
+  if (drawing.note) caption = caption ? `${caption} ${drawing.note}` : drawing.note;
+  const x: AxisSpec = { ...axisOf(ctx, "horizontal", xc), ...drawing.x };
+  let y: AxisSpec = { ...axisOf(ctx, "vertical", yc), ...drawing.y };
+  if (!yc && !opt(ctx, "vertical-title")) y = { ...y, title: "number of rows" };
+  if (y.kind === "logmar" && betterUp) {
+    y = {
+      ...y,
+      reverse: true,
+      title: opt(ctx, "vertical-title") ?? `${y.title.replace(/\)$/, "")}, better up)`,
+    };
   }
-  const el = Plot.plot({
-    document: svgDocument(),
-    width: 640,
-    height: kind === "distribution" ? 320 : 380,
-    marginLeft: 56,
-    marginRight: 24,
-    grid: true,
-    style: { fontSize: "12px", background: "white", color: "#222" },
-    x: { label: axisLabel(ctx, "horizontal", xc) },
-    y: {
-      label: kind === "distribution"
-        ? (opt(ctx, "vertical-title") ?? "number of rows")
-        : axisLabel(ctx, "vertical", yc),
-      reverse: invert,
-    },
-    color: gc ? { legend: true, type: gc.numeric ? "linear" : "categorical" } : undefined,
-    marks,
-  }) as unknown as { outerHTML: string };
-  return { name, heading, caption, svg: el.outerHTML, problems: ctx.problems };
+  const svg = chartSvg({
+    label: heading ?? `${figure.name}: ${y.title} against ${x.title}`,
+    x,
+    y,
+    layers: drawing.layers,
+    legend: drawing.legend ?? legend,
+    height: drawing.height,
+  });
+  return { name, heading, caption, svg, problems: ctx.problems };
 }
-
-/** Options that apply only to some figures. */
-const KIND_ONLY: Readonly<Record<string, readonly PlotFigure[]>> = {
-  mark: ["curve"],
-  fitted: ["curve"],
-  ellipse: ["scatter"],
-  limits: ["agreement"],
-  classes: ["distribution"],
-};

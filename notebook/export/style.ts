@@ -1,6 +1,7 @@
 /**
  * The exported page's stylesheet: screen and print (A4 and US Letter), system fonts only,
- * nothing fetched. Class names are those {@linkcode renderNotebookBody} writes.
+ * nothing fetched. Class names are those {@linkcode renderNotebookBody} writes; the colours are
+ * Lentil's own, from `_palette.ts`.
  *
  * @example
  * ```ts
@@ -11,11 +12,15 @@
  * @module
  */
 
+import { PAGE } from "./_palette.ts";
+
 /** Screen and print CSS for an exported notebook. */
 export const EXPORT_CSS = `
 :root {
-  --ink: #1b1f24; --muted: #5b6470; --rule: #d4d9df; --paper: #ffffff;
-  --band: #f4f6f8; --accent: #1d3557; --warn-bg: #fff7e0; --warn: #8a5a00; --bad: #a4161a;
+  --ink: ${PAGE.ink}; --muted: ${PAGE.muted}; --rule: ${PAGE.rule}; --paper: ${PAGE.paper};
+  --band: ${PAGE.band}; --accent: ${PAGE.accent}; --warn-bg: ${PAGE.cautionBg};
+  --warn: ${PAGE.caution}; --bad: ${PAGE.bad}; --bad-bg: ${PAGE.badBg}; --good: ${PAGE.good};
+  --good-bg: ${PAGE.goodBg};
   color-scheme: light;
 }
 * { box-sizing: border-box; }
@@ -65,10 +70,10 @@ td.lx-num, th.lx-num { text-align: right; font-variant-numeric: tabular-nums; }
 details.lx-data summary { cursor: pointer; color: var(--accent); }
 pre.lx-csv { background: var(--band); padding: 0.5rem; overflow: auto; max-height: 24rem; }
 figure.lx-plot { margin: 1.5rem 0; break-inside: avoid; page-break-inside: avoid; }
-figure.lx-plot svg { max-width: 100%; height: auto; }
+figure.lx-plot svg { max-width: 100%; height: auto; display: block; font-family: inherit; }
 figure.lx-plot figcaption { color: var(--muted); font-size: 0.88rem; }
 figure.lx-plot .lx-plot-title { font-weight: 600; color: var(--ink); margin-bottom: 0.3rem; }
-.lx-problem { border-left: 4px solid var(--bad); padding: 0.4rem 0.8rem; background: #fdecea; }
+.lx-problem { border-left: 4px solid var(--bad); padding: 0.4rem 0.8rem; background: var(--bad-bg); }
 aside.lx-cautions {
   background: var(--warn-bg); border-left: 4px solid var(--warn); padding: 0.6rem 1rem;
   margin: 1rem 0; font-size: 0.92rem; break-inside: avoid; page-break-inside: avoid;

@@ -8,7 +8,7 @@
 import type { Notebook } from "../engine/engine.ts";
 import type { PlotBlock } from "../format/parse.ts";
 import { renderMarkdown } from "../export/markdown.ts";
-import { renderPlot } from "../export/plot.ts";
+import { plotDependencies, renderPlot } from "../export/plot.ts";
 import { escapeHtml, plotFigure } from "../export/html.ts";
 import type { Renderers } from "./_views.ts";
 
@@ -21,3 +21,42 @@ function plot(nb: Notebook, block: PlotBlock): string {
 
 /** The export's renderers for prose and plots. */
 export const EXPORT_RENDERERS: Renderers = { prose: renderMarkdown, plot };
+
+/**
+ * Renderers that draw a plot again only when what it depends on changed (its keys, the
+ * columns and cells it reads), and render a prose block's Markdown again only when its text
+ * changed. One per session.
+ *
+ * @example
+ * ```ts
+ * import { EXPORT_RENDERERS, remembering } from "./_markup.ts";
+ * const r = remembering(EXPORT_RENDERERS);
+ * r.prose("*a*") === r.prose("*a*"); // true
+ * ```
+ */
+export function remembering(renderers: Renderers): Renderers {
+  const plots = new Map<string, { deps: unknown[]; html: string }>();
+  let prose = new Map<string, string>();
+  let proseNext = new Map<string, string>();
+  return {
+    prose(text) {
+      const html = proseNext.get(text) ?? prose.get(text) ?? renderers.prose(text);
+      proseNext.set(text, html);
+      // Keep what the last two page builds used, so the map never grows without bound.
+      if (proseNext.size > 500) [prose, proseNext] = [proseNext, new Map()];
+      return html;
+    },
+    plot(nb, block) {
+      const key = `${block.line}:${block.name ?? ""}`;
+      const deps = plotDependencies(block, nb);
+      const hit = plots.get(key);
+      if (hit && hit.deps.length === deps.length && hit.deps.every((d, i) => d === deps[i])) {
+        return hit.html;
+      }
+      const html = renderers.plot(nb, block);
+      plots.set(key, { deps, html });
+      if (plots.size > 200) plots.delete(plots.keys().next().value!);
+      return html;
+    },
+  };
+}

@@ -63,7 +63,7 @@ body { max-width: 60rem; padding-top: 0; }
 .live-banner[hidden] { display: none; }
 input.live-expr, .live-new-cell input { font: inherit; font-family: ui-monospace, monospace;
   width: 100%; border: 1px solid var(--rule); padding: .15em .3em; background: var(--paper); }
-tr.lx-input input.live-expr { background: #f2f8ff; }
+tr.lx-input input.live-expr { background: var(--band); }
 tr.lx-has-error input.live-expr { border-color: var(--bad); }
 tr.live-carried .live-error { color: var(--warn); }
 .live-error { font-size: .88em; }
@@ -78,11 +78,11 @@ table.live-grid th.live-computed { color: var(--muted); }
 table.live-grid input { font: inherit; border: none; padding: .2rem .9rem; width: 7.5em;
   font-variant-numeric: tabular-nums; background: transparent; }
 table.live-grid input:focus { outline: 2px solid var(--accent); background: var(--paper); }
-table.live-grid tr.live-bad td { background: #fdecea; }
+table.live-grid tr.live-bad td { background: var(--bad-bg); }
 table.live-grid td.live-tools { border: none; }
 .live-locked { color: var(--warn); font-size: .88rem; }
 .fresh { animation: live-fresh .8s ease-out; }
-@keyframes live-fresh { from { background: #fff3b0; } to { background: transparent; } }
+@keyframes live-fresh { from { background: var(--warn-bg); } to { background: transparent; } }
 `;
 
 /** The page's style: the export's stylesheet, so the page reads as the export does, and the editing additions. */

@@ -216,6 +216,9 @@ export function buildPageView(
   };
 }
 
+/** The display texts of computed columns, by the column object they were made from. */
+const shownColumns = new WeakMap<object, { settings: string; values: string[] }>();
+
 function tableView(
   nb: Notebook,
   block: TableBlock,
@@ -238,14 +241,31 @@ function tableView(
   const dataNames = new Set(columns.map((c) => c.name));
   const lang = nb.language;
   if (info && info.rowCount <= GRID_ROW_LIMIT) {
+    const settings = JSON.stringify(nb.display);
     for (const col of info.columns) {
       if (dataNames.has(col.name)) continue;
+      // A column not recomputed since the last view is the same object: its texts are kept.
+      const kept = shownColumns.get(col);
+      if (kept && kept.settings === settings) {
+        computed.push({ name: col.name, values: kept.values });
+        continue;
+      }
+      // Rows often repeat a value (powers in steps): each distinct number is described once.
+      const seen = new Map<unknown, string>();
       const values: string[] = [];
       for (let i = 0; i < col.length; i++) {
         const v = col.data[i];
-        const x = col.type === "quantity" && typeof v === "number" ? lang.quantity(v, col.unit) : v;
-        values.push(lang.describe(x, nb.display).display);
+        let text = seen.get(v);
+        if (text === undefined) {
+          const x = col.type === "quantity" && typeof v === "number"
+            ? lang.quantity(v, col.unit)
+            : v;
+          text = lang.describe(x, nb.display).display;
+          if (typeof v !== "object" || v === null) seen.set(v, text);
+        }
+        values.push(text);
       }
+      shownColumns.set(col, { settings, values });
       computed.push({ name: col.name, values });
     }
   }

@@ -42,7 +42,7 @@ import {
   type TextEdit,
 } from "./_splice.ts";
 import { bareName, insideFolder } from "./_paths.ts";
-import { EXPORT_RENDERERS } from "./_markup.ts";
+import { EXPORT_RENDERERS, remembering } from "./_markup.ts";
 import { readRawTable } from "../engine/_tables.ts";
 import {
   buildPageView,
@@ -178,7 +178,7 @@ export class LiveSession {
   private constructor(path: string, renderers: Renderers) {
     this.#path = path;
     this.#dir = dirname(resolve(path));
-    this.#renderers = renderers;
+    this.#renderers = remembering(renderers);
   }
 
   /**
