@@ -24,28 +24,19 @@ export const EXPORT_RENDERERS: Renderers = { prose: renderMarkdown, plot };
 
 /**
  * Renderers that draw a plot again only when what it depends on changed (its keys, the
- * columns and cells it reads), and render a prose block's Markdown again only when its text
- * changed. One per session.
+ * columns and cells it reads). One per session.
  *
  * @example
  * ```ts
  * import { EXPORT_RENDERERS, remembering } from "./_markup.ts";
  * const r = remembering(EXPORT_RENDERERS);
- * r.prose("*a*") === r.prose("*a*"); // true
+ * r.prose("*a*"); // "<p><em>a</em></p>\n"
  * ```
  */
 export function remembering(renderers: Renderers): Renderers {
   const plots = new Map<string, { deps: unknown[]; html: string }>();
-  let prose = new Map<string, string>();
-  let proseNext = new Map<string, string>();
   return {
-    prose(text) {
-      const html = proseNext.get(text) ?? prose.get(text) ?? renderers.prose(text);
-      proseNext.set(text, html);
-      // Keep what the last two page builds used, so the map never grows without bound.
-      if (proseNext.size > 500) [prose, proseNext] = [proseNext, new Map()];
-      return html;
-    },
+    prose: (text) => renderers.prose(text),
     plot(nb, block) {
       const key = `${block.line}:${block.name ?? ""}`;
       const deps = plotDependencies(block, nb);
