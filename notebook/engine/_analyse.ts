@@ -58,6 +58,45 @@ export interface Analysis {
   readonly problem?: AnalysisProblem;
 }
 
+/** Longest formula a cell may hold, in characters. */
+export const MAX_FORMULA_LENGTH = 100_000;
+
+/**
+ * Deepest formula tree accepted: operators, brackets, calls, indexes and conversions nested
+ * (a sum of n terms nests n deep). Far beyond what a notebook writes; well inside the stack.
+ */
+export const MAX_FORMULA_DEPTH = 400;
+
+function tooDeep(limit: number): string {
+  return `the formula nests too deeply to evaluate (more than ${limit} levels of operators, brackets, calls or conversions); split it into cells`;
+}
+
+/**
+ * Whether `e` is the engine running out of stack.
+ *
+ * @example
+ * ```ts
+ * import { isStackOverflow } from "./_analyse.ts";
+ * isStackOverflow(new RangeError("Maximum call stack size exceeded")); // true
+ * ```
+ */
+export function isStackOverflow(e: unknown): boolean {
+  return /maximum call stack/i.test((e as Error)?.message ?? "");
+}
+
+/** Depth of a formula tree, walked without recursion; stops counting past `limit`. */
+function treeDepth(root: MathNode, limit: number): number {
+  let max = 0;
+  const stack: [MathNode, number][] = [[root, 1]];
+  while (stack.length) {
+    const [n, d] = stack.pop()!;
+    if (d > max) max = d;
+    if (max > limit) return max;
+    n.forEach((child) => stack.push([child, d + 1]));
+  }
+  return max;
+}
+
 function wordOffset(expression: string, word: string): number {
   const m = new RegExp(`(^|[^A-Za-z0-9_.])${word.replace(/[.$]/g, "\\$&")}(?![A-Za-z0-9_])`).exec(
     expression,
@@ -78,22 +117,33 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
   const deps = new Set<string>();
   const formulas = new Set<string>();
   const constants = new Set<string>();
+  const refuse = (message: string, offset = 0): Analysis => ({
+    deps,
+    formulas,
+    constants,
+    problem: { message, offset, kind: "syntax" },
+  });
+  if (expression.length > MAX_FORMULA_LENGTH) {
+    return refuse(
+      `the formula is ${
+        expression.length.toLocaleString("en")
+      } characters long; a cell holds at most ${
+        MAX_FORMULA_LENGTH.toLocaleString("en")
+      } (keep long data in a table or a CSV file)`,
+    );
+  }
   let node: MathNode;
   try {
     node = ctx.lang.parse(expression);
   } catch (e) {
+    if (isStackOverflow(e)) return refuse(tooDeep(MAX_FORMULA_DEPTH));
     const err = e as ExpressionSyntaxError;
-    return {
-      deps,
-      formulas,
-      constants,
-      problem: {
-        message: `cannot read the formula: ${err.message}`,
-        offset: err.offset ?? 0,
-        kind: "syntax",
-      },
-    };
+    return refuse(`cannot read the formula: ${err.message}`, err.offset ?? 0);
   }
+  // Every later step (analysis, compiling, evaluating, showing) walks the tree by recursion:
+  // a tree deeper than this is refused here, at its cell, before any of them can overflow.
+  const depth = treeDepth(node, MAX_FORMULA_DEPTH);
+  if (depth > MAX_FORMULA_DEPTH) return refuse(tooDeep(MAX_FORMULA_DEPTH));
   let problem: AnalysisProblem | undefined;
   const fail = (message: string, word: string, kind: "syntax" | "name" = "name") => {
     problem ??= { message, offset: wordOffset(expression, word), kind };

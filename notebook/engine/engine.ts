@@ -41,7 +41,7 @@ import {
   parseNotebook,
   type TableBlock,
 } from "../format/parse.ts";
-import { analyse, type Analysis, type TableShape } from "./_analyse.ts";
+import { analyse, type Analysis, isStackOverflow, type TableShape } from "./_analyse.ts";
 import { DependencyGraph } from "./graph.ts";
 import { planColumn } from "./_columns.ts";
 import {
@@ -177,6 +177,9 @@ interface NodeState {
   sources: readonly string[];
   caution: boolean;
 }
+
+/** Cycles up to this many cells are written out in full at every member. */
+const CYCLE_IN_FULL = 12;
 
 const SOURCE_ORDER = new Map(listSources().map((s, i) => [s.id, i]));
 
@@ -641,10 +644,8 @@ export class Notebook {
     };
     const cyc = this.#cycleOf.get(id);
     if (cyc) {
-      const path = [...cyc, cyc[0]].join(" → ");
-      const lines = cyc.map((m) => `${m} at line ${this.#lineOf(m)}`).join(", ");
       return set({
-        error: { kind: "cycle", message: `cycle: ${path} (${lines})`, file, ...where },
+        error: { kind: "cycle", message: this.#cycleMessage(id, cyc), file, ...where },
       });
     }
     const staticError = n.defError ?? n.exprError;
@@ -752,7 +753,10 @@ export class Notebook {
     let message = plainMathMessage(e.message);
     let kind: ErrorKind = "evaluation";
     let at = where;
-    if (/Units do not match|Unexpected type of argument.*Unit/.test(message)) {
+    if (isStackOverflow(e)) {
+      message =
+        "the formula nests too deeply to evaluate (the values it builds are too deep); split it into cells";
+    } else if (/Units do not match|Unexpected type of argument.*Unit/.test(message)) {
       kind = "unit";
       const found = this.#unitMismatch(n);
       message = found?.message ?? `units do not match in ${n.cell?.expression}`;
@@ -818,6 +822,22 @@ export class Notebook {
       }
     });
     return found;
+  }
+
+  /**
+   * A cycle's message: the whole path with every member's line for a short cycle; for a
+   * long one the path is written once, at its first member, and every other member names
+   * it (so the output grows with the cycle's length, not its square).
+   */
+  #cycleMessage(id: string, cyc: readonly string[]): string {
+    if (cyc.length <= CYCLE_IN_FULL || id === cyc[0]) {
+      const path = [...cyc, cyc[0]].join(" → ");
+      const lines = cyc.map((m) => `${m} at line ${this.#lineOf(m)}`).join(", ");
+      return `cycle: ${path} (${lines})`;
+    }
+    return `cycle: ${id} is one of the ${cyc.length} cells of the cycle through ${cyc[0]} (line ${
+      this.#lineOf(cyc[0])
+    }), where its whole path is shown`;
   }
 
   #lineOf(id: string): number {
@@ -912,7 +932,9 @@ export class Notebook {
  * `x = 1 mm` still reads millimetres when a cell is wrongly named `mm`).
  */
 function tableEnd(block: TableBlock): number {
-  return Math.max(block.headerLine, ...block.rows.map((r) => r.line));
+  let end = block.headerLine;
+  for (const r of block.rows) if (r.line > end) end = r.line;
+  return end;
 }
 
 /** The position and message of a table problem, without its row. */

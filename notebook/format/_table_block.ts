@@ -89,10 +89,32 @@ function readOption(bl: Line, options: Record<string, OptionDef>, ctx: ReadConte
   return true;
 }
 
+/** Most fields a table line may have; a longer line is reported and cut, at once. */
+export const MAX_TABLE_FIELDS = 1000;
+
+/** The fields of a table line, at most {@linkcode MAX_TABLE_FIELDS} (the rest reported). */
+function boundedRow(bl: Line, ctx: ReadContext): { cells: string[]; cols: number[] } {
+  let bars = 0;
+  let cut = -1;
+  for (let i = bl.text.indexOf("|"); i !== -1; i = bl.text.indexOf("|", i + 1)) {
+    if (bl.text[i - 1] === "\\") continue;
+    if (++bars === MAX_TABLE_FIELDS) cut = i;
+  }
+  if (cut === -1) return splitRow(bl.text);
+  ctx.diag(
+    bl.no,
+    cut + 1,
+    `a table line has ${
+      bars + 1
+    } fields; at most ${MAX_TABLE_FIELDS} are read (keep wide data in a CSV file)`,
+  );
+  return splitRow(bl.text.slice(0, cut));
+}
+
 /** The header line's columns, each `name` or `name [unit or type]`. */
 function readHeader(bl: Line, ctx: ReadContext): ColumnDef[] {
   const columns: ColumnDef[] = [];
-  const { cells: hs, cols } = splitRow(bl.text);
+  const { cells: hs, cols } = boundedRow(bl, ctx);
   const names = new Set<string>();
   hs.forEach((h, k) => {
     const hm = /^([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[([^\]]*)\])?$/.exec(h);
@@ -111,8 +133,8 @@ function readHeader(bl: Line, ctx: ReadContext): ColumnDef[] {
 /** A data row; a field count other than the header's is reported. */
 function readRow(bl: Line, width: number, ctx: ReadContext): RowDef {
   const t = bl.text;
-  const { cells, cols } = splitRow(t);
-  if (cells.length !== width) {
+  const { cells, cols } = boundedRow(bl, ctx);
+  if (cells.length !== width && cells.length < MAX_TABLE_FIELDS) {
     const fields = `${cells.length} field${cells.length === 1 ? "" : "s"}`;
     ctx.diag(bl.no, 1, `row has ${fields}, the header has ${width}`);
   }

@@ -136,6 +136,8 @@ export function noteStart(line: string): number {
  */
 export function isLiteral(expr: string): boolean {
   const e = expr.trim();
+  // A literal is short; a very long text is left to the formula reader, which refuses it.
+  if (e.length > 100_000) return false;
   const num = String.raw`[+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?(?:\s*[A-Za-z]+(?:\^-?\d+)?)?`;
   const str = String.raw`"(?:[^"\\]|\\.)*"|'(?:[^'\\]|\\.)*'`;
   const one = `(?:${num}|${str}|true|false)`;

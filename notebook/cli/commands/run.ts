@@ -36,7 +36,7 @@ function otherProblems(nb: Notebook, report: Report): Diagnostic[] {
  */
 export function renderReportText(report: Report, title: string): string {
   const lines: string[] = [title, ""];
-  const width = Math.min(24, Math.max(4, ...report.cells.map((c) => c.id.length)));
+  const width = Math.min(24, report.cells.reduce((w, c) => Math.max(w, c.id.length), 4));
   for (const c of report.cells) {
     const notes = c.notes.length ? `  [${c.notes.join(", ")}]` : "";
     const note = c.note ? `  # ${c.note}` : "";
