@@ -10,6 +10,7 @@ import {
   type Acuity,
   type AcuityNotation,
   formatAcuity,
+  type LowVisionCategory,
   parseAcuity,
   readNotation,
 } from "../lib/acuity.ts";
@@ -26,6 +27,9 @@ export class AcuityValue implements Acuity {
     this.notation = a.notation;
     if (a.numerator !== undefined) this.numerator = a.numerator;
     if (a.letters !== undefined) this.letters = a.letters;
+    if (a.category !== undefined) this.category = a.category;
+    if (a.substitution !== undefined) this.substitution = a.substitution;
+    if (a.nearDistance !== undefined) this.nearDistance = a.nearDistance;
   }
   /** logMAR. */
   readonly logMAR: number;
@@ -35,21 +39,29 @@ export class AcuityValue implements Acuity {
   readonly numerator?: number;
   /** Letters added or missed on a Snellen line. */
   readonly letters?: number;
+  /** A low-vision category (CF, HM, LP, NLP); `logMAR` is then its substitution. */
+  readonly category?: LowVisionCategory;
+  /** Source id of a category's substitution. */
+  readonly substitution?: string;
+  /** Test distance of a near acuity, m. */
+  readonly nearDistance?: number;
 }
 
 /** The `acuity` value type. */
 export const ACUITY_TYPE = defineValueType<AcuityValue>({
   name: "acuity",
-  summary: 'an acuity (acuity("6/9"), "20/40", "0.3 logMAR", "1.0" decimal, "85 letters")',
+  summary:
+    'an acuity (acuity("6/9"), "20/40", "0.3 logMAR", "1.0 decimal", "85 letters", "CF", "HM", "LP", "NLP", "N8 at 40 cm", "1.0 M at 40 cm")',
   is: (x): x is AcuityValue => x instanceof AcuityValue,
   fromText: (text) => new AcuityValue(parseAcuity(text)),
-  display: (a) => formatAcuity(a),
+  // A category shows as written ("CF") unless it was asked for in another notation.
+  display: (a) => formatAcuity(a, a.category && a.notation !== "logMAR" ? a.notation : undefined),
   json: (a) => ({ ...a, decimal: 10 ** -a.logMAR, mar: 10 ** a.logMAR }),
 });
 
 /** Wrap an acuity record as a language value, optionally in another notation. */
 export function acuityValue(a: Acuity, notation?: string): AcuityValue {
-  return new AcuityValue(notation ? { logMAR: a.logMAR, notation: readNotation(notation) } : a);
+  return new AcuityValue(notation ? { ...a, notation: readNotation(notation) } : a);
 }
 
 /** One named measurement of a {@linkcode Measures} record. */

@@ -21,6 +21,7 @@ import {
   acuityFromLetterScore,
   acuityFromLogMAR,
   acuityFromMAR,
+  bareNumberMessage,
   decimalOf,
   formatAcuity,
   formatSnellen,
@@ -89,9 +90,7 @@ function readAcuityArg(value: unknown, notation?: string): AcuityValue {
   if (typeof value === "string") return acuityValue(parseAcuity(value), notation);
   if (typeof value === "number") {
     if (!notation) {
-      throw new LentilInputError(
-        `say which notation the number ${value} is in, e.g. acuity(${value}, "logMAR") or acuity(${value}, "decimal")`,
-      );
+      throw new LentilInputError(bareNumberMessage(String(value)));
     }
     const n = readNotation(notation);
     const a = n === "logMAR"
@@ -145,7 +144,7 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
     name: "acuity",
     group: "acuity",
     summary:
-      'An acuity from text ("6/9", "20/40", "0.3 logMAR", "1.0", "85 letters") or a number in a named notation; a second argument changes the notation it is shown in.',
+      'An acuity from text ("6/9", "20/40", "0.3 logMAR", "1.0 decimal", "85 letters", "CF", "HM", "LP", "NLP", "N8 at 40 cm", "1.0 M at 40 cm") or a number in a named notation; a number without its notation is refused, as text or as a number. CF and HM take published logMAR substitutions for statistics, LP and NLP conventional ones (never measured acuities). A second argument changes the notation it is shown in.',
     params: [
       { name: "value", type: "any", doc: "text, a number, or an acuity" },
       {
@@ -156,7 +155,15 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
       },
     ],
     returns: RETURNS_ACUITY,
-    sources: [...NOTATION_SOURCES, "ferris-1982"],
+    sources: [
+      ...NOTATION_SOURCES,
+      "ferris-1982",
+      "schulze-bonsel-2006",
+      "lange-2009",
+      "low-vision-conventions",
+      "sloan-habel-1956",
+      "law-1951",
+    ],
     example: 'acuity("20/40")',
     fn: (value, notation) => readAcuityArg(value, notation as string | undefined),
   }),

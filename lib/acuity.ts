@@ -25,7 +25,62 @@ export type AcuityNotation =
   | "MAR"
   | "letters"
   | "snellenFeet"
-  | "snellenMetres";
+  | "snellenMetres"
+  | "nearM"
+  | "nearN";
+
+/**
+ * The clinical categories below chart acuity: counting fingers, hand movements, light
+ * perception, no light perception.
+ */
+export type LowVisionCategory = "CF" | "HM" | "LP" | "NLP";
+
+/** A published (or conventional) logMAR value that stands in for a category in statistics. */
+export interface CategorySubstitution {
+  /** logMAR used for statistics. */
+  readonly logMAR: number;
+  /** Source id of the value. */
+  readonly source: string;
+  /** True for a convention of some studies, never a measured acuity. */
+  readonly convention: boolean;
+}
+
+/**
+ * logMAR substitutions for the low-vision categories. CF and HM: measured equivalents
+ * (Schulze-Bonsel 2006: CF at 30 cm ≈ decimal 0.014, HM ≈ 0.005; Lange 2009: CF logMAR 1.98,
+ * HM 2.28). LP and NLP: conventional values some studies use (from memory); they are not
+ * measured acuities and a result that rests on them says so.
+ */
+export const CATEGORY_SUBSTITUTIONS: Readonly<
+  Record<
+    "schulze-bonsel-2006" | "lange-2009",
+    Readonly<Record<LowVisionCategory, CategorySubstitution>>
+  >
+> = {
+  "schulze-bonsel-2006": {
+    CF: { logMAR: -Math.log10(0.014), source: "schulze-bonsel-2006", convention: false },
+    HM: { logMAR: -Math.log10(0.005), source: "schulze-bonsel-2006", convention: false },
+    LP: { logMAR: 2.7, source: "low-vision-conventions", convention: true },
+    NLP: { logMAR: 3, source: "low-vision-conventions", convention: true },
+  },
+  "lange-2009": {
+    CF: { logMAR: 1.98, source: "lange-2009", convention: false },
+    HM: { logMAR: 2.28, source: "lange-2009", convention: false },
+    LP: { logMAR: 2.7, source: "low-vision-conventions", convention: true },
+    NLP: { logMAR: 3, source: "low-vision-conventions", convention: true },
+  },
+};
+
+/** The substitution table used unless another is named. */
+export const DEFAULT_SUBSTITUTION = "schulze-bonsel-2006";
+
+/** The categories' names in words. */
+export const CATEGORY_NAMES: Readonly<Record<LowVisionCategory, string>> = {
+  CF: "counting fingers",
+  HM: "hand movements",
+  LP: "light perception",
+  NLP: "no light perception",
+};
 
 /** Every notation, in the order the reference lists them. */
 export const ACUITY_NOTATIONS: readonly AcuityNotation[] = [
@@ -47,6 +102,12 @@ export interface Acuity {
   readonly numerator?: number;
   /** For a Snellen fraction with letters: +n read on the next line, −n missed on this line. */
   readonly letters?: number;
+  /** For a low-vision category: which; `logMAR` is then its substitution for statistics. */
+  readonly category?: LowVisionCategory;
+  /** For a category: the source id of its logMAR substitution. */
+  readonly substitution?: string;
+  /** For a near acuity: the test distance, m. */
+  readonly nearDistance?: number;
 }
 
 /** Accepted logMAR range (decimal 10 to 0.001). */
@@ -104,6 +165,77 @@ export function acuityFromDecimal(decimal: number): Acuity {
 export function acuityFromMAR(arcmin: number): Acuity {
   checkRange("MAR", arcmin, 0.1, 1000, "arcmin");
   return acuityFromLogMAR(Math.log10(arcmin), "MAR");
+}
+
+/**
+ * An acuity for a low-vision category (CF, HM, LP, NLP), its logMAR the substitution used
+ * for statistics from `table` (default Schulze-Bonsel 2006 for CF and HM; LP and NLP are
+ * conventions, never measured acuities). Sources: schulze-bonsel-2006, lange-2009,
+ * low-vision-conventions.
+ *
+ * @example
+ * ```ts
+ * import { acuityFromCategory } from "./acuity.ts";
+ * acuityFromCategory("HM").logMAR.toFixed(2); // "2.30"
+ * acuityFromCategory("CF", "lange-2009").logMAR; // 1.98
+ * ```
+ * @throws {LentilInputError} for an unknown substitution table.
+ */
+export function acuityFromCategory(
+  category: LowVisionCategory,
+  table: string = DEFAULT_SUBSTITUTION,
+): Acuity {
+  const t =
+    (CATEGORY_SUBSTITUTIONS as Record<string, Record<LowVisionCategory, CategorySubstitution>>)[
+      table
+    ];
+  if (!t) {
+    throw new LentilInputError(
+      `substitution "${table}" is not one of ${Object.keys(CATEGORY_SUBSTITUTIONS).join(", ")}`,
+    );
+  }
+  const sub = t[category];
+  return { logMAR: sub.logMAR, notation: "logMAR", category, substitution: sub.source };
+}
+
+/** Height of a 1 M letter, mm: 5′ at 1 m (Sloan 1956). */
+export const M_UNIT_MM = 1000 * Math.tan((5 / 60) * Math.PI / 180);
+
+/** Print size in N (points) that matches 1 M (N8 ≈ 1 M, from memory). */
+export const N_POINTS_PER_M = 8;
+
+/**
+ * A near acuity from the M size of the smallest print read at `distanceM` metres:
+ * decimal V = distance (m) / M, so logMAR = log10(M / distance). Source: sloan-habel-1956.
+ *
+ * @example
+ * ```ts
+ * import { acuityFromM } from "./acuity.ts";
+ * acuityFromM(1, 0.4).logMAR.toFixed(3); // "0.398"
+ * ```
+ * @throws {LentilRangeError} for an M size outside 0.1–100 or a distance outside 0.05–2 m.
+ */
+export function acuityFromM(mSize: number, distanceM: number): Acuity {
+  checkRange("M size", mSize, 0.1, 100, "M");
+  checkRange("near test distance", distanceM, 0.05, 2, "m");
+  const a = acuityFromLogMAR(Math.log10(mSize / distanceM));
+  return { ...a, notation: "nearM", nearDistance: distanceM };
+}
+
+/**
+ * A near acuity from the N size (point size of the print) read at `distanceM` metres, by
+ * N8 ≈ 1 M (from memory): M = N / 8. Sources: law-1951, sloan-habel-1956.
+ *
+ * @example
+ * ```ts
+ * import { acuityFromN } from "./acuity.ts";
+ * acuityFromN(8, 0.4).logMAR.toFixed(3); // "0.398"
+ * ```
+ * @throws {LentilRangeError} for an N size outside 1–400 or a distance outside 0.05–2 m.
+ */
+export function acuityFromN(points: number, distanceM: number): Acuity {
+  checkRange("N size", points, 1, 400, "points");
+  return { ...acuityFromM(points / N_POINTS_PER_M, distanceM), notation: "nearN" };
 }
 
 /**
@@ -372,19 +504,39 @@ export function formatDecimal(v: number): string {
  * const a = acuityFromLogMAR(0.1);
  * formatAcuity(a); // "0.10 logMAR"
  * formatAcuity(a, "snellenFeet"); // "20/25"
- * formatAcuity(a, "decimal"); // "0.8"
+ * formatAcuity(a, "decimal"); // "0.8 decimal"
  * formatAcuity(a, "MAR"); // "1.26′ MAR"
  * formatAcuity(a, "letters"); // "80 letters"
  * ```
  */
-export function formatAcuity(a: Acuity, notation: AcuityNotation = a.notation): string {
+export function formatAcuity(a: Acuity, shownIn?: AcuityNotation): string {
+  const notation = shownIn ?? a.notation;
+  if (a.category) {
+    // A category is shown as written; asked for a notation, with its substitution beside it.
+    if (shownIn === undefined) return a.category;
+    const sub = formatAcuity({ logMAR: a.logMAR, notation: "logMAR" }, notation);
+    return `${a.category} (${sub} by substitution${
+      a.category === "LP" || a.category === "NLP" ? ", a convention, not a measured acuity" : ""
+    })`;
+  }
   switch (notation) {
+    case "nearM":
+    case "nearN": {
+      const d = a.nearDistance;
+      if (d === undefined) return formatAcuity(a, "decimal");
+      const m = 10 ** a.logMAR * d;
+      const at = `at ${shortNumber(d * 100, 3)} cm`;
+      return notation === "nearM"
+        ? `${shortNumber(m, 2)} M ${at}`
+        : `N${shortNumber(m * N_POINTS_PER_M, 2)} ${at}`;
+    }
     case "logMAR": {
       const r = Math.round(a.logMAR * 100) / 100;
       return `${(r === 0 ? 0 : r).toFixed(2)} logMAR`;
     }
     case "decimal":
-      return formatDecimal(decimalOf(a));
+      // Named, as every other notation is, so the text reads back: a bare number is refused.
+      return `${formatDecimal(decimalOf(a))} decimal`;
     case "MAR":
       return `${shortNumber(marOf(a), 3)}′ MAR`;
     case "letters": {
@@ -415,9 +567,19 @@ export function withNotation(a: Acuity, notation: string, numerator?: number): A
   if (n === "snellenFeet" || n === "snellenMetres") {
     const unit = n === "snellenFeet" ? "ft" : "m";
     const f = snellenFraction(a, unit, numerator);
-    return { logMAR: a.logMAR, notation: n, numerator: f.numerator };
+    return { ...keep(a), notation: n, numerator: f.numerator };
   }
-  return { logMAR: a.logMAR, notation: n };
+  return { ...keep(a), notation: n };
+}
+
+/** What an acuity keeps when shown in another notation: its category or near distance. */
+function keep(a: Acuity): Acuity {
+  return {
+    logMAR: a.logMAR,
+    notation: a.notation,
+    ...(a.category ? { category: a.category, substitution: a.substitution } : {}),
+    ...(a.nearDistance !== undefined ? { nearDistance: a.nearDistance } : {}),
+  };
 }
 
 const NOTATION_NAMES: Record<string, AcuityNotation> = {
@@ -472,11 +634,39 @@ const MAR = new RegExp(
   "i",
 );
 const LETTERS = new RegExp(String.raw`^${NUM}\s*(?:letters?|etdrs)$`, "i");
-const DECIMAL = new RegExp(String.raw`^(?:decimal\s*${NUM}|${NUM}\s*(?:decimal)?)$`, "i");
+const DECIMAL = new RegExp(String.raw`^(?:decimal\s*${NUM}|${NUM}\s*decimal)$`, "i");
+const BARE = new RegExp(String.raw`^${NUM}$`);
+const CATEGORY_TEXT: Record<string, LowVisionCategory> = {
+  cf: "CF",
+  "counting fingers": "CF",
+  "count fingers": "CF",
+  fc: "CF",
+  hm: "HM",
+  "hand movements": "HM",
+  "hand movement": "HM",
+  "hand motion": "HM",
+  lp: "LP",
+  pl: "LP",
+  "light perception": "LP",
+  "perception of light": "LP",
+  nlp: "NLP",
+  npl: "NLP",
+  "no light perception": "NLP",
+  "no perception of light": "NLP",
+};
+const CATEGORY = /^([a-z ]+?)(?:\s*(?:at|@)?\s*(\d+(?:\.\d+)?)\s*(cm|m|ft|feet))?$/i;
+const DISTANCE = String.raw`(?:at|@)\s*(\d+(?:\.\d+)?)\s*(cm|m)`;
+const NEAR_N = new RegExp(String.raw`^N\s*(\d+(?:\.\d+)?)(?:\s*${DISTANCE})?$`, "i");
+const NEAR_M = new RegExp(String.raw`^(\d+(?:\.\d+)?)\s*M(?:\s*${DISTANCE})?$`, "i");
+
+/** The one rule for a number without its notation, shared by text and numbers. */
+export function bareNumberMessage(value: string): string {
+  return `${value} has no notation: a bare number could be decimal acuity or logMAR, so it is read as neither; write "${value} decimal" or "${value} logMAR" (as a number: acuity(${value}, "decimal"))`;
+}
 
 /** What an acuity text may look like, for error messages. */
 export const ACUITY_EXPECTED =
-  'an acuity such as "6/9", "20/40", "4/5 m", "6/9 -2", "0.3 logMAR", "1.0" (decimal), "2 arcmin" (MAR) or "85 letters"';
+  'an acuity such as "6/9", "20/40", "4/5 m", "6/9 -2", "0.3 logMAR", "1.0 decimal", "2 arcmin" (MAR), "85 letters", "CF", "HM", "LP", "NLP", "N8 at 40 cm" or "1.0 M at 40 cm"';
 
 function firstDefined(m: RegExpExecArray): number {
   for (let i = 1; i < m.length; i++) if (m[i] !== undefined) return Number(m[i]);
@@ -485,8 +675,12 @@ function firstDefined(m: RegExpExecArray): number {
 
 /**
  * Read an acuity from text. A fraction without a unit is in feet when its numerator is 10
- * or more, otherwise in metres (the decimal value is the same either way). A bare number
- * is decimal acuity. Sources: ico-1984, iso-8596, ferris-1982.
+ * or more, otherwise in metres (the decimal value is the same either way). A number needs
+ * its notation ("0.8 decimal", "0.1 logMAR"): a bare number is refused, as it is when given
+ * as a number. The low-vision categories (CF, HM, LP, NLP, or in words; a distance after
+ * CF is allowed) take their logMAR substitution; near acuity is N or M print size at a
+ * stated distance ("N8 at 40 cm", "1.0 M at 40 cm").
+ * Sources: ico-1984, iso-8596, ferris-1982, schulze-bonsel-2006, sloan-habel-1956.
  *
  * @example
  * ```ts
@@ -494,6 +688,8 @@ function firstDefined(m: RegExpExecArray): number {
  * parseAcuity("20/200").logMAR; // 1
  * parseAcuity("0.3 logMAR").logMAR; // 0.3
  * parseAcuity("6/9 -2").letters; // -2
+ * parseAcuity("HM").category; // "HM"
+ * parseAcuity("N8 at 40 cm").logMAR.toFixed(2); // "0.40"
  * ```
  * @throws {LentilParseError} for text that is no acuity; {@linkcode LentilRangeError} for
  * one out of range.
@@ -515,6 +711,20 @@ export function parseAcuity(text: string): Acuity {
   if ((m = LOGMAR.exec(s))) return acuityFromLogMAR(firstDefined(m));
   if ((m = MAR.exec(s))) return acuityFromMAR(firstDefined(m));
   if ((m = LETTERS.exec(s))) return acuityFromLetterScore(firstDefined(m));
+  if (BARE.test(s)) throw new LentilParseError(text, bareNumberMessage(s));
+  if ((m = NEAR_N.exec(s)) || (m = NEAR_M.exec(s))) {
+    if (m[2] === undefined) {
+      throw new LentilParseError(
+        text,
+        `a near acuity needs its test distance: write "${s} at 40 cm"`,
+      );
+    }
+    const d = Number(m[2]) / (m[3].toLowerCase() === "cm" ? 100 : 1);
+    return /^n/i.test(s) ? acuityFromN(Number(m[1]), d) : acuityFromM(Number(m[1]), d);
+  }
+  const c = CATEGORY.exec(s);
+  const category = c ? CATEGORY_TEXT[c[1].trim().toLowerCase().replace(/\s+/g, " ")] : undefined;
+  if (category) return acuityFromCategory(category);
   if ((m = DECIMAL.exec(s))) {
     const v = firstDefined(m);
     if (v <= 0) {

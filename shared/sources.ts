@@ -152,6 +152,40 @@ const entries: readonly Source[] = [
     status: "from-memory",
   },
   {
+    id: "schulze-bonsel-2006",
+    citation:
+      'Schulze-Bonsel K, Feltgen N, Burau H, Hansen L, Bach M. Visual acuities "hand motion" and "counting fingers" can be quantified with the Freiburg Visual Acuity Test. Invest Ophthalmol Vis Sci 2006;47:1236–1240.',
+    status: "published",
+    note:
+      "Counting fingers at 30 cm ≈ decimal 0.014 (logMAR 1.85); hand motion ≈ decimal 0.005 (logMAR 2.30); light perception not quantifiable (values from the published abstract).",
+  },
+  {
+    id: "lange-2009",
+    citation:
+      'Lange C, Feltgen N, Junker B, Schulze-Bonsel K, Bach M. Resolving the clinical acuity categories "hand motion" and "counting fingers" using the Freiburg Visual Acuity Test (FrACT). Graefes Arch Clin Exp Ophthalmol 2009;247:137–142.',
+    status: "published",
+    note:
+      "Counting fingers: mean logMAR 1.98 (decimal 0.010); hand motion: logMAR 2.28 (0.0052); light perception at the floor of the test, not quantifiable (values from the published abstract).",
+  },
+  {
+    id: "low-vision-conventions",
+    citation:
+      "Conventional logMAR values some studies assign to light perception (2.7) and no light perception (3.0) so that every eye enters the statistics: conventions, never measured acuities, and they differ between studies.",
+    status: "from-memory",
+  },
+  {
+    id: "sloan-habel-1956",
+    citation:
+      "Sloan LL, Habel A. Am J Ophthalmol 1956;42:863–872 (M units for near print: 1 M: print whose letters subtend 5′ at 1 m, about 1.45 mm; near acuity = test distance in m / M size).",
+    status: "from-memory",
+  },
+  {
+    id: "law-1951",
+    citation:
+      "Law FW. Standardization of reading types. Br J Ophthalmol 1951 (N notation: the point size of Times Roman print; N8 is about 1 M).",
+    status: "from-memory",
+  },
+  {
     id: "binomial-tail",
     citation: "Binomial and hypergeometric tail probabilities: any probability text.",
     status: "common-practice",

@@ -28,7 +28,7 @@ Deno.test("acuity values display in their notation", () => {
   assert.equal(run('toLogMAR("20/200")').display, "1");
   // ISO 8596: 8.73 mm at 6 m for V = 1.0
   assert.equal(run('letterHeight("6/6", 6 m)').display, "8.73 mm");
-  assert.equal(run("acuityForLetter(17.45 mm, 6 m)").display, "0.5");
+  assert.equal(run("acuityForLetter(17.45 mm, 6 m)").display, "0.5 decimal");
   const score = run("scoreChart(logMARChart(), [5, 5, 5, 5, 5, 5, 5, 5, 4, 3, 1])");
   assert.match(score.display, /^line 0\.10 logMAR -2 \+1; letter by letter 0\.14 logMAR/);
   assert.match(run("amplitudeByAge(40 years)").display, /minimum 5\.00 D, mean 6\.50 D/);
@@ -41,7 +41,9 @@ Deno.test("bad arguments are named", () => {
   );
   assert.throws(() => run('letterHeight("6/6", -6 m)'), /distance: -6 m is outside/);
   assert.throws(() => run('toLogMAR("6/x")'), /cannot read "6\/x"/);
-  assert.throws(() => run("acuity(0.3)"), /say which notation/);
+  // one rule for a number without its notation, as text or as a number (stated in the error)
+  assert.throws(() => run("acuity(0.3)"), /0\.3 has no notation: a bare number could be decimal/);
+  assert.throws(() => run('acuity("0.3")'), /0\.3 has no notation: a bare number could be decimal/);
   assert.throws(
     () => run('guessChanceDistinct("CDH", 5, 4)'),
     /3 letters, fewer than the 4 needed/,

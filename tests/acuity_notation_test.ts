@@ -1,5 +1,6 @@
 import assert from "node:assert/strict";
 import {
+  acuityFromCategory,
   acuityFromDecimal,
   acuityFromLetterScore,
   acuityFromLogMAR,
@@ -10,6 +11,7 @@ import {
   formatDecimal,
   formatSnellen,
   letterScoreOf,
+  M_UNIT_MM,
   marOf,
   parseAcuity,
   readNotation,
@@ -28,12 +30,12 @@ const close = (a: number, b: number, tol = 1e-9, what = "") =>
 
 Deno.test("20/20 = 6/6 = 1.0 = logMAR 0.0", () => {
   // ICO 1984 and ISO 8596: V = test distance / letter distance, logMAR = log10(1/V)
-  for (const t of ["20/20", "6/6", "1.0", "0.0 logMAR", "1 arcmin", "85 letters"]) {
+  for (const t of ["20/20", "6/6", "1.0 decimal", "0.0 logMAR", "1 arcmin", "85 letters"]) {
     close(parseAcuity(t).logMAR, 0, 1e-12, t);
   }
   const a = parseAcuity("20/20");
   assert.equal(formatAcuity(a, "snellenMetres"), "6/6");
-  assert.equal(formatAcuity(a, "decimal"), "1.0");
+  assert.equal(formatAcuity(a, "decimal"), "1.0 decimal");
   assert.equal(formatAcuity(a, "logMAR"), "0.00 logMAR");
 });
 
@@ -61,7 +63,7 @@ Deno.test("the logMAR line series written in feet, metres and decimal", () => {
     const a = acuityFromLogMAR(l);
     assert.equal(formatAcuity(a, "snellenFeet"), ft);
     assert.equal(formatAcuity(a, "snellenMetres"), m);
-    assert.equal(formatAcuity(a, "decimal"), dec);
+    assert.equal(formatAcuity(a, "decimal"), `${dec} decimal`);
   }
 });
 
@@ -155,4 +157,64 @@ Deno.test("test distance vergence refers a refraction to infinity", () => {
   close(referToInfinity(-1, 4), -1.25, 1e-12);
   assert.throws(() => testDistanceVergence(0), LentilRangeError);
   assert.throws(() => testDistanceVergence(-4), LentilRangeError);
+});
+
+Deno.test("low-vision categories: CF, HM with published substitutions; LP, NLP conventions", () => {
+  // Schulze-Bonsel et al. 2006 (published abstract): CF at 30 cm ≈ decimal 0.014, HM ≈ 0.005
+  const cf = parseAcuity("CF");
+  assert.equal(cf.category, "CF");
+  close(cf.logMAR, -Math.log10(0.014), 1e-12);
+  assert.equal(cf.substitution, "schulze-bonsel-2006");
+  close(parseAcuity("hand movements").logMAR, -Math.log10(0.005), 1e-12);
+  close(parseAcuity("HM").logMAR, 2.301, 0.001);
+  assert.equal(parseAcuity("counting fingers at 1 m").category, "CF");
+  assert.equal(parseAcuity("hand motion").category, "HM");
+  // Lange et al. 2009 (published abstract): CF logMAR 1.98, HM 2.28
+  assert.equal(acuityFromCategory("CF", "lange-2009").logMAR, 1.98);
+  assert.equal(acuityFromCategory("HM", "lange-2009").logMAR, 2.28);
+  // LP and NLP: conventions of some studies (from memory), never measured acuities
+  for (
+    const [t, c] of [["LP", "LP"], ["light perception", "LP"], ["NLP", "NLP"], [
+      "no light perception",
+      "NLP",
+    ]] as const
+  ) {
+    const a = parseAcuity(t);
+    assert.equal(a.category, c, t);
+    assert.equal(a.substitution, "low-vision-conventions");
+  }
+  assert.equal(formatAcuity(parseAcuity("HM")), "HM");
+  assert.equal(formatAcuity(parseAcuity("HM"), "logMAR"), "HM (2.30 logMAR by substitution)");
+  assert.match(
+    formatAcuity(parseAcuity("LP"), "logMAR"),
+    /LP \(2\.70 logMAR by substitution, a convention, not a measured acuity\)/,
+  );
+});
+
+Deno.test("near acuity: N and M notation at a stated distance, in the distance notations", () => {
+  // Sloan & Habel 1956 (from memory): 1 M subtends 5′ at 1 m; acuity = distance (m) / M
+  close(M_UNIT_MM, 1.454, 0.001);
+  const m = parseAcuity("1.0 M at 40 cm");
+  close(decimalOf(m), 0.4, 1e-12);
+  assert.equal(formatAcuity(m), "1 M at 40 cm");
+  assert.equal(formatAcuity(m, "snellenMetres"), "6/15");
+  assert.equal(formatAcuity(m, "snellenFeet"), "20/50");
+  close(decimalOf(parseAcuity("2M @ 1 m")), 0.5, 1e-12);
+  // N notation (Law 1951; N8 ≈ 1 M, from memory)
+  const n = parseAcuity("N8 at 40 cm");
+  close(n.logMAR, m.logMAR, 1e-12);
+  assert.equal(formatAcuity(n), "N8 at 40 cm");
+  close(decimalOf(parseAcuity("N5 at 25 cm")), 0.25 / (5 / 8), 1e-12);
+  assert.throws(() => parseAcuity("N8"), /needs its test distance: write "N8 at 40 cm"/);
+});
+
+Deno.test("a number without its notation: one rule, as text and as a number", () => {
+  for (const t of ["0.3", "1.0", "-0.1"]) {
+    assert.throws(
+      () => parseAcuity(t),
+      /has no notation: a bare number could be decimal acuity or logMAR/,
+      t,
+    );
+  }
+  close(parseAcuity("0.5 decimal").logMAR, Math.log10(2), 1e-12);
 });
