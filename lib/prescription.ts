@@ -11,7 +11,10 @@
  * - prism with its base: `1.5 BU`, `2 BI`, `2 Δ base out`, or 360-degree notation
  *   `2 base 30` / `2 B30` (which needs the eye, to tell in from out).
  *
- * Powers must be multiples of 0.01 D; the axis is whole degrees 0–180 (0 is read as 180).
+ * Powers take up to three decimals, the precision instruments write (eighth-dioptre steps
+ * such as `-3.375 / -0.125 x 90`); the axis is whole degrees 0–180 (0 is read as 180).
+ * A decimal comma (`-2,00 / -0,50 x 90`), as written in much of Europe, is read when the text
+ * uses no decimal point; text that mixes the two is refused with a message saying so.
  * Sources: common-practice, iso-13666-axis.
  *
  * @example
@@ -112,8 +115,11 @@ function power(r: Reader, t: Token, what: string, range: readonly [number, numbe
   if (v < range[0] || v > range[1]) {
     r.fail(`${what} ${t.text} D is outside the accepted range ${range[0]}–${range[1]} D`, t);
   }
-  if (Math.abs(v * 100 - Math.round(v * 100)) > 1e-6) {
-    r.fail(`${what} ${t.text} is not a multiple of 0.01 D (write at most two decimals)`, t);
+  if (Math.abs(v * 1000 - Math.round(v * 1000)) > 1e-6) {
+    r.fail(
+      `${what} ${t.text} is finer than instruments write: at most three decimals (0.001 D, as in -3.375)`,
+      t,
+    );
   }
   return v + 0;
 }
@@ -177,6 +183,32 @@ function readPrismPart(r: Reader, eye: Eye | undefined): Prism {
   return { horizontal: h * amount + 0, vertical: v * amount + 0 };
 }
 
+/** A comma between two digits: a decimal comma, or a separator written without a space. */
+const DIGIT_COMMA = /(\d),(\d)/g;
+/** A decimal point between digits, or before the digits of a power (".5"). */
+const DECIMAL_POINT = /\d\.\d|(^|[^\d])\.\d/;
+
+/**
+ * Read decimal commas as decimal points where that is unambiguous: the text has commas
+ * between digits and no decimal point anywhere. Text with both is refused: "-2.00,0.50" could
+ * be a separator or a mark. Source: common-practice.
+ */
+function decimalCommas(raw: string, text: string): string {
+  DIGIT_COMMA.lastIndex = 0;
+  const comma = DIGIT_COMMA.exec(text);
+  if (!comma) return text;
+  if (DECIMAL_POINT.test(text)) {
+    throw new LentilParseError(
+      raw,
+      `this text has both decimal points and a comma between digits ("${
+        comma[0]
+      }"): write one decimal mark throughout (-2,00 / -0,50 x 90 or -2.00 / -0.50 x 90), and a space after a comma that separates`,
+      comma.index + 1,
+    );
+  }
+  return text.replace(DIGIT_COMMA, "$1.$2");
+}
+
 /**
  * Parse a prescription as practitioners write it (see the module docs for the notations).
  * Sources: common-practice, iso-13666-axis.
@@ -186,11 +218,13 @@ function readPrismPart(r: Reader, eye: Eye | undefined): Prism {
  * import { parsePrescription } from "./prescription.ts";
  * parsePrescription("plano / -0.50 x 90"); // { sphere: 0, cylinder: -0.5, axis: 90 }
  * parsePrescription("R: +1.00 DS 1.5 BU").prism; // { horizontal: 0, vertical: 1.5 }
+ * parsePrescription("-3.375 / -0.125 x 90").sphere; // -3.375
+ * parsePrescription("-2,00 / -0,50 x 90").cylinder; // -0.5
  * ```
  * @throws {LentilParseError} naming the part that was wrong and what was expected there.
  */
 export function parsePrescription(text: string): Prescription {
-  const normalised = text.replace(/[−–]/g, "-");
+  const normalised = decimalCommas(text, text.replace(/[−–]/g, "-"));
   const r: Reader = new Reader(text, tokenise(normalised, text));
   if (r.tokens.length === 0) r.fail("expected a prescription such as -2.25 / -0.75 x 170");
 

@@ -18,16 +18,24 @@ import type { Prism } from "./prism.ts";
 import { normaliseAxis } from "./spherocylinder.ts";
 
 /**
- * A power as the trade writes it: sign and two decimals, "0.00" for zero.
- * Source: common-practice.
+ * A power as the trade writes it: sign and two decimals, "0.00" for zero; a power given to
+ * three decimals (an eighth-dioptre step) keeps its third. Source: common-practice.
  *
  * @example
  * ```ts
  * import { signedPower } from "./prescription_format.ts";
  * signedPower(0.5); // "+0.50"
+ * signedPower(-3.375); // "-3.375"
  * ```
  */
 export function signedPower(value: number): string {
+  // A power written to three decimals (an eighth-dioptre step, an instrument's reading)
+  // keeps them; anything else, a computed figure included, is written to two.
+  const thousandths = Math.round(value * 1000);
+  const onThousandth = Math.abs(value * 1000 - thousandths) < 1e-6;
+  if (onThousandth && thousandths % 10 !== 0) {
+    return (value > 0 ? "+" : "-") + (Math.abs(thousandths) / 1000).toFixed(3);
+  }
   const r = Math.round(value * 100) / 100;
   if (r === 0) return "0.00";
   return (r > 0 ? "+" : "-") + Math.abs(r).toFixed(2);

@@ -422,6 +422,52 @@ export class TableBuilder {
   }
 }
 
+/** How many row numbers a collapsed problem lists. */
+const ROWS_LISTED = 5;
+
+/**
+ * Row problems of one kind (the same message, column included, but for the cell's text and numbers)
+ * collapsed into one, at the first row's position, with the count and the first rows:
+ * a file with a thousand bad cells reads as one line per kind of problem.
+ *
+ * @example
+ * ```ts
+ * import { collapseRowProblems } from "./_tables.ts";
+ * const p = (row: number) => ({ file: "a.csv", line: row + 2, col: 1, row, message: `column va: "x${row}" is not a number` });
+ * collapseRowProblems([p(0), p(1), p(2)])[0].message; // 'column va: "x0" is not a number (3 rows with this problem, the first rows 1, 2, 3)'
+ * ```
+ */
+export function collapseRowProblems(problems: readonly TableProblem[]): TableProblem[] {
+  // Messages name their column, so the kind is the message with the cell's own text blanked.
+  const kindOf = (p: TableProblem) =>
+    p.message.replace(/"[^"]*"/g, '""').replace(/[-+]?\d+(?:\.\d+)?/g, "#");
+  const groups = new Map<string, TableProblem[]>();
+  const out: (TableProblem | string)[] = [];
+  for (const p of problems) {
+    if (p.row === undefined) {
+      out.push(p);
+      continue;
+    }
+    const k = kindOf(p);
+    const g = groups.get(k);
+    if (g) g.push(p);
+    else {
+      groups.set(k, [p]);
+      out.push(k);
+    }
+  }
+  return out.map((x) => {
+    if (typeof x !== "string") return x;
+    const g = groups.get(x)!;
+    if (g.length === 1) return g[0];
+    const rows = g.slice(0, ROWS_LISTED).map((p) => p.row! + 1).join(", ");
+    return {
+      ...g[0],
+      message: `${g[0].message} (${g.length} rows with this problem, the first rows ${rows})`,
+    };
+  });
+}
+
 function finish(
   name: string,
   builder: TableBuilder,
@@ -430,7 +476,7 @@ function finish(
   where: { file: string; line: number; col: number },
   extra: { file?: string },
 ): BuiltTable {
-  const problems = [...headerProblems, ...builder.problems];
+  const problems = [...headerProblems, ...collapseRowProblems(builder.problems)];
   const notes = builder.notes(name, where, skipBad);
   if (headerProblems.length || (builder.badRows && !skipBad)) {
     return { problems, notes, excluded: 0 };
