@@ -269,12 +269,12 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
     group: "acuity",
     summary:
       "A chart table of equal lines in equal log steps (default: 14 five-letter lines from 1.0 logMAR in 0.1 steps) with a read column left blank.",
-    params: [
+    params: [],
+    options: [
       {
         name: "top",
         type: "number",
         range: [-0.5, 2.5],
-        optional: true,
         default: 1,
         doc: "largest line, logMAR",
       },
@@ -282,7 +282,6 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
         name: "lines",
         type: "integer",
         range: [1, 40],
-        optional: true,
         default: 14,
         doc: "number of lines",
       },
@@ -290,7 +289,6 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
         name: "letters",
         type: "integer",
         range: [1, 20],
-        optional: true,
         default: 5,
         doc: "letters per line",
       },
@@ -298,14 +296,13 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
         name: "step",
         type: "number",
         range: [0.01, 0.5],
-        optional: true,
         default: 0.1,
         doc: "log step between lines",
       },
     ],
     returns: { type: "table", doc: "columns size (logMAR), letters, read" },
     sources: ["bailey-lovie-1976", "ferris-1982"],
-    example: "logMARChart(1.0, 14)",
+    example: "logMARChart({top: 1.0, lines: 14})",
     fn: (top, lines, letters, step) => {
       const chart = regularChart(top as number, lines as number, letters as number, step as number);
       return makeTable("chart", [
@@ -377,16 +374,16 @@ function snellenFormula(unit: "ft" | "m"): FormulaSpec {
     summary: `The Snellen fraction in ${feet ? "feet" : "metres"}, as written (${
       feet ? "20/40" : "6/9, 4/5"
     }), at any test distance.`,
-    params: [ACUITY, {
+    params: [ACUITY],
+    options: [{
       ...distance,
       name: "testDistance",
-      optional: true,
       default: feet ? 20 : 6,
       doc: `test distance (default ${feet ? "20 ft" : "6 m"})`,
     }],
     returns: { type: "text", doc: "the fraction" },
     sources: NOTATION_SOURCES,
-    example: feet ? 'snellenFeet("6/12")' : 'snellenMetres("20/25", 4 m)',
+    example: feet ? 'snellenFeet("6/12")' : 'snellenMetres("20/25", {testDistance: 4 m})',
     fn: (a, d) => formatSnellen(acuityOf(a), unit, d as number),
   });
 }
@@ -458,10 +455,10 @@ function guessFormulas(): FormulaSpec[] {
         type: "integer",
         range: [1, 100],
         doc: "lines guessed",
-      }, {
+      }],
+      options: [{
         name: "distinct",
         type: "boolean",
-        optional: true,
         default: false,
         doc: "use the no-repetition form",
       }],

@@ -12,7 +12,7 @@
  * @module
  */
 
-import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
+import { defineFormula, type FormulaSpec, type OptionSpec, type ParamSpec } from "./catalogue.ts";
 import { Column, makeTable } from "./table.ts";
 import { defineValueType } from "./types.ts";
 import { AcuityValue, Measures } from "./_acuity_values.ts";
@@ -66,25 +66,24 @@ const AGE: ParamSpec = {
   range: [0, 100],
   doc: "age",
 };
-const SLOPE: ParamSpec = {
+const SLOPE: OptionSpec = {
   name: "slope",
   type: "number",
   range: [0.05, 5],
-  optional: true,
   default: REFERENCE_VALUES.blurAcuitySlope.value,
   doc: "k in MAR ≈ k·A·ΔF, arcmin per mm per D (default 0.65, from memory)",
 };
 const ARCMIN = { type: "quantity", unit: "arcmin" } as const;
 
-/** An optional quantity parameter with its default (in `unit`). */
+/** A quantity option with its default (in `unit`). */
 function optionalQuantity(
   name: string,
   unit: string,
   range: readonly [number, number],
   fallback: number,
   doc: string,
-): ParamSpec {
-  return { name, type: "quantity", unit, range, optional: true, default: fallback, doc };
+): OptionSpec {
+  return { name, type: "quantity", unit, range, default: fallback, doc };
 }
 
 const TEST_DISTANCE = optionalQuantity(
@@ -129,10 +128,10 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     name: "retinalBlur",
     group: "blur",
     summary: "Diameter of the blur disc on the retina of a named schematic eye.",
-    params: [PUPIL, DEFOCUS, {
+    params: [PUPIL, DEFOCUS],
+    options: [{
       name: "eye",
       type: "text",
-      optional: true,
       default: "emsley",
       doc: "schematic eye (emsley: the reduced eye, +60 D)",
     }],
@@ -145,10 +144,11 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     name: "airyDisc",
     group: "blur",
     summary: "Angular diameter of the diffraction (Airy) disc, 2.44·λ/A.",
-    params: [PUPIL, WAVELENGTH],
+    params: [PUPIL],
+    options: [WAVELENGTH],
     returns: { ...ARCMIN, doc: "Airy disc diameter to the first dark ring" },
     sources: ["airy-disc"],
-    example: "airyDisc(3 mm, 555 nm)",
+    example: "airyDisc(3 mm, {wavelength: 555 nm})",
     fn: (p, w) => airyDisc(p as number, w as number),
   }),
   defineFormula({
@@ -156,7 +156,8 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     group: "blur",
     summary:
       "Geometric blur and diffraction combined by root-sum-of-squares of their diameters (an estimate).",
-    params: [PUPIL, DEFOCUS, WAVELENGTH],
+    params: [PUPIL, DEFOCUS],
+    options: [WAVELENGTH],
     returns: { ...ARCMIN, doc: "combined blur diameter" },
     sources: ["smith-1982", "airy-disc", "blur-quadrature"],
     example: "combinedBlur(3 mm, 0.5 D)",
@@ -177,8 +178,8 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       },
       DEFOCUS,
       PUPIL,
-      WAVELENGTH,
     ],
+    options: [WAVELENGTH],
     returns: {
       type: "any",
       doc: "combined blur through the pupil and the pinhole, and their ratio",
@@ -241,10 +242,10 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     group: "blur",
     summary:
       "Defocus at which a line should just fail, from MAR ≈ k·pupil·defocus: an approximation (Smith 1991, from memory).",
-    params: [{ name: "acuity", type: "acuity", doc: "the line" }, PUPIL, {
+    params: [{ name: "acuity", type: "acuity", doc: "the line" }, PUPIL],
+    options: [{
       name: "inFocus",
       type: "acuity",
-      optional: true,
       doc: "acuity in focus (default 6/6), as for blurredAcuity",
     }, SLOPE],
     returns: {
@@ -266,10 +267,10 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     group: "blur",
     summary:
       "Acuity expected with defocus: √(MAR₀² + (k·pupil·defocus)²), an approximation (Smith 1991, from memory).",
-    params: [PUPIL, DEFOCUS, {
+    params: [PUPIL, DEFOCUS],
+    options: [{
       name: "inFocus",
       type: "acuity",
-      optional: true,
       doc: "acuity in focus (default 6/6)",
     }, SLOPE],
     returns: { type: "acuity", doc: "acuity expected (an approximation)" },
@@ -314,12 +315,14 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       "Extra minus an eye of a given age can absorb by accommodating without losing acuity at a test distance.",
     params: [
       AGE,
+    ],
+    options: [
       TEST_DISTANCE,
       {
         name: "level",
         type: "text",
-        optional: true,
         default: "mean",
+        choices: ["minimum", "mean", "maximum"],
         doc: "which amplitude: minimum, mean or maximum (default mean)",
       },
     ],
@@ -337,6 +340,8 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     params: [
       { name: "rx", type: "quantity", unit: "D", doc: "the eye's correction at infinity" },
       PUPIL,
+    ],
+    options: [
       optionalQuantity("amplitude", "D", [0, 30], 0, "accommodation available (default 0)"),
       optionalQuantity(
         "span",
@@ -350,7 +355,7 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
     ],
     returns: { type: "table", doc: "lens (D), va (logMAR), residual (D)" },
     sources: ["smith-1991", "test-distance-vergence"],
-    example: "throughFocus(-1 D, 4 mm, 2 D)",
+    example: "throughFocus(-1 D, 4 mm, {amplitude: 2 D})",
     fn: (rx, pupil, amp, span, step, d) => {
       const r = rx as number;
       const powers = powerRange(r + (span as number), r - (span as number), step as number);

@@ -171,7 +171,7 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
     returns: { type: "endpoint", doc: "endpoint, plateau, warnings and fit" },
     sources: ["most-plus-endpoint", "through-focus-fit", "bailey-lovie-1976"],
     caution: true,
-    example: "endpoint(throughFocus(-1 D, 4 mm, 1 D))",
+    example: "endpoint(throughFocus(-1 D, 4 mm, {amplitude: 1 D}))",
     fn: (t, pc, ac, tol, repeats, model, age, chart) => {
       const table = t as TableValue;
       const rows = trialRows(

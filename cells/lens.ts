@@ -15,7 +15,7 @@
  * @module
  */
 
-import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
+import { defineFormula, type FormulaSpec, type OptionSpec, type ParamSpec } from "./catalogue.ts";
 import { Column, makeTable } from "./table.ts";
 import { type CheckLine, defineValueType } from "./types.ts";
 import { formatNumber } from "./display.ts";
@@ -224,12 +224,11 @@ const MIN_THICKNESS: ParamSpec = {
   range: [0, 10],
   doc: "thickness at the thinnest point (centre of a minus lens, edge of a plus lens)",
 };
-const FRONT: ParamSpec = {
+const FRONT: OptionSpec = {
   name: "frontCurve",
   type: "quantity",
   unit: "D",
   range: [-20, 20],
-  optional: true,
   default: DEFAULT_FRONT_CURVE,
   doc: "front surface power in the lens material (default +4.00 D)",
 };
@@ -238,7 +237,6 @@ const THICKNESS_PARAMS = [
   INDEX,
   DIAMETER,
   MIN_THICKNESS,
-  FRONT,
 ] as const;
 
 function thickness(r: unknown, index: unknown, d: unknown, t: unknown, f: unknown) {
@@ -253,6 +251,7 @@ function thickness(r: unknown, index: unknown, d: unknown, t: unknown, f: unknow
 const THICKNESS_COMMON = {
   group: "thickness",
   params: THICKNESS_PARAMS,
+  options: [FRONT],
   sources: ["jalie-lenses"],
   caution: true,
 } as const;
@@ -321,6 +320,7 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
       COMMON_INDICES.map((n) => n.toFixed(2)).join(", ")
     }), same front curve.`,
     params: THICKNESS_PARAMS.filter((p) => p.name !== "index"),
+    options: [FRONT],
     returns: { type: "table", doc: "table index, centre, edgeThin, edgeThick (mm)" },
     sources: ["jalie-lenses"],
     caution: true,
@@ -356,12 +356,13 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
         range: [-15, 15],
         doc: "optical centre from the box centre",
       },
+    ],
+    options: [
       {
         name: "margin",
         type: "quantity",
         unit: "mm",
         range: [0, 10],
-        optional: true,
         default: 2,
         doc: "allowance for edging",
       },
@@ -392,12 +393,13 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
         range: [-15, 15],
         doc: "optical centre from the box centre, in or out",
       },
+    ],
+    options: [
       {
         name: "allowance",
         type: "quantity",
         unit: "mm",
         range: [0, 10],
-        optional: true,
         default: EDGING_ALLOWANCE,
         doc: "allowance for edging (default 2 mm)",
       },
@@ -426,13 +428,14 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
         doc: "optical centre from the box centre toward the nose (negative: toward the temple)",
       },
       MIN_THICKNESS,
+    ],
+    options: [
       FRONT,
       {
         name: "verticalDecentration",
         type: "quantity",
         unit: "mm",
         range: [-15, 15],
-        optional: true,
         default: 0,
         doc: "optical centre above the box centre (negative: below; default 0 mm)",
       },
@@ -463,10 +466,11 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     params: [
       { name: "reading", type: "quantity", unit: "D", range: [-30, 30], doc: "the reading" },
       INDEX,
+    ],
+    options: [
       {
         ...INDEX,
         name: "toolIndex",
-        optional: true,
         default: REFERENCE_VALUES.lensMeasureIndex.value,
         doc: "index the tool is calibrated for (default 1.53)",
       },
@@ -540,19 +544,20 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
         range: WORKING_DISTANCE_RANGE_CM,
         doc: "working distance",
       },
+    ],
+    options: [
       {
         name: "reserve",
         type: "number",
         range: [0, 1],
-        optional: true,
         default: 0.5,
         doc: "fraction of the amplitude kept in reserve (0.5 half, 0.33 a third)",
       },
       {
         name: "level",
         type: "text",
-        optional: true,
         default: "minimum",
+        choices: ["minimum", "mean", "maximum"],
         doc: 'Hofstetter line for the amplitude: "minimum" (default), "mean" or "maximum"',
       },
     ],

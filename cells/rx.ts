@@ -14,7 +14,7 @@
  * @module
  */
 
-import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
+import { defineFormula, type FormulaSpec, type OptionSpec, type ParamSpec } from "./catalogue.ts";
 import { defineValueType, type DisplayOptions } from "./types.ts";
 import { quantity, toNumberIn } from "./quantity.ts";
 import { combineLenses, lensDifference, overRefraction } from "../lib/combine.ts";
@@ -97,20 +97,19 @@ const VERTEX_MM = (name: string, doc: string, optional = false): ParamSpec => ({
   doc,
   ...(optional ? { optional: true, default: 0 } : {}),
 });
-const STEP: ParamSpec = {
+const STEP: OptionSpec = {
   name: "step",
   type: "quantity",
   unit: "D",
   range: [0.01, 1],
-  optional: true,
   default: 0.25,
   doc: "the available step, usually 0.25 D (0.125 D for some lenses)",
 };
-const RULE: ParamSpec = {
+const RULE: OptionSpec = {
   name: "rule",
   type: "text",
-  optional: true,
   default: "nearest",
+  choices: ["nearest", "plus", "minus"],
   doc: `"nearest" (halves toward plus), "plus" (round up) or "minus" (round down)`,
 };
 
@@ -379,7 +378,8 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
     group: "vertex",
     summary:
       "Contact-lens power at the cornea for a spectacle prescription, exact and rounded to the available step with the rule stated.",
-    params: [RX(), VERTEX_MM("vertex", "vertex distance of the refraction"), STEP, RULE],
+    params: [RX(), VERTEX_MM("vertex", "vertex distance of the refraction")],
+    options: [STEP, RULE],
     returns: { type: "any", doc: "record atCornea (exact), rounded, rule" },
     sources: ["vertex-formula", "common-practice"],
     caution: true,
@@ -399,11 +399,12 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
     group: "vertex",
     summary:
       "A prescription rounded to the available step: each principal meridian power by the rule (default nearest, halves toward plus); axis to the degree.",
-    params: [RX(), STEP, RULE],
+    params: [RX()],
+    options: [STEP, RULE],
     returns: RETURNS_RX,
     sources: ["common-practice"],
     caution: true,
-    example: 'roundToStep(vertexRx(rx("-8.00 / -1.25 x 10"), 12 mm), 0.25 D)',
+    example: 'roundToStep(vertexRx(rx("-8.00 / -1.25 x 10"), 12 mm), {step: 0.25 D})',
     fn: (r, step, rule) => rxValue(roundToStep(rxOf(r), step as number, ruleOf(rule))),
   }),
 ];

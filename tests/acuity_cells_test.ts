@@ -24,7 +24,7 @@ Deno.test("acuity values display in their notation", () => {
   assert.equal(run('acuity("20/40")').display, "20/40");
   assert.equal(run('acuityAs("20/40", "metres")').display, "6/12");
   assert.equal(run('acuity(0.3, "logMAR")').display, "0.30 logMAR");
-  assert.equal(run('snellenMetres("20/25", 4 m)').display, "4/5");
+  assert.equal(run('snellenMetres("20/25", {testDistance: 4 m})').display, "4/5");
   assert.equal(run('toLogMAR("20/200")').display, "1");
   // ISO 8596: 8.73 mm at 6 m for V = 1.0
   assert.equal(run('letterHeight("6/6", 6 m)').display, "8.73 mm");

@@ -103,3 +103,23 @@ Deno.test("the catalogue refuses a malformed option", () => {
     /choices but is not text/,
   );
 });
+
+Deno.test("every formula's settings go by name; by position they are refused", () => {
+  // Rounding a power to the 0.25 D step toward plus (common practice, no source).
+  const r = run('roundToStep(rx("-4.10 DS"), {step: 0.25 D, rule: "plus"})');
+  assert.equal(lang.describe(r).display, "-4.00 DS");
+  for (
+    const expr of [
+      'roundToStep(rx("-4.10 DS"), 0.25 D)',
+      "airyDisc(3 mm, 555 nm)",
+      "throughFocus(-1 D, 4 mm, 1 D)",
+      "logMARChart(1.0, 14)",
+      "tentativeAdd(55 years, 40 cm, 0.5)",
+      'centreThickness(rx("-4.00"), 1.5, 50 mm, 2 mm, 4 D)',
+    ]
+  ) {
+    assert.throws(() => run(expr), /before its options, got \d+; give settings by name/, expr);
+  }
+  const withOptions = [...lang.catalogue.formulas.values()].filter((f) => f.options?.length);
+  assert.ok(withOptions.length >= 20, `${withOptions.length} formulas with options`);
+});

@@ -28,7 +28,9 @@ Deno.test("rx value type: text or value, shown in the trade's way", () => {
   // vertex-formula at 12 mm: −6.00 / −1.50 × 180 → −5.60 / −1.28 × 180 at the cornea. The
   // exact figure is shown exact, so it cannot be mistaken for a rounding by another rule than
   // the one stated beside the rounded power
-  const cl = lang.describe(run('contactLensPower("-6.00 / -1.50 x 180", 12 mm, 0.25 D, "minus")'))
+  const cl = lang.describe(
+    run('contactLensPower("-6.00 / -1.50 x 180", 12 mm, {step: 0.25 D, rule: "minus"})'),
+  )
     .display;
   assert.match(cl, /^atCornea: -5\.60 \/ -1\.28 × 180, rounded: -5\.75 \/ -1\.25 × 180, rule: /);
   assert.deepEqual(lang.describe(run('rx("L: +1.00 DS add +2.50 1 BU")')).value, {
@@ -79,7 +81,10 @@ Deno.test("formulas: bad input names the value and the accepted range", () => {
   );
   assert.throws(() => run('prismAt("-4 -2 x 45", 5 mm, 0 mm)'), /give the eye/);
   assert.throws(() => run('prismAt("-4 DS", 50 mm, 0 mm)'), /outside the accepted range -40–40 mm/);
-  assert.throws(() => run('roundToStep("-4.1 DS", 0.25 D, "up")'), /rounding rule "up"/);
+  assert.throws(
+    () => run('roundToStep("-4.1 DS", {step: 0.25 D, rule: "up"})'),
+    /option rule: "up" is not one of "nearest", "plus", "minus"/,
+  );
   assert.throws(() => run("spheroCylinder(-2 D, -1 D, 181 deg)"), /0–180/);
 });
 
