@@ -25,6 +25,7 @@
  */
 
 import { hasSource } from "../shared/sources.ts";
+import type { MeasureKind } from "../lib/number_text.ts";
 
 /** Built-in parameter and return types; value types registered in `types.ts` add more. */
 export type BuiltinType =
@@ -79,9 +80,11 @@ export interface ReturnSpec {
   /**
    * For a quantity in D: `"exact"` when the result is a measure rather than a lens power
    * (a vergence, a mean, a spread), shown to two decimals instead of in the power step.
-   * Arithmetic on the result gives an ordinary power again.
+   * Arithmetic on the result gives an ordinary power again. For a plain number, the kind of
+   * measure it is (`"logMAR"`, `"letters"`, `"decimal"`…): a cell that is one call of the
+   * formula shows it by that kind's rule (`MEASURE_RULES`).
    */
-  readonly display?: "exact";
+  readonly display?: "exact" | MeasureKind;
   /** One line: what the result is. */
   readonly doc: string;
 }

@@ -10,8 +10,20 @@
  * formatPower(-8.928, 0.25); // "-9.00 D (exact -8.93)"
  * ```
  *
+ * The digits of every kind of measure are declared once, in `lib/number_text.ts`
+ * (`MEASURE_RULES`), so `lib/` messages follow them too; this module re-exports them.
+ *
  * @module
  */
+
+import {
+  kindOfUnit,
+  type MeasureKind,
+  measureNumber,
+  measureText,
+  significant,
+  unitText,
+} from "../lib/number_text.ts";
 
 /**
  * A signed power with two decimals; when `step` is given and the value is not on a step,
@@ -65,16 +77,13 @@ export function signed(value: number): string {
  * ```
  */
 export function formatNumber(value: number, digits = 4): string {
-  if (!Number.isFinite(value)) return String(value);
-  if (Number.isInteger(value) && Math.abs(value) < 1e15) return String(value);
-  const abs = Math.abs(value);
-  if (abs !== 0 && (abs < 1e-6 || abs >= 1e15)) return value.toExponential(digits - 1);
-  const s = value.toPrecision(digits);
-  return s.includes("e") ? s : s.includes(".") ? s.replace(/\.?0+$/, "") : s;
+  return significant(value, digits);
 }
 
 /**
- * A quantity in the unit it carries, by the trade's conventions for that unit.
+ * A quantity in the unit it carries, by the display rule of its kind of measure (see
+ * `MEASURE_RULES`): powers in the step, Δ and mm to two decimals, whole degrees, arcmin to
+ * one decimal, µm whole.
  *
  * @example
  * ```ts
@@ -82,22 +91,75 @@ export function formatNumber(value: number, digits = 4): string {
  * formatQuantity(12, "mm"); // "12.00 mm"
  * formatQuantity(170, "deg"); // "170°"
  * formatQuantity(1.5, "prism"); // "1.50 Δ"
+ * formatQuantity(36.14, "arcmin"); // "36.1 arcmin"
+ * formatQuantity(12.4, "um"); // "12 µm"
  * ```
  */
 export function formatQuantity(value: number, unit: string, powerStep?: number): string {
-  switch (unit) {
-    case "D":
-      return formatPower(value, powerStep);
-    case "prism":
-      return `${value.toFixed(2)} Δ`;
-    case "deg":
-      return Number.isInteger(value) ? `${value}°` : `${formatNumber(value)}°`;
-    case "mm":
-    case "cm":
-      return `${value.toFixed(2)} ${unit}`;
-    case "":
-      return formatNumber(value);
-    default:
-      return `${formatNumber(value)} ${unit}`;
-  }
+  if (unit === "D") return formatPower(value, powerStep);
+  if (unit === "") return formatNumber(value);
+  const kind = kindOfUnit(unit);
+  if (kind) return measureText(value, kind, unit);
+  return `${formatNumber(value)} ${unitText(unit)}`;
 }
+
+/**
+ * A measure by the rule of its kind (`"logMAR"`, `"letters"`, `"covariance"`…), with its unit
+ * word unless `bare` is set (a table cell whose header carries the unit).
+ *
+ * @example
+ * ```ts
+ * import { formatMeasure } from "./display.ts";
+ * formatMeasure(0.1996, "logMAR"); // "0.20 logMAR"
+ * formatMeasure(75.02, "letters"); // "75 letters"
+ * formatMeasure(0.0123, "covariance"); // "0.012 D²"
+ * formatMeasure(0.1996, "logMAR", { bare: true }); // "0.20"
+ * ```
+ */
+export function formatMeasure(
+  value: number,
+  kind: MeasureKind,
+  options: { bare?: boolean; powerStep?: number } = {},
+): string {
+  if (kind === "power") {
+    const t = formatPower(value, options.powerStep, options.bare ? "" : "D");
+    return t;
+  }
+  return options.bare ? measureNumber(value, kind) : measureText(value, kind);
+}
+
+/**
+ * An input as it was typed: a number with a unit (`12 mm`, `1.5prism`, `-4 D`) shows the
+ * number exactly as written and the unit as the trade writes it; other inputs return
+ * undefined (they display by their value).
+ *
+ * @example
+ * ```ts
+ * import { asTyped } from "./display.ts";
+ * asTyped("12 mm"); // "12 mm"
+ * asTyped("1.5 prism"); // "1.5 Δ"
+ * asTyped("170 deg"); // "170°"
+ * asTyped('rx("-2.00 DS")'); // undefined
+ * ```
+ */
+export function asTyped(expression: string): string | undefined {
+  const m = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?)\s*([A-Za-z]+(?:\^-?\d+)?)?\s*$/.exec(
+    expression,
+  );
+  if (!m) return undefined;
+  const [, n, unit] = m;
+  if (!unit) return n;
+  const u = unitText(unit);
+  return u === "°" ? `${n}°` : `${n} ${u}`;
+}
+
+export {
+  fixed,
+  kindOfUnit,
+  MEASURE_RULES,
+  type MeasureKind,
+  measureNumber,
+  measureText,
+  numberInMessage,
+  unitText,
+} from "../lib/number_text.ts";

@@ -17,17 +17,14 @@
 
 import type { MathNode, Unit } from "mathjs";
 import type { Catalogue, FormulaSpec } from "./catalogue.ts";
-import { Column, tableInfo } from "./table.ts";
-import { DEFAULT_DISPLAY, type DisplayOptions, typeOfValue } from "./types.ts";
-import { formatNumber, formatQuantity } from "./display.ts";
+import { DEFAULT_DISPLAY, type DisplayOptions } from "./types.ts";
+import { type Described, describeValue } from "./present.ts";
 import { CATALOGUE } from "./mod.ts";
 import { bindFormula } from "./_arguments.ts";
 import { NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
 import { provideInFormulas, refuseInFormulas } from "./_mathjs.ts";
 import {
   formulaMath,
-  isExact,
-  isUnsigned,
   markExact,
   quantity,
   quantityParts,
@@ -84,15 +81,7 @@ export function plainMathMessage(message: string): string {
   return message;
 }
 
-/** How a value is shown and serialised. */
-export interface Described {
-  /** Text as the trade writes it, unit included. */
-  readonly display: string;
-  /** Plain JSON value (a number in `unit` for quantities). */
-  readonly value: unknown;
-  /** Unit of `value` ("" when none). */
-  readonly unit: string;
-}
+export type { Described } from "./present.ts";
 
 /** Functions that user formulas may not call: they could redefine the language or evaluate text. */
 export const DISABLED_FUNCTIONS: readonly string[] = [
@@ -168,7 +157,9 @@ function buildLanguage(catalogue: Catalogue): Language {
     bindFormula(spec, (out) => {
       if (spec.returns.type === "quantity" && typeof out === "number" && spec.returns.unit) {
         const q = unitOf(out, spec.returns.unit);
-        return spec.returns.display === "exact" ? markExact(q) : q;
+        const shown = spec.returns.display;
+        if (shown === "spread") return markExact(q, { unsigned: true });
+        return shown === "exact" || shown === "measure" ? markExact(q) : q;
       }
       return out;
     });
@@ -198,71 +189,9 @@ function buildLanguage(catalogue: Catalogue): Language {
     }
   };
 
-  /** A column's values as JSON: numbers in its unit (null where empty), or each value's JSON. */
-  const columnJson = (c: Column, options: DisplayOptions): unknown[] =>
-    c.data instanceof Float64Array
-      ? Array.from(c.data, (v) => (Number.isNaN(v) ? null : v))
-      : c.data.map((v) => describe(v, options).value);
-
-  const describe = (x: unknown, options: DisplayOptions = DEFAULT_DISPLAY): Described => {
-    if (typeof x === "number") return { display: formatNumber(x), value: x, unit: "" };
-    if (typeof x === "string") return { display: x, value: x, unit: "" };
-    if (typeof x === "boolean") return { display: x ? "yes" : "no", value: x, unit: "" };
-    const q = quantityParts(x);
-    if (q) {
-      const step = isExact(x) ? 0 : options.powerStep;
-      const shown = formatQuantity(q.value, q.unit, step);
-      return { display: isUnsigned(x) ? shown.replace(/^\+/, "") : shown, ...q };
-    }
-    if (x instanceof Column) {
-      return {
-        display: `column ${x.name} (${x.length} rows${x.unit ? `, ${x.unit}` : ""})`,
-        value: columnJson(x, options),
-        unit: x.unit,
-      };
-    }
-    const info = tableInfo(x);
-    if (info) {
-      const ex = info.excluded ? `, ${info.excluded} excluded` : "";
-      return {
-        display: `table ${info.name}: ${info.rowCount} rows × ${info.columns.length} columns${ex}`,
-        value: {
-          rows: info.rowCount,
-          excluded: info.excluded,
-          ...(info.file ? { file: info.file } : {}),
-          columns: info.columns.map((c) => ({ name: c.name, type: c.type, unit: c.unit })),
-        },
-        unit: "",
-      };
-    }
-    const t = typeOfValue(x);
-    if (t) {
-      return { display: t.display(x, options), value: t.json(x), unit: t.unit?.(x) ?? "" };
-    }
-    if (math.isMatrix(x) || Array.isArray(x)) {
-      const arr = math.isMatrix(x) ? (x as { toArray(): unknown[] }).toArray() : x as unknown[];
-      const parts = arr.map((v) => describe(v, options));
-      return {
-        display: `[${parts.map((p) => p.display).join(", ")}]`,
-        value: parts.map((p) => p.value),
-        unit: parts.length && parts.every((p) => p.unit === parts[0].unit) ? parts[0].unit : "",
-      };
-    }
-    if (x === null || x === undefined) return { display: "nothing", value: null, unit: "" };
-    if (typeof x === "function") return { display: "a function", value: null, unit: "" };
-    if (typeof x === "object") {
-      const entries = Object.entries(x as Record<string, unknown>).map(([k, v]) => {
-        const d = describe(v, options);
-        return [k, d] as const;
-      });
-      return {
-        display: entries.map(([k, d]) => `${k}: ${d.display}`).join(", "),
-        value: Object.fromEntries(entries.map(([k, d]) => [k, d.value])),
-        unit: "",
-      };
-    }
-    return { display: String(x), value: String(x), unit: "" };
-  };
+  // One rule for every surface: the value's display and JSON come from cells/present.ts.
+  const describe = (x: unknown, options: DisplayOptions = DEFAULT_DISPLAY): Described =>
+    describeValue(x, options);
 
   return {
     catalogue,

@@ -20,6 +20,7 @@ import { Column, makeTable } from "./table.ts";
 import { type CheckLine, defineValueType } from "./types.ts";
 import { formatNumber } from "./display.ts";
 import { quantity } from "./quantity.ts";
+import { defineRecordType, describeValue } from "./present.ts";
 import type { RxValue } from "./rx.ts";
 import type { AmplitudeLevel } from "../lib/accommodation.ts";
 import { nearDemand, tentativeAdd, WORKING_DISTANCE_RANGE_CM } from "../lib/near.ts";
@@ -175,6 +176,23 @@ function describeCheck(c: ToleranceCheck): string {
   })`;
 }
 
+/** A lens's thickness: centre, thinnest and thickest edge. */
+export const THICKNESS_RECORD = defineRecordType<
+  { centre: unknown; edgeThin: unknown; edgeThick: unknown }
+>({
+  name: "thickness",
+  summary: "the centre and edge thickness of a lens",
+  headline: (r) =>
+    `centre ${describeValue(r.centre).display}, thickest edge ${
+      describeValue(r.edgeThick).display
+    }`,
+  parts: [
+    { key: "centre", label: "centre thickness" },
+    { key: "edgeThin", label: "thinnest edge" },
+    { key: "edgeThick", label: "thickest edge" },
+  ],
+});
+
 /** The `toleranceReport` value type. */
 export const TOLERANCE_REPORT_TYPE = defineValueType<ToleranceReportValue>({
   name: "toleranceReport",
@@ -293,11 +311,11 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     example: 'lensThickness(rx("-4.00 / -1.00 x 180"), 1.6, 60 mm, 1.5 mm)',
     fn: (r, n, d, t, f) => {
       const x = thickness(r, n, d, t, f);
-      return {
+      return THICKNESS_RECORD.make({
         centre: quantity(x.centre, "mm"),
         edgeThin: quantity(x.edgeThin, "mm"),
         edgeThick: quantity(x.edgeThick, "mm"),
-      };
+      });
     },
   }),
   ...([

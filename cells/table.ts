@@ -57,6 +57,8 @@ export interface TableInfo {
   readonly subject?: string;
   /** The column naming the eye (R or L), when the table block declares one. */
   readonly eye?: string;
+  /** How many of the columns came with the table; those after them are computed. */
+  readonly dataColumns?: number;
 }
 
 /** A table as the formula language sees it: columns by name. */
@@ -100,6 +102,7 @@ export function makeTable(
     file: extra.file,
     ...(extra.subject ? { subject: extra.subject } : {}),
     ...(extra.eye ? { eye: extra.eye } : {}),
+    dataColumns: columns.length,
   });
   return value;
 }

@@ -17,6 +17,10 @@
 import { getSource, type SourceStatus, statusLabel } from "../shared/sources.ts";
 import { CAUTIONS } from "../shared/cautions.ts";
 import type { CellError, CellResult, Notebook } from "./engine/engine.ts";
+import type { CheckLine } from "../cells/types.ts";
+import { type PartView, present, type TableShown } from "../cells/present.ts";
+import { asTyped, MEASURE_RULES, type MeasureKind } from "../cells/display.ts";
+import type { Catalogue } from "../cells/catalogue.ts";
 
 /** A numbered source in a report. */
 export interface ReportSource {
@@ -44,8 +48,16 @@ export interface ReportCell {
   readonly value: unknown;
   /** Unit of `value`. */
   readonly unit: string;
-  /** Display text in the trade's conventions. */
+  /** Display text in the trade's conventions, on one line. */
   readonly display: string;
+  /** The line read first: beside the cell on the page, on the cell's line in the terminal. */
+  readonly headline: string;
+  /** The labelled parts read under the headline, when the value has parts. */
+  readonly parts?: readonly PartView[];
+  /** The lines of a check, when the value is one. */
+  readonly checks?: readonly CheckLine[];
+  /** The first rows of a table result, with the counts in words. */
+  readonly table?: TableShown;
   /** Source ids used. */
   readonly sources: readonly string[];
   /** Footnote numbers of those sources. */
@@ -74,6 +86,47 @@ export interface Report {
   readonly cautions: readonly string[];
 }
 
+/** Settings of {@linkcode buildReport}. */
+export interface ReportOptions {
+  /** Rows of a table result shown (default 25). */
+  readonly maxRows?: number;
+}
+
+/**
+ * The kind of measure a cell's result is, when its expression is one call of a formula that
+ * declares it (`toLogMAR(…)` gives logMAR): plain numbers then show by that kind's rule.
+ *
+ * @example
+ * ```ts
+ * import { getLanguage } from "../cells/language.ts";
+ * import { declaredKind } from "./report.ts";
+ * declaredKind('letterScore("6/9")', getLanguage().catalogue); // "letters"
+ * declaredKind("letterScore(a) + 1", getLanguage().catalogue); // undefined
+ * ```
+ */
+export function declaredKind(
+  expression: string | undefined,
+  catalogue: Catalogue,
+): MeasureKind | undefined {
+  const m = expression ? /^\s*([A-Za-z_]\w*)\s*\(/.exec(expression) : null;
+  if (!m) return undefined;
+  const e = expression!.trim();
+  // The call's own closing parenthesis must end the expression.
+  let depth = 0;
+  let quote = "";
+  for (let i = e.indexOf("("); i < e.length; i++) {
+    const c = e[i];
+    if (quote) {
+      if (c === "\\") i++;
+      else if (c === quote) quote = "";
+    } else if (c === '"' || c === "'") quote = c;
+    else if (c === "(") depth++;
+    else if (c === ")" && --depth === 0 && i !== e.length - 1) return undefined;
+  }
+  const kind = catalogue.formulas.get(m[1])?.returns.display;
+  return kind && kind !== "exact" && kind in MEASURE_RULES ? kind : undefined;
+}
+
 /**
  * Build the report of an evaluated notebook.
  *
@@ -84,7 +137,7 @@ export interface Report {
  * buildReport(Notebook.fromText("~~~lentil\nx = 2 mm\n~~~\n", "x.lentil.md")).cells[0].display; // "2.00 mm"
  * ```
  */
-export function buildReport(nb: Notebook): Report {
+export function buildReport(nb: Notebook, settings: ReportOptions = {}): Report {
   const numbers = new Map<string, number>();
   const sources: ReportSource[] = [];
   const lang = nb.language;
@@ -102,15 +155,23 @@ export function buildReport(nb: Notebook): Report {
     // An input shows exactly what was typed; computed results show in the power step.
     const options = r.input ? { ...nb.display, powerStep: 0 } : nb.display;
     const d = r.error
-      ? { display: `error: ${r.error.message}`, value: null, unit: "" }
-      : lang.describe(r.value, options);
+      ? { display: `error: ${r.error.message}`, value: null, unit: "", headline: "" }
+      : present(r.value, options, {
+        kind: declaredKind(r.expression, lang.catalogue),
+        maxRows: settings.maxRows,
+      });
+    const typed = r.input && !r.error && r.expression ? asTyped(r.expression) : undefined;
     return {
       id: r.id,
       name: r.name,
       kind: r.kind,
       value: d.value,
       unit: d.unit,
-      display: d.display,
+      display: typed ?? d.display,
+      headline: typed ?? (r.error ? d.display : (d as { headline: string }).headline),
+      ...("parts" in d && d.parts ? { parts: d.parts } : {}),
+      ...("checks" in d && d.checks ? { checks: d.checks } : {}),
+      ...("table" in d && d.table ? { table: d.table } : {}),
       sources: r.sources,
       notes,
       caution: r.caution,

@@ -29,7 +29,8 @@ Deno.test("run prints every cell with its value, sources and cautions", async ()
     const r = await cli("run", f);
     assert.equal(r.code, 0, r.err);
     assert.match(r.out, /^CLI check \(case C-1\)/);
-    assert.match(r.out, /vd += 12\.00 mm/);
+    // An input shows exactly as typed.
+    assert.match(r.out, /vd += 12 mm\n/);
     assert.match(r.out, /cl += -9\.00 D \(exact -8\.93\) {2}\[1\] {2}# at the cornea/);
     assert.match(r.out, /\[1\] Effective power F' = F \/ \(1 − d·F\)/);
     assert.match(r.out, /Cautions\n {2}- These calculations aid professional judgement/);
@@ -94,7 +95,7 @@ Deno.test("eval computes a vertex compensation with sources; --json shape", asyn
   assert.equal(r.code, 0);
   assert.match(r.out, /^\+11\.25 D \(exact \+11\.36\) {2}\[1\]/);
   const j = JSON.parse((await cli("eval", "vertexPower(-10 D, 12 mm)", "--json")).out);
-  assert.deepEqual(Object.keys(j), ["value", "unit", "display", "sources"]);
+  assert.deepEqual(Object.keys(j), ["value", "unit", "display", "headline", "sources"]);
   assert.equal(j.unit, "D");
   const bad = await cli("eval", "2 D + 3 mm");
   assert.equal(bad.code, 1);

@@ -192,7 +192,7 @@ Deno.test("the endpoint formula reads a table with text acuities", () => {
   assert.ok(json.fit.curve.length > 10);
   assert.equal(lang.catalogue.formulas.get("endpoint")?.caution, true);
   const curve = lang.describe(run("endpointCurve(endpoint(trials))"));
-  assert.match(curve.display, /endpointCurve: \d+ rows × 2 columns/);
+  assert.match(curve.display, /endpointCurve: \d+ rows, 2 columns/);
   assert.throws(() => run('endpoint(trials, "lens", "nope")'), /no column "nope"/);
   assert.throws(
     () => run('endpoint(trials, "lens", "va", {repeats: "sometimes"})'),

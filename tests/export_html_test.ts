@@ -84,17 +84,25 @@ Deno.test("page: every source used is listed once, numbered, with its mark", asy
   }
 });
 
-Deno.test("page: cautions follow a block whose result could be used to make a lens", () => {
+Deno.test("page: the cautions are one section, linked from each result they apply to", () => {
   const nb = Notebook.fromText(
-    "```lentil\nx = 2 mm\n```\n\n```lentil\ncl = vertexPower(-10 D, 12 mm)\n```\n",
+    "```lentil\nx = 2 mm\n```\n\n```lentil\ncl = vertexPower(-10 D, 12 mm)\n" +
+      "cl2 = vertexPower(-8 D, 12 mm)\n```\n",
     "c.lentil.md",
   );
   const { html } = renderNotebookBody(nb);
   const sections = html.split('<section class="lx-calc"').slice(1);
   assert.equal(sections.length, 2);
-  assert.ok(!sections[0].includes("lx-cautions"));
-  assert.ok(sections[1].includes('<aside class="lx-cautions"'));
-  for (const c of CAUTIONS) assert.ok(sections[1].includes(c.replaceAll("'", "&#39;")));
+  assert.ok(!sections[0].includes("lx-flag"));
+  assert.ok(!html.includes("<aside"));
+  assert.equal((html.match(/class="lx-cautions"/g) ?? []).length, 1);
+  assert.equal((html.match(/id="cautions"/g) ?? []).length, 1);
+  for (const c of CAUTIONS) assert.ok(html.includes(c.replaceAll("'", "&#39;")));
+  // A marker at each result links to the section, and the section links back.
+  for (const id of ["cl", "cl2"]) {
+    assert.ok(html.includes(`id="caution-at-${id}" href="#cautions"`), id);
+    assert.ok(html.includes(`href="#caution-at-${id}"`), id);
+  }
   const plain = renderNotebookBody(Notebook.fromText("```lentil\nx = 2 mm\n```\n", "p.lentil.md"));
   assert.ok(!plain.html.includes("lx-cautions"));
 });
@@ -119,8 +127,12 @@ Deno.test("page: a long table is cut with its row count stated; CSV embedded on 
     /<section class="lx-table-block" id="table-survey" data-rows="240">([^]*?)<\/section>/
       .exec(html);
   assert.ok(survey);
-  assert.ok(survey[1].includes("240 rows × 10 columns"));
-  assert.ok(survey[1].includes("first 10 of 240 rows shown"));
+  assert.ok(!survey[1].includes("rows ×"));
+  assert.match(
+    survey[1],
+    /240 rows, 10 columns \(\d+ from export-survey\.csv, \d+ computed\)|240 rows, 10 columns \(all from export-survey\.csv\)/,
+  );
+  assert.ok(survey[1].includes("rows 1–10 shown"));
   const tbody = /<tbody>([^]*?)<\/tbody>/.exec(survey[1])![1];
   assert.equal((tbody.match(/<tr>/g) ?? []).length, 10);
   assert.ok(!html.includes("lx-csv"));

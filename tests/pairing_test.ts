@@ -16,7 +16,7 @@ Deno.test("pairRows pairs on the keys whatever the row order, and counts rows wi
   );
   const shown = nb.language.describe(nb.value("paired")).display;
   // A/L has no partner in visit2 and C/L none in visit1: two rows left out.
-  assert.match(shown, /2 rows × 4 columns, 2 excluded/);
+  assert.match(shown, /2 rows, 4 columns; 2 unreadable rows left out/);
   // Bland & Altman 1986, differences first − second on M: A/R −1.25 − (−1.50) = +0.25 and
   // B/R 0, so the bias is +0.125 D.
   const m = (nb.value("change") as Record<string, Record<string, unknown>>).M;

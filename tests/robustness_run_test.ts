@@ -28,7 +28,7 @@ Deno.test("run lists an unterminated block under Problems and exits 1", async ()
   const j = await runOn("```lentil\na = 1 mm\n", "--json");
   assert.equal(j.code, 1);
   const json = JSON.parse(j.out);
-  assert.equal(json.cells[0].display, "1.00 mm");
+  assert.equal(json.cells[0].display, "1 mm");
   assert.equal(json.problems.length, 1);
   assert.equal(json.problems[0].line, 1);
 });

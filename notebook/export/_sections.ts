@@ -1,6 +1,6 @@
 /**
- * Markup of the page's parts: a calc block's cells, a table block, a plot figure, the
- * cautions, the sources list. Every piece of user text passes through `escapeHtml`.
+ * Markup of the page's parts: a formula block's cells, a table block, a plot figure, the
+ * one cautions section, the sources list. Every piece of user text passes through `escapeHtml`.
  *
  * @module
  */
@@ -9,20 +9,11 @@ import { stringify } from "csv-stringify/sync";
 import type { Notebook } from "../engine/engine.ts";
 import type { CalcBlock, TableBlock } from "../format/parse.ts";
 import type { Report, ReportCell } from "../report.ts";
-import { type Column, type TableInfo, tableInfo } from "../../cells/table.ts";
-import { formatNumber, signed } from "../../cells/display.ts";
+import { type TableInfo, tableInfo } from "../../cells/table.ts";
+import { showTable, tableCellText } from "../../cells/present.ts";
+import { belowHtml, cautionsSection, dataTableHtml, hasBelow, headlineHtml } from "./_results.ts";
 import { anchorId, escapeHtml } from "./_escape.ts";
 import type { RenderedPlot } from "./plot.ts";
-
-/** Footnote links to the numbered sources. */
-function footnotes(c: ReportCell): string {
-  if (!c.notes.length) return "";
-  const links = c.notes.map((n) => `<a href="#src-${n}">${n}</a>`).join(",");
-  return `<sup class="lx-fn">${links}</sup>`;
-}
-
-const CAUTION_FLAG =
-  `<span class="lx-flag" title="The cautions apply to this result">&#9888;</span>`;
 
 /**
  * An expression as a readable formula: × for *, a true minus sign, ≤ and ≥; text inside
@@ -57,50 +48,44 @@ function cellRow(c: ReportCell): string {
     .filter(Boolean).join(" ");
   const value = c.error
     ? `<span class="lx-error">${escapeHtml(c.display)}</span>`
-    : `${escapeHtml(c.display)}${footnotes(c)}${c.caution ? CAUTION_FLAG : ""}`;
+    : headlineHtml(c);
   const expr = c.input || !c.expression ? "" : escapeHtml(readableFormula(c.expression));
+  const below = !c.error && hasBelow(c)
+    ? `<tr class="lx-below" data-below="${escapeHtml(c.id)}"><td colspan="3">${
+      belowHtml(c)
+    }</td></tr>`
+    : "";
   return `<tr class="${classes}" id="${anchorId("cell", c.id)}" data-cell="${escapeHtml(c.id)}">` +
     `<td class="lx-name">${escapeHtml(c.id)}</td>` +
     `<td class="lx-formula"><span class="lx-expr">${expr}</span>` +
     `${c.note ? `<span class="lx-note">${escapeHtml(c.note)}</span>` : ""}</td>` +
-    `<td class="lx-value">${value}</td></tr>`;
+    `<td class="lx-value">${value}</td></tr>${below}`;
 }
 
 /**
- * A calc block: one row a cell (name, formula, result with footnotes, note), followed by the
- * cautions when any of its results could be used to make or fit a lens.
+ * A formula block: one row a cell (name, formula, headline with footnotes and the caution
+ * marker, note), the parts, check or table rows of a result in a row under it. The cautions
+ * are in one section of the page, which each marker links to.
  */
 export function calcSection(
   block: CalcBlock,
   byLine: ReadonlyMap<number, ReportCell>,
-  report: Report,
 ): string {
   const cells = block.cells.map((d) => byLine.get(d.line)).filter((c): c is ReportCell => !!c);
   if (!cells.length) return "";
   const rows = cells.map(cellRow).join("\n");
-  const caution = cells.some((c) => c.caution) ? cautionsAside(report.cautions) : "";
   return `<section class="lx-calc" data-line="${block.span.line}">` +
-    `<table class="lx-cells"><tbody>\n${rows}\n</tbody></table>${caution}</section>`;
+    `<table class="lx-cells lx-laid"><colgroup><col class="lx-col-name">` +
+    `<col class="lx-col-formula"><col class="lx-col-value"></colgroup>` +
+    `<tbody>\n${rows}\n</tbody></table></section>`;
 }
 
-/** The cautions, as a note beside results. */
-export function cautionsAside(cautions: readonly string[]): string {
-  if (!cautions.length) return "";
-  const items = cautions.map((c) => `<li>${escapeHtml(c)}</li>`).join("");
-  return `<aside class="lx-cautions" role="note"><p class="lx-cautions-title">Cautions</p>` +
-    `<ul>${items}</ul></aside>`;
-}
-
-function cellText(nb: Notebook, c: Column, i: number): string {
-  const v = c.data[i];
-  if (c.numeric) {
-    const n = v as number;
-    if (Number.isNaN(n)) return "";
-    if (c.unit === "D") return signed(n);
-    return c.unit.toLowerCase() === "logmar" ? n.toFixed(2) : formatNumber(n);
-  }
-  if (v === null || v === undefined) return "";
-  return nb.language.describe(v, nb.display).display;
+/** The page's one cautions section, linking back to each result it applies to. */
+export function cautionsPart(report: Report): string {
+  return cautionsSection(
+    report.cautions,
+    report.cells.filter((c) => c.caution && !c.error).map((c) => c.id),
+  );
 }
 
 /** CSV text of a whole table, numbers as stored. */
@@ -111,7 +96,7 @@ function tableCsv(nb: Notebook, info: TableInfo): string {
     rows.push(info.columns.map((c) => {
       const v = c.data[i];
       if (c.numeric) return Number.isNaN(v as number) ? "" : String(v);
-      return v === null || v === undefined ? "" : cellText(nb, c, i);
+      return v === null || v === undefined ? "" : tableCellText(c, i, nb.display);
     }));
   }
   return stringify([header, ...rows]);
@@ -141,29 +126,7 @@ export function tableSection(
     return `<section class="lx-table-block" id="${id}"><p class="lx-table-cap">${name}</p>` +
       `<p class="lx-problem lx-error">${escapeHtml(msg)}</p></section>`;
   }
-  const cut = info.rowCount > options.maxRows + 5;
-  const shown = cut ? options.maxRows : info.rowCount;
-  const head = info.columns.map((c) =>
-    `<th${c.numeric ? ' class="lx-num"' : ""}>${escapeHtml(c.name)}${
-      c.unit ? ` [${escapeHtml(c.unit)}]` : ""
-    }</th>`
-  ).join("");
-  const body: string[] = [];
-  for (let i = 0; i < shown; i++) {
-    body.push(
-      "<tr>" + info.columns.map((c) =>
-        `<td${c.numeric ? ' class="lx-num"' : ""}>${escapeHtml(cellText(nb, c, i))}</td>`
-      ).join("") + "</tr>",
-    );
-  }
-  const facts = [
-    `${info.rowCount.toLocaleString("en")} row${
-      info.rowCount === 1 ? "" : "s"
-    } × ${info.columns.length} column${info.columns.length === 1 ? "" : "s"}`,
-    info.file ? `from ${escapeHtml(info.file)}` : "",
-    info.excluded ? `${info.excluded.toLocaleString("en")} rows excluded (unreadable)` : "",
-    cut ? `first ${shown} of ${info.rowCount.toLocaleString("en")} rows shown` : "",
-  ].filter(Boolean).join(" · ");
+  const shown = showTable(info, nb.display, options.maxRows);
   let data = "";
   if (options.embedData) {
     const csv = tableCsv(nb, info);
@@ -178,10 +141,9 @@ export function tableSection(
       `<pre class="lx-csv">${escapeHtml(csv)}</pre></details>`;
   }
   return `<section class="lx-table-block" id="${id}" data-rows="${info.rowCount}">` +
-    `<p class="lx-table-cap">${name} · ${facts}</p>` +
-    `<table class="lx-data-table"><thead><tr>${head}</tr></thead><tbody>\n${
-      body.join("\n")
-    }\n</tbody></table>${data}</section>`;
+    `<p class="lx-table-cap">${name}</p>${
+      dataTableHtml(shown, block.name || `at line ${block.line}`)
+    }${data}</section>`;
 }
 
 /** A plot as a figure, or its problems in place of it. */

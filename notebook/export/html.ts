@@ -1,8 +1,8 @@
 /**
  * A notebook as one self-contained HTML page: the prose from Markdown, each calc block as
- * formulas with results, units and footnote numbers, tables (long ones cut, with the row
- * count), plots as inline SVG, the cautions beside results that could be used to make or
- * fit a lens, the numbered sources, and a footer that ties the page to the notebook file
+ * formulas with results (headline, parts, check tables, table rows), units and footnote
+ * numbers, tables (long ones cut, with the row count), plots as inline SVG, the cautions in
+ * one section that every result they apply to links to, the numbered sources, and a footer that ties the page to the notebook file
  * by its SHA-256. The page has a strict Content-Security-Policy, no script and no external
  * resource of any kind.
  *
@@ -28,7 +28,13 @@ import { VERSION } from "../version.ts";
 import { escapeHtml } from "./_escape.ts";
 import { renderMarkdown } from "./markdown.ts";
 import { renderPlot } from "./plot.ts";
-import { calcSection, plotFigure, sourcesSection, tableSection } from "./_sections.ts";
+import {
+  calcSection,
+  cautionsPart,
+  plotFigure,
+  sourcesSection,
+  tableSection,
+} from "./_sections.ts";
 
 // The figure and escaping the page uses, for other views of a notebook (the live page).
 export { plotFigure } from "./_sections.ts";
@@ -115,7 +121,7 @@ function header(nb: Notebook): string {
  * ```
  */
 export function renderNotebookBody(nb: Notebook, options: BodyOptions = {}): RenderedBody {
-  const report = buildReport(nb);
+  const report = buildReport(nb, { maxRows: options.maxRows });
   const cellsByLine = new Map<number, ReportCell>();
   const tablesByLine = new Map<number, ReportCell>();
   for (const c of report.cells) (c.kind === "table" ? tablesByLine : cellsByLine).set(c.line, c);
@@ -126,7 +132,7 @@ export function renderNotebookBody(nb: Notebook, options: BodyOptions = {}): Ren
     if (b.kind === "prose") {
       if (b.text.trim()) parts.push(`<div class="lx-prose">${renderMarkdown(b.text)}</div>`);
     } else if (b.kind === "calc") {
-      parts.push(calcSection(b, cellsByLine, report));
+      parts.push(calcSection(b, cellsByLine));
     } else if (b.kind === "table") {
       parts.push(tableSection(nb, b, tablesByLine.get(b.line), tableOptions));
     } else {
@@ -135,6 +141,7 @@ export function renderNotebookBody(nb: Notebook, options: BodyOptions = {}): Ren
       parts.push(plotFigure(p));
     }
   }
+  parts.push(cautionsPart(report));
   parts.push(sourcesSection(report));
   return { html: `<main class="lx-notebook">\n${parts.join("\n")}\n</main>`, problems };
 }

@@ -61,7 +61,36 @@ thead th { border-bottom: 2px solid var(--ink); }
 sup.lx-fn { font-size: 0.72em; margin-left: 0.15em; }
 sup.lx-fn a { text-decoration: none; }
 .lx-flag { color: var(--warn); font-weight: 700; margin-left: 0.2em; }
-.lx-table-block { overflow-x: auto; }
+.lx-scroll { overflow-x: auto; max-width: 100%; }
+.lx-scroll:focus-visible { outline: 2px solid var(--accent); outline-offset: 2px; }
+/* A fixed layout keeps a wide table under a result inside the page: its scroller scrolls. */
+table.lx-cells.lx-laid { table-layout: fixed; }
+table.lx-cells.lx-laid col.lx-col-name { width: 24%; }
+table.lx-cells.lx-laid col.lx-col-formula { width: 40%; }
+table.lx-cells.lx-laid td.lx-name { width: auto; white-space: normal; overflow-wrap: anywhere; }
+table.lx-cells.lx-laid td.lx-formula { width: auto; }
+.lx-cells tr.lx-below td { padding: 0 0.5rem 0.6rem 1.5rem; }
+.lx-cells tr.lx-cell:has(+ tr.lx-below) td { border-bottom: none; }
+.lx-headline.lx-fail { color: var(--bad); }
+table.lx-parts { width: auto; font-size: 0.88rem; margin: 0.1rem 0 0.2rem; }
+table.lx-parts th, table.lx-parts td { padding: 0.1rem 0.8rem 0.1rem 0; border-bottom: none;
+  font-weight: 400; }
+table.lx-parts th { color: var(--muted); white-space: nowrap; }
+table.lx-parts td { font-variant-numeric: tabular-nums; }
+table.lx-check { width: auto; font-size: 0.88rem; margin: 0.2rem 0; }
+table.lx-check th, table.lx-check td { padding: 0.15rem 0.6rem; white-space: nowrap;
+  vertical-align: baseline; }
+table.lx-check caption { caption-side: bottom; text-align: left; color: var(--muted);
+  font-size: 0.85em; padding-top: 0.2rem; }
+table.lx-check tbody th { font-weight: 400; white-space: normal; min-width: 9rem;
+  max-width: 15rem; }
+.lx-clause, .lx-remark { display: block; color: var(--muted); font-size: 0.85em; }
+td.lx-verdict strong { font-weight: 700; }
+td.lx-pass strong { color: var(--good); }
+td.lx-fail strong { color: var(--bad); }
+tr.lx-row-fail { background: var(--bad-bg); }
+.lx-table-foot { color: var(--muted); font-size: 0.85rem; margin: 0.2rem 0 0; }
+th.lx-computed, td.lx-computed { background: var(--band); }
 table.lx-data-table { width: auto; min-width: 50%; }
 table.lx-data-table th, table.lx-data-table td { padding: 0.2rem 0.6rem; white-space: nowrap; }
 td.lx-num, th.lx-num { text-align: right; font-variant-numeric: tabular-nums; }
@@ -74,14 +103,16 @@ figure.lx-plot svg { max-width: 100%; height: auto; display: block; font-family:
 figure.lx-plot figcaption { color: var(--muted); font-size: 0.88rem; }
 figure.lx-plot .lx-plot-title { font-weight: 600; color: var(--ink); margin-bottom: 0.3rem; }
 .lx-problem { border-left: 4px solid var(--bad); padding: 0.4rem 0.8rem; background: var(--bad-bg); }
-aside.lx-cautions {
+section.lx-cautions, aside.lx-cautions {
   background: var(--warn-bg); border-left: 4px solid var(--warn); padding: 0.6rem 1rem;
   margin: 1rem 0; font-size: 0.92rem; break-inside: avoid; page-break-inside: avoid;
 }
-aside.lx-cautions h2, aside.lx-cautions p.lx-cautions-title {
+section.lx-cautions h2, aside.lx-cautions h2, aside.lx-cautions p.lx-cautions-title {
   margin: 0 0 0.3rem; font-size: 1rem; color: var(--warn); font-weight: 700;
 }
-aside.lx-cautions ul { margin: 0; padding-left: 1.2rem; }
+section.lx-cautions ul, aside.lx-cautions ul { margin: 0; padding-left: 1.2rem; }
+.lx-cautions-at { margin: 0.4rem 0 0; color: var(--muted); }
+a.lx-flag { text-decoration: none; }
 section.lx-sources ol { padding-left: 1.6rem; }
 section.lx-sources li { margin-bottom: 0.35rem; }
 .lx-mark { display: inline-block; font-size: 0.78rem; padding: 0 0.4rem; margin-left: 0.3rem;
@@ -104,6 +135,12 @@ footer.lx-foot dd { margin: 0; overflow-wrap: anywhere; }
   .lx-cells { background: none; }
   details.lx-data { display: none; }
   figure.lx-plot svg { max-height: 110mm; width: auto; }
+  /* Wide tables print whole: no scrolling on paper, smaller type, cells may wrap. */
+  .lx-scroll { overflow: visible; }
+  table.lx-data-table, table.lx-check { font-size: 7.5pt; width: 100%; table-layout: auto; }
+  table.lx-data-table th, table.lx-data-table td, table.lx-check th, table.lx-check td {
+    white-space: normal; padding: 0.05rem 0.25rem; overflow-wrap: anywhere; }
+  table.lx-data-table { break-inside: auto; page-break-inside: auto; }
   footer.lx-foot { break-inside: avoid; }
 }
 `;

@@ -104,7 +104,7 @@ export const CLIENT_JS = String.raw`"use strict";
     remove.setAttribute("aria-label", "remove " + c.id);
     var tdName = el("td", "lx-name"); tdName.append(name);
     var tdFormula = el("td", "lx-formula"); tdFormula.append(input, el("span", "lx-note"));
-    var tdValue = el("td", "lx-value"); tdValue.append(el("output", "live-value"), el("div", "lx-error live-error"));
+    var tdValue = el("td", "lx-value"); tdValue.append(el("output", "live-value"), el("div", "live-below"), el("div", "lx-error live-error"));
     var tdTools = el("td", "live-tools"); tdTools.append(remove);
     row.append(tdName, tdFormula, tdValue, tdTools);
     fillCell(row, c, true);
@@ -121,24 +121,9 @@ export const CLIENT_JS = String.raw`"use strict";
     row.classList.toggle("live-carried", !!c.error && c.error.kind === "dependency");
     var out = row.querySelector("output");
     out.replaceChildren();
-    if (!c.error) {
-      out.append(document.createTextNode(c.display));
-      if (c.notes.length) {
-        var sup = el("sup", "lx-fn");
-        c.notes.forEach(function (n, i) {
-          if (i) sup.append(",");
-          var a = el("a", "", String(n));
-          a.href = "#src-" + n;
-          sup.append(a);
-        });
-        out.append(sup);
-      }
-      if (c.caution) {
-        var flag = el("span", "lx-flag", "\u26a0");
-        flag.title = "The cautions apply to this result";
-        out.append(flag);
-      }
-    }
+    // The server renders the value as the exported page does: headline, footnotes, caution marker.
+    out.innerHTML = c.error ? "" : c.html;
+    row.querySelector(".live-below").innerHTML = c.error ? "" : c.below;
     row.querySelector(".lx-note").textContent = c.note || "";
     row.querySelector(".live-error").textContent = c.error ? errorText(c.error) : "";
     if (!fresh) flash(row);
@@ -247,17 +232,14 @@ export const CLIENT_JS = String.raw`"use strict";
     sec.dataset.table = t.name;
     var cap = el("p", "lx-table-cap");
     cap.append(el("span", "lx-table-name", "table " + t.name));
-    var facts = [t.rows.length + " row" + (t.rows.length === 1 ? "" : "s") + " × " +
-      (t.columns.length + t.computed.length) + " columns"];
-    if (t.file) facts.push("from " + t.file);
-    cap.append(" · " + facts.join(" · "));
+    cap.append(" · " + t.footer);
     sec.append(cap);
     if (t.error) sec.append(el("p", "lx-problem lx-error", errorText(t.error)));
     if (t.locked) sec.append(el("p", "live-locked", "read only: " + t.locked));
     var grid = el("table", "lx-data-table live-grid");
     var head = el("tr");
     t.columns.forEach(function (c) { head.append(el("th", "", c.name + (c.spec ? " [" + c.spec + "]" : ""))); });
-    t.computed.forEach(function (c) { head.append(el("th", "live-computed", c.name)); });
+    t.computed.forEach(function (c) { head.append(el("th", "live-computed lx-computed", c.name + (c.unit ? " [" + c.unit + "]" : ""))); });
     var thead = el("thead");
     thead.append(head);
     var body = el("tbody");
@@ -302,7 +284,12 @@ export const CLIENT_JS = String.raw`"use strict";
       body.append(tr);
     });
     grid.append(thead, body);
-    sec.append(grid);
+    var scroll = el("div", "lx-scroll");
+    scroll.tabIndex = 0;
+    scroll.setAttribute("role", "region");
+    scroll.setAttribute("aria-label", "table " + t.name);
+    scroll.append(grid);
+    sec.append(scroll);
     if (t.editable) {
       var add = button("+ row", "add a row at the end", function () {
         var rows = cloneRows(view.tables[t.name]);
@@ -411,7 +398,7 @@ export const CLIENT_JS = String.raw`"use strict";
   }
 
   function renderFooter() {
-    var key = JSON.stringify([view.sources, view.cautions, view.problems]);
+    var key = JSON.stringify([view.sources, view.cautionsHtml, view.problems]);
     if (key === lastFooter) return;
     lastFooter = key;
     footer.replaceChildren();
@@ -420,14 +407,11 @@ export const CLIENT_JS = String.raw`"use strict";
       view.problems.forEach(function (p) { ul.append(el("li", "", p)); });
       footer.append(ul);
     }
-    if (view.cautions.length) {
-      var aside = el("aside", "lx-cautions");
-      aside.setAttribute("role", "note");
-      aside.append(el("p", "lx-cautions-title", "Cautions"));
-      var cl = el("ul");
-      view.cautions.forEach(function (c) { cl.append(el("li", "", c)); });
-      aside.append(cl);
-      footer.append(aside);
+    if (view.cautionsHtml) {
+      // One cautions section, rendered by the server as on the exported page.
+      var cautions = el("div", "live-cautions");
+      cautions.innerHTML = view.cautionsHtml;
+      footer.append(cautions);
     }
     var sec = el("section", "lx-sources");
     sec.id = "sources";
@@ -497,6 +481,7 @@ export const CLIENT_JS = String.raw`"use strict";
       });
       view.sources = p.sources;
       view.cautions = p.cautions;
+      view.cautionsHtml = p.cautionsHtml;
       view.problems = p.problems;
       renderFooter();
     }

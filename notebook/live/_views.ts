@@ -7,6 +7,10 @@
  */
 
 import { tableInfo } from "../../cells/table.ts";
+import type { CheckLine } from "../../cells/types.ts";
+import { type PartView, tableCellText, tableCounts } from "../../cells/present.ts";
+import { belowHtml, hasBelow, headlineHtml } from "../export/_results.ts";
+import { cautionsPart } from "../export/_sections.ts";
 import type { Notebook } from "../engine/engine.ts";
 import type { NotebookDoc, PlotBlock, TableBlock } from "../format/parse.ts";
 import { buildReport, type ReportSource } from "../report.ts";
@@ -41,6 +45,16 @@ export interface CellView {
   readonly input: boolean;
   /** Display text of the value ("" on error). */
   readonly display: string;
+  /** The line read first ("" on error). */
+  readonly headline: string;
+  /** Labelled parts, when the value has parts. */
+  readonly parts?: readonly PartView[];
+  /** Check lines, when the value is a check. */
+  readonly checks?: readonly CheckLine[];
+  /** Markup beside the cell: headline, footnotes, caution marker (as on the exported page). */
+  readonly html: string;
+  /** Markup under the headline: parts table, check table, table rows ("" when none). */
+  readonly below: string;
   /** Footnote numbers of its sources. */
   readonly notes: readonly number[];
   /** The cautions apply. */
@@ -71,8 +85,14 @@ export interface TableView {
   readonly columns: readonly { readonly name: string; readonly spec: string }[];
   /** Rows of cell text, as written. */
   readonly rows: readonly (readonly string[])[];
-  /** Computed columns: name and the display text of each row. */
-  readonly computed: readonly { readonly name: string; readonly values: readonly string[] }[];
+  /** Computed columns: name, unit and the display text of each row. */
+  readonly computed: readonly {
+    readonly name: string;
+    readonly unit: string;
+    readonly values: readonly string[];
+  }[];
+  /** The counts in words ("12 rows, 4 columns (3 from trials.csv, 1 computed)"). */
+  readonly footer: string;
   /** Table-level error. */
   readonly error?: ErrorView;
   /** Row problems. */
@@ -112,6 +132,8 @@ export interface PageView {
   readonly sources: readonly ReportSource[];
   /** Cautions, when they apply. */
   readonly cautions: readonly string[];
+  /** The one cautions section's markup, linking back to each result ("" when none). */
+  readonly cautionsHtml: string;
   /** Problems found while parsing (`LINE:COL: message`). */
   readonly problems: readonly string[];
 }
@@ -179,6 +201,11 @@ export function buildPageView(
       ...(c.note ? { note: c.note } : {}),
       input: c.input,
       display: c.error ? "" : c.display,
+      headline: c.error ? "" : c.headline,
+      ...(c.parts && !c.error ? { parts: c.parts } : {}),
+      ...(c.checks && !c.error ? { checks: c.checks } : {}),
+      html: c.error ? "" : headlineHtml(c),
+      below: c.error || !hasBelow(c) ? "" : belowHtml(c),
       notes: c.notes,
       caution: c.caution,
       ...(c.error ? { error: errorView(c.error) } : {}),
@@ -212,6 +239,7 @@ export function buildPageView(
     plots,
     sources: report.sources,
     cautions: report.cautions,
+    cautionsHtml: cautionsPart(report),
     problems: doc.diagnostics.map((d) => `${d.line}:${d.col}: ${d.message}`),
   };
 }
@@ -236,10 +264,9 @@ function tableView(
       problems.push({ row: lineToRow.get(d.line)!, message: d.message });
     }
   }
-  const computed: { name: string; values: string[] }[] = [];
+  const computed: { name: string; unit: string; values: string[] }[] = [];
   const info = r?.value ? tableInfo(r.value) : undefined;
   const dataNames = new Set(columns.map((c) => c.name));
-  const lang = nb.language;
   if (info && info.rowCount <= GRID_ROW_LIMIT) {
     const settings = JSON.stringify(nb.display);
     for (const col of info.columns) {
@@ -247,7 +274,7 @@ function tableView(
       // A column not recomputed since the last view is the same object: its texts are kept.
       const kept = shownColumns.get(col);
       if (kept && kept.settings === settings) {
-        computed.push({ name: col.name, values: kept.values });
+        computed.push({ name: col.name, unit: col.unit, values: kept.values });
         continue;
       }
       // Rows often repeat a value (powers in steps): each distinct number is described once.
@@ -257,16 +284,13 @@ function tableView(
         const v = col.data[i];
         let text = seen.get(v);
         if (text === undefined) {
-          const x = col.type === "quantity" && typeof v === "number"
-            ? lang.quantity(v, col.unit)
-            : v;
-          text = lang.describe(x, nb.display).display;
+          text = tableCellText(col, i, nb.display);
           if (typeof v !== "object" || v === null) seen.set(v, text);
         }
         values.push(text);
       }
       shownColumns.set(col, { settings, values });
-      computed.push({ name: col.name, values });
+      computed.push({ name: col.name, unit: col.unit, values });
     }
   }
   let locked: string | undefined;
@@ -282,6 +306,7 @@ function tableView(
     columns,
     rows: rows.slice(0, GRID_ROW_LIMIT).map((row) => row.cells),
     computed,
+    footer: info ? tableCounts(info) : `${rows.length.toLocaleString("en")} rows`,
     ...(r?.error ? { error: errorView(r.error) } : {}),
     problems,
   };

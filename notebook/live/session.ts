@@ -84,6 +84,8 @@ export interface Patch {
   readonly sources: PageView["sources"];
   /** Cautions. */
   readonly cautions: PageView["cautions"];
+  /** The one cautions section's markup. */
+  readonly cautionsHtml: PageView["cautionsHtml"];
   /** Parse problems. */
   readonly problems: PageView["problems"];
   /** Status after the operation. */
@@ -331,6 +333,7 @@ export class LiveSession {
     const common = {
       sources: after.sources,
       cautions: after.cautions,
+      cautionsHtml: after.cautionsHtml,
       problems: after.problems,
       status: this.status(),
     };

@@ -7,6 +7,7 @@
 import type { Command } from "../command.ts";
 import { Notebook } from "../../engine/engine.ts";
 import { buildReport } from "../../report.ts";
+import { resultBelow, terminalWidth, wrap } from "../_result_text.ts";
 
 /** The `eval` command. */
 export const evalCommand: Command = {
@@ -45,11 +46,20 @@ export const evalCommand: Command = {
           value: cell.value,
           unit: cell.unit,
           display: cell.display,
+          headline: cell.headline,
+          ...(cell.parts ? { parts: cell.parts } : {}),
+          ...(cell.checks ? { checks: cell.checks } : {}),
+          ...(cell.table ? { table: cell.table } : {}),
           sources: report.sources,
         }),
       );
     } else {
-      io.out(cell.display + (cell.notes.length ? `  [${cell.notes.join(", ")}]` : ""));
+      const width = terminalWidth();
+      const below = resultBelow(cell, width, 2);
+      const head = below.length ? cell.headline : cell.display;
+      const notes = cell.notes.length ? `  [${cell.notes.join(", ")}]` : "";
+      for (const l of wrap(head + notes, width)) io.out(l);
+      for (const l of below) io.out(l);
       for (const s of report.sources) {
         io.out(`  [${s.n}] ${s.citation}${s.mark ? ` (${s.mark})` : ""}`);
       }

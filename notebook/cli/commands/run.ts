@@ -10,6 +10,13 @@ import { buildReport, type Report } from "../../report.ts";
 import { openNotebook } from "./_open.ts";
 import { type Diagnostic, formatDiagnostic } from "../../format/diagnostic.ts";
 import type { Notebook } from "../../engine/engine.ts";
+import { DEFAULT_WIDTH, resultBelow, terminalWidth, wrap } from "../_result_text.ts";
+
+/** `lead` then `text`, wrapped to `width` with the continuation lines under the text. */
+function wrapAfter(lead: string, text: string, width: number): string[] {
+  const body = wrap(text, width - lead.length);
+  return body.map((l, i) => (i ? " ".repeat(lead.length) : lead) + l);
+}
 
 /**
  * The problems `check` reports that no cell shows as its own error (an unterminated block, a
@@ -34,21 +41,30 @@ function otherProblems(nb: Notebook, report: Report): Diagnostic[] {
  * text.includes("x = 2.00 mm"); // true
  * ```
  */
-export function renderReportText(report: Report, title: string): string {
+export function renderReportText(
+  report: Report,
+  title: string,
+  width: number = DEFAULT_WIDTH,
+): string {
   const lines: string[] = [title, ""];
-  const width = Math.min(24, report.cells.reduce((w, c) => Math.max(w, c.id.length), 4));
+  const nameWidth = Math.min(24, report.cells.reduce((w, c) => Math.max(w, c.id.length), 4));
   for (const c of report.cells) {
     const notes = c.notes.length ? `  [${c.notes.join(", ")}]` : "";
     const note = c.note ? `  # ${c.note}` : "";
+    const lead = `${c.id.padEnd(nameWidth)} `;
     if (c.error) {
       lines.push(
-        `${
-          c.id.padEnd(width)
-        } ! ${c.error.message}  (${c.error.file}:${c.error.line}:${c.error.col})`,
+        ...wrap(
+          `${lead}! ${c.error.message}  (${c.error.file}:${c.error.line}:${c.error.col})`,
+          width,
+        ),
       );
-    } else {
-      lines.push(`${c.id.padEnd(width)} = ${c.display}${notes}${note}`);
+      continue;
     }
+    const hasBelow = !!(c.parts?.length || c.checks?.length || c.table);
+    const head = hasBelow ? c.headline : c.display;
+    lines.push(...wrapAfter(`${lead}= `, `${head}${notes}${note}`.trim(), width));
+    if (hasBelow) lines.push(...resultBelow(c, width, nameWidth + 3));
   }
   if (report.sources.length) {
     lines.push("", "Sources");
@@ -93,6 +109,10 @@ export const runCommand: Command = {
         value: c.value,
         unit: c.unit,
         display: c.display,
+        headline: c.headline,
+        ...(c.parts ? { parts: c.parts } : {}),
+        ...(c.checks ? { checks: c.checks } : {}),
+        ...(c.table ? { table: c.table } : {}),
         sources: c.sources,
         caution: c.caution,
         line: c.line,
@@ -109,7 +129,7 @@ export const runCommand: Command = {
       const front = opened.doc.front;
       const title = [front.title ?? file, front.case ? `(case ${front.case})` : ""].filter(Boolean)
         .join(" ");
-      io.out(renderReportText(report, title));
+      io.out(renderReportText(report, title, terminalWidth()));
       if (problems.length) {
         io.out(["", "Problems", ...problems.map((d) => `  ${formatDiagnostic(d)}`)].join("\n"));
       }
