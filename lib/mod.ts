@@ -48,6 +48,7 @@ export * from "./errors.ts";
 export * from "./eyes.ts";
 export * from "./guessing.ts";
 export * from "./near.ts";
+export * from "./number_text.ts";
 export * from "./power_matrix.ts";
 export * from "./power_vector.ts";
 export * from "./prescription.ts";

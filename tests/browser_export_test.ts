@@ -100,7 +100,11 @@ browserTest(
         (as) => as.filter((a) => !document.querySelector(a.getAttribute("href")!)).length,
       );
       assert.equal(dangling, 0);
-      assert.ok(await page.locator("aside.lx-cautions").count() >= 1);
+      // The cautions are one section; each marker at a result links to it.
+      assert.equal(await page.locator("section.lx-cautions#cautions").count(), 1);
+      const marks = await page.$$eval("a.lx-flag", (as) => as.map((a) => a.getAttribute("href")));
+      assert.ok(marks.length >= 1);
+      assert.ok(marks.every((h) => h === "#cautions"));
       assert.equal(await page.locator("footer.lx-foot code.lx-sha").count(), 1);
       // No script ran and none could: the page has none, and JavaScript is on in this browser.
       assert.equal(await page.evaluate(() => document.scripts.length), 0);

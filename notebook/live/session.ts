@@ -395,7 +395,12 @@ export class LiveSession {
   /** A patch that changes nothing on the page (built without rendering it again). */
   #samePage(): Patch {
     const v = this.#view;
-    const common = { sources: v.sources, cautions: v.cautions, problems: v.problems };
+    const common = {
+      sources: v.sources,
+      cautions: v.cautions,
+      cautionsHtml: v.cautionsHtml,
+      problems: v.problems,
+    };
     return { cells: [], removed: [], tables: [], plots: [], ...common, status: this.status() };
   }
 
