@@ -23,13 +23,7 @@ import { CATALOGUE } from "./mod.ts";
 import { bindFormula } from "./_arguments.ts";
 import { NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
 import { provideInFormulas, refuseInFormulas } from "./_mathjs.ts";
-import {
-  formulaMath,
-  markExact,
-  quantity,
-  quantityParts,
-  toNumberIn,
-} from "./quantity.ts";
+import { formulaMath, markExact, quantity, quantityParts, toNumberIn } from "./quantity.ts";
 
 export { LENTIL_UNITS } from "./quantity.ts";
 export { FormulaArgumentError } from "./_arguments.ts";
