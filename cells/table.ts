@@ -41,6 +41,31 @@ export class Column {
   }
 }
 
+/**
+ * A column whose rows are held elsewhere (in a database that computed what the notebook
+ * shows): it knows its name, type, unit and row count, and holds no values.
+ *
+ * @example
+ * ```ts
+ * import { HeldColumn } from "./table.ts";
+ * new HeldColumn("M", "quantity", "D", 1_000_000).length; // 1000000
+ * ```
+ */
+export class HeldColumn extends Column {
+  /**
+   * @param name column name; @param type its type; @param unit its unit;
+   * @param rows rows held elsewhere.
+   */
+  constructor(name: string, type: string, unit: string, readonly rows: number) {
+    super(name, type, unit, type === "quantity" || type === "number" ? new Float64Array() : []);
+  }
+
+  /** Rows held elsewhere. */
+  override get length(): number {
+    return this.rows;
+  }
+}
+
 /** Metadata of a table value. */
 export interface TableInfo {
   /** Table name in the notebook. */

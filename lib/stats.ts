@@ -187,6 +187,38 @@ export class RunningMoments {
     this.#max = new Float64Array(k).fill(-Infinity);
   }
 
+  /**
+   * Running moments restored from totals computed elsewhere (for example by a database):
+   * `count` complete observations, `missing` left out, the means, the co-moments
+   * Σ(x_a − mean_a)(x_b − mean_b) as a k × k row-major array (sample covariance × (n − 1)),
+   * and the smallest and largest values. Source: welford-1962.
+   *
+   * @example
+   * ```ts
+   * import { RunningMoments } from "./stats.ts";
+   * const r = RunningMoments.fromTotals({ count: 3, missing: 0, mean: [2], co: [2], min: [1], max: [3] });
+   * r.sd(0); // 1
+   * ```
+   */
+  static fromTotals(t: {
+    readonly count: number;
+    readonly missing: number;
+    readonly mean: ArrayLike<number>;
+    readonly co: ArrayLike<number>;
+    readonly min: ArrayLike<number>;
+    readonly max: ArrayLike<number>;
+  }): RunningMoments {
+    const k = t.mean.length;
+    const r = new RunningMoments(k);
+    r.#n = t.count;
+    r.#missing = t.missing;
+    r.#mean.set(Array.from(t.mean));
+    r.#co.set(Array.from(t.co));
+    r.#min = Float64Array.from(t.min);
+    r.#max = Float64Array.from(t.max);
+    return r;
+  }
+
   /** Observations counted. */
   get count(): number {
     return this.#n;

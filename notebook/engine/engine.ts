@@ -135,6 +135,12 @@ export interface NotebookOptions {
    * table on such a line is an error rather than a value read from replaced characters.
    */
   readonly encoding?: readonly Diagnostic[];
+  /**
+   * Values computed outside the engine (by a database reading a large table), by node id:
+   * those cells and computed columns take the value given instead of being evaluated.
+   * @ignore
+   */
+  readonly given?: ReadonlyMap<string, unknown>;
 }
 
 /**
@@ -198,6 +204,7 @@ export class Notebook {
   readonly #lang: Language;
   readonly #host: TableHost;
   readonly #preloaded?: ReadonlyMap<string, PreparedTable>;
+  readonly #given?: ReadonlyMap<string, unknown>;
   readonly #encoding: ReadonlyMap<number, Diagnostic>;
   readonly #nodes = new Map<string, NodeDef>();
   readonly #state = new Map<string, NodeState>();
@@ -321,6 +328,7 @@ export class Notebook {
     this.doc = doc;
     this.#lang = options.language ?? getLanguage();
     this.#preloaded = options.tables;
+    this.#given = options.given;
     this.#encoding = new Map((options.encoding ?? []).map((d) => [d.line, d]));
     this.#staticDiagnostics.push(...(options.encoding ?? []));
     this.#host = options.host ?? {
@@ -669,6 +677,11 @@ export class Notebook {
       }
     }
     try {
+      if (n.kind !== "table" && this.#given?.has(id)) {
+        const value = this.#given.get(id);
+        if (n.kind === "column") addColumn(this.#scope.get(n.table!) as TableValue, value as Column);
+        return set({ value });
+      }
       if (n.kind === "table") {
         const b = n.built!;
         const o = n.block?.options;

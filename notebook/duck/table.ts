@@ -1,0 +1,457 @@
+/**
+ * A `file:` table of CSV or Parquet worked inside the embedded DuckDB: the file is read and
+ * checked there (the same bad-row rules as the in-process reader: numbers as the trade
+ * writes them, refraction ranges, ragged rows, the cylinder form of the first cylinder met),
+ * the computed columns and the statistics run as one SQL query over it, and only the
+ * statistics' totals, the row counts and the first problems come back.
+ *
+ * @module
+ */
+
+import { extname, join } from "node:path";
+import type { Language } from "../../cells/language.ts";
+import type { TableBlock } from "../format/parse.ts";
+import type { ColumnShape } from "../engine/_columns.ts";
+import {
+  type ColumnKind,
+  columnKind,
+  csvColumns,
+  openCsvTable,
+  REFRACTION_COLUMNS,
+  type TableProblem,
+} from "../engine/_tables.ts";
+import { quoteName } from "../sql/_names.ts";
+import { momentsFromRow, planTableWork, statisticQuery, type TableWork } from "../sql/work.ts";
+import type { NotebookDoc } from "../format/parse.ts";
+import type { DuckConnection } from "./_open.ts";
+
+/** What DuckDB gave back for a table. */
+export interface DuckTableResult {
+  /** The work that ran. */
+  readonly work: TableWork;
+  /** Data rows read (good and bad). */
+  readonly rowsRead: number;
+  /** Rows kept. */
+  readonly rowsKept: number;
+  /** Bad rows (excluded with `bad rows: skip`). */
+  readonly excluded: number;
+  /** The first problems (bad rows), positioned. */
+  readonly problems: readonly TableProblem[];
+  /** Notes: excluded rows, transposed rows. */
+  readonly notes: readonly string[];
+  /** Running moments of each statistic cell, by cell name. */
+  readonly moments: ReadonlyMap<string, ReturnType<typeof momentsFromRow>>;
+  /** Input columns with their kinds. */
+  readonly kinds: readonly { name: string; kind: ColumnKind }[];
+}
+
+/** A table that cannot be worked in DuckDB as a whole (the notebook falls back, or fails). */
+export class DuckTableError extends Error {
+  /** @param problem where and why; @param fallback true when the in-process path can run it. */
+  constructor(readonly problem: TableProblem, readonly fallback = false) {
+    super(problem.message);
+    this.name = "DuckTableError";
+  }
+}
+
+/** Whether a table file is Parquet (by its extension). */
+export function isParquet(path: string): boolean {
+  return /^\.(parquet|parq|pq)$/i.test(extname(path));
+}
+
+const NUMERIC_TYPES =
+  /^(DOUBLE|FLOAT|REAL|DECIMAL.*|TINYINT|SMALLINT|INTEGER|BIGINT|HUGEINT|UTINYINT|USMALLINT|UINTEGER|UBIGINT)$/;
+
+/** Header columns and kinds of a CSV table, read by the in-process reader (first rows only). */
+async function csvHeader(
+  block: TableBlock,
+  notebookFile: string,
+  path: string,
+  lang: Language,
+): Promise<{ names: string[]; kinds: ColumnKind[] }> {
+  const file = await Deno.open(path);
+  const opened = await openCsvTable(block, notebookFile, file.readable, lang, 2048);
+  if ("problem" in opened) throw new DuckTableError(opened.problem);
+  await opened.rest.return?.();
+  if (opened.start.problems.length) throw new DuckTableError(opened.start.problems[0]);
+  return {
+    names: opened.start.columns.map((c) => c.name),
+    kinds: [...opened.start.builder.kinds],
+  };
+}
+
+/** Header columns and kinds of a Parquet table: names by the header convention, types checked. */
+async function parquetHeader(
+  db: DuckConnection,
+  block: TableBlock,
+  notebookFile: string,
+  path: string,
+  rel: string,
+  lang: Language,
+): Promise<{ names: string[]; kinds: ColumnKind[]; sources: string[] }> {
+  const described = await db.rows("DESCRIBE SELECT * FROM read_parquet($1)", [path]);
+  const header = described.map((d) => String(d.column_name));
+  const { columns, problems } = csvColumns(header, block, notebookFile, rel);
+  if (problems.length) throw new DuckTableError(problems[0]);
+  const kinds = columns.map((c, i): ColumnKind => {
+    const type = String(described[i].column_type);
+    const numeric = NUMERIC_TYPES.test(type);
+    const k = columnKind(c.spec, lang);
+    if (typeof k === "string") {
+      throw new DuckTableError({
+        file: rel,
+        line: 1,
+        col: i + 1,
+        message: `column ${c.name}: ${k}`,
+      });
+    }
+    if (k.type === "infer") {
+      const rule = REFRACTION_COLUMNS[c.name.toLowerCase()];
+      if (rule) {
+        throw new DuckTableError({
+          file: rel,
+          line: 1,
+          col: i + 1,
+          message:
+            `column ${c.name}: a refraction column needs its unit: name it "${c.name} [${rule.unit}]" in the Parquet file, or declare it in the table block`,
+        });
+      }
+      return numeric ? { type: "number", unit: "" } : { type: "text" };
+    }
+    if ((k.type === "quantity" || k.type === "number") && !numeric) {
+      throw new DuckTableError({
+        file: rel,
+        line: 1,
+        col: i + 1,
+        message:
+          `column ${c.name}: the Parquet file stores ${type} values, the notebook expects numbers${
+            k.unit ? ` in ${k.unit}` : ""
+          }`,
+      });
+    }
+    if (k.type === "value") {
+      throw new DuckTableError({
+        file: rel,
+        line: 1,
+        col: i + 1,
+        message: `column ${c.name}: [${k.name}] columns are read in-process`,
+      }, true);
+    }
+    return k;
+  });
+  return { names: columns.map((c) => c.name), kinds, sources: header };
+}
+
+/**
+ * Work a table block's file in DuckDB: plan the notebook's table work, read and check the
+ * file, run every statistic in one scan. Paths are bound as parameters; names are quoted.
+ *
+ * @example
+ * ```ts ignore
+ * const db = await openDuck(".");
+ * const r = await workTableInDuck(db, doc, doc.tables[0], "study.lentil.md", ".", lang);
+ * ```
+ * @throws {DuckTableError} when the file cannot be read, or the work is not all in SQL
+ * (`fallback` true: the in-process path can run it).
+ */
+export async function workTableInDuck(
+  db: DuckConnection,
+  doc: NotebookDoc,
+  block: TableBlock,
+  notebookFile: string,
+  folder: string,
+  lang: Language,
+): Promise<DuckTableResult> {
+  const rel = block.options.file!.value;
+  const path = join(folder, rel);
+  const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase() === "skip";
+  const parquet = isParquet(rel);
+  const at = (message: string): TableProblem => ({ file: rel, line: 1, col: 1, message });
+  let header: { names: string[]; kinds: ColumnKind[]; sources?: string[] };
+  try {
+    header = parquet
+      ? await parquetHeader(db, block, notebookFile, path, rel, lang)
+      : await csvHeader(block, notebookFile, path, lang);
+  } catch (e) {
+    if (e instanceof DuckTableError) throw e;
+    if (e instanceof Deno.errors.NotFound) {
+      throw new DuckTableError(at(`cannot read table file "${rel}": no such file`));
+    }
+    throw new DuckTableError(at(`cannot read table file "${rel}": ${(e as Error).message}`));
+  }
+  const { names, kinds } = header;
+  if (kinds.some((k) => k.type === "value")) {
+    throw new DuckTableError(at("a column of values (such as [rx]) is read in-process"), true);
+  }
+  const inputs: ColumnShape[] = names.map((name, i) => {
+    const k = kinds[i];
+    const numeric = k.type === "quantity" || k.type === "number";
+    return {
+      name,
+      type: numeric ? k.type : "text",
+      unit: numeric ? (k as { unit: string }).unit : "",
+      numeric,
+    };
+  });
+  const params: (string | number)[] = [path];
+  const value = (x: number) => {
+    params.push(x);
+    return `CAST($${params.length} AS DOUBLE)`;
+  };
+  const work = planTableWork(doc, block, inputs, lang, value);
+  if (typeof work === "string") throw new DuckTableError(at(work), true);
+
+  // The file's rows: text trimmed, numbers read as the trade writes them, flags for bad cells.
+  const listed = names.map((n) => `'${quoteName(n).slice(1, -1)}'`).join(", ");
+  const reader = parquet
+    ? `(SELECT ${
+      header.sources!.map((s, i) => `"${s.replaceAll('"', '""')}" AS ${quoteName(names[i])}`).join(
+        ", ",
+      )
+    } FROM read_parquet($1))`
+    : `read_csv($1, header = false, skip = 1, names = [${listed}], delim = ',', quote = '"', escape = '"', all_varchar = true, ignore_errors = true, store_rejects = true, null_padding = false)`;
+  const select: string[] = [];
+  const flags: string[] = [];
+  const cellText: string[] = [];
+  names.forEach((n, i) => {
+    const q = quoteName(n);
+    const k = kinds[i];
+    if (k.type === "quantity" || k.type === "number") {
+      const v = parquet ? `CAST(${q} AS DOUBLE)` : `TRY_CAST(NULLIF(TRIM(${q}), '') AS DOUBLE)`;
+      select.push(`${v} AS ${q}`);
+      const bad = parquet
+        ? `(isnan(${v}))`
+        : `(TRIM(${q}) <> '' AND (${v} IS NULL OR isnan(${v}) OR isinf(${v})))`;
+      const rule = REFRACTION_COLUMNS[n.toLowerCase()];
+      const range = rule && k.type === "quantity" && k.unit === rule.unit
+        ? ` OR (${v} < ${value(rule.range[0])} OR ${v} > ${value(rule.range[1])})`
+        : "";
+      flags.push(`(${bad}${range})`);
+      cellText.push(parquet ? `CAST(${q} AS VARCHAR)` : `TRIM(${q})`);
+    } else {
+      select.push(parquet ? `CAST(${q} AS VARCHAR) AS ${q}` : `TRIM(${q}) AS ${q}`);
+    }
+  });
+  // The rows from the file, with per-column flags for the error report.
+  const numericIdx = kinds.map((k, i) => (k.type === "quantity" || k.type === "number") ? i : -1)
+    .filter((i) => i >= 0);
+  const rawFrom = `(SELECT * FROM ${reader}) AS raw`;
+  const rowSource = (() => {
+    // Re-derive values inside one SELECT over the raw rows so each row is read once.
+    const vals = names.map((n, i) => {
+      const q = quoteName(n);
+      const k = kinds[i];
+      if (k.type === "quantity" || k.type === "number") {
+        return parquet
+          ? `CAST(${q} AS DOUBLE) AS ${q}`
+          : `TRY_CAST(NULLIF(TRIM(${q}), '') AS DOUBLE) AS ${q}`;
+      }
+      return parquet ? `CAST(${q} AS VARCHAR) AS ${q}` : `TRIM(${q}) AS ${q}`;
+    });
+    return `(SELECT ${vals.join(", ")}, ${
+      flags.length ? flags.join(" OR ") : "false"
+    } AS bad_row FROM ${rawFrom}) AS checked`;
+  })();
+
+  // The cylinder form of the first cylinder met (rows in the other form are transposed).
+  const role = (r: string) =>
+    names.findIndex((n, i) =>
+      REFRACTION_COLUMNS[n.toLowerCase()]?.role === r && kinds[i].type === "quantity"
+    );
+  const [si, ci, ai] = [role("sph"), role("cyl"), role("axis")];
+  let first = 0;
+  const ordered: string[] = names.map(quoteName);
+  if (ci >= 0) {
+    const c = quoteName(names[ci]);
+    const r = await run(
+      db,
+      `SELECT SIGN(${c}) AS s FROM ${rowSource} WHERE NOT bad_row AND ${c} <> 0 AND NOT isinf(${c}) LIMIT 1`,
+      params,
+      rel,
+    );
+    first = r.length ? Number(r[0].s) : 0;
+    if (first !== 0 && si >= 0 && ai >= 0) {
+      const s = quoteName(names[si]);
+      const a = quoteName(names[ai]);
+      const other = `(SIGN(${c}) = ${value(-first)})`;
+      ordered[si] = `CASE WHEN ${other} THEN ${s} + ${c} ELSE ${s} END AS ${s}`;
+      ordered[ci] = `CASE WHEN ${other} THEN -${c} ELSE ${c} END AS ${c}`;
+      const turned = `CASE WHEN ${a} + ${value(90)} >= ${value(180)} THEN ${a} - ${
+        value(90)
+      } ELSE ${a} + ${value(90)} END`;
+      ordered[ai] = `CASE WHEN ${other} THEN (CASE WHEN ${turned} = ${value(0)} THEN ${
+        value(180)
+      } ELSE ${turned} END) ELSE ${a} END AS ${a}`;
+      ordered.push(`${other} AS turned_row`);
+    }
+  }
+  const turnedCol = ordered.some((o) => o.endsWith(" AS turned_row"));
+  let from = `(SELECT ${ordered.join(", ")}, bad_row FROM ${rowSource}) AS rows0`;
+  for (let s = 1; s <= work.sets; s++) {
+    const cols = work.columns.filter((c) => c.set === s);
+    from = `(SELECT *, ${
+      cols.map((c) => `${c.sql} AS ${quoteName(c.name)}`).join(", ")
+    } FROM ${from}) AS rows${s}`;
+  }
+  const aggregates = [
+    "COUNT(*) AS rows_read",
+    "COUNT(*) FILTER (WHERE bad_row) AS bad_rows",
+    turnedCol ? "COUNT(*) FILTER (WHERE turned_row AND NOT bad_row) AS turned" : "0 AS turned",
+  ];
+  work.statistics.forEach((st, si2) => {
+    const q = statisticQuery(st, "x");
+    // The statistic's select list, over the good rows of the shared scan.
+    const list = q.slice("SELECT ".length, q.indexOf("\nFROM"));
+    const vars = st.variables;
+    let expr = list;
+    vars.forEach((v, i) => {
+      expr = expr.replaceAll(new RegExp(`\\bv${i}\\b`, "g"), `(${v})`);
+    });
+    expr = expr.replaceAll("FILTER (WHERE ", "FILTER (WHERE NOT bad_row AND ");
+    expr = expr.replace(/ AS (\w+)/g, ` AS s${si2}_$1`);
+    aggregates.push(expr);
+  });
+  const main = `SELECT ${aggregates.join(", ")} FROM ${from}`;
+  const [row] = await run(db, main, params, rel);
+  const rowsGood = Number(row.rows_read);
+  let rejects: { line: number; message: string }[] = [];
+  let rejected = 0;
+  if (!parquet) {
+    const rj = await run(
+      db,
+      "SELECT line, error_message FROM reject_errors ORDER BY line LIMIT 1000",
+      [],
+      rel,
+    );
+    rejects = rj.map((r) => ({ line: Number(r.line), message: String(r.error_message) }));
+    rejected = Number((await run(db, "SELECT COUNT(*) AS n FROM reject_errors", [], rel))[0].n);
+  }
+  const badChecked = Number(row.bad_rows);
+  const excluded = badChecked + rejected;
+  const problems: TableProblem[] = [];
+  const lineOf = (r: number) => {
+    // Data row r (1-based among the rows DuckDB kept) to its file line, skipping rejected lines.
+    let line = r + 1;
+    for (const j of rejects) if (j.line <= line) line++;
+    return line;
+  };
+  for (const j of rejects.slice(0, 20)) {
+    const m = /Expected Number of Columns: (\d+) Found: (\d+)/.exec(j.message);
+    problems.push({
+      file: rel,
+      line: j.line,
+      col: 1,
+      message: m
+        ? `row has ${m[2]} field${m[2] === "1" ? "" : "s"}, the header has ${m[1]}`
+        : `the row cannot be read: ${j.message}`,
+    });
+  }
+  if (badChecked) {
+    const flagList = numericIdx.map((i, j) => `${flags[j]} AS f${j}, ${cellText[j]} AS t${j}`).join(
+      ", ",
+    );
+    const bad = await run(
+      db,
+      `SELECT * FROM (SELECT row_number() OVER () AS r, ${flagList} FROM ${rawFrom}) AS numbered WHERE ${
+        numericIdx.map((_, j) => `f${j}`).join(" OR ")
+      } ORDER BY r LIMIT 20`,
+      params,
+      rel,
+    );
+    for (const b of bad) {
+      const r = Number(b.r);
+      numericIdx.forEach((i, j) => {
+        if (b[`f${j}`] !== true) return;
+        const k = kinds[i] as { unit: string };
+        const text = String(b[`t${j}`] ?? "");
+        const x = Number(text);
+        const rule = REFRACTION_COLUMNS[names[i].toLowerCase()];
+        const message =
+          text !== "" && /^[+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?$/i.test(text) && rule &&
+            Number.isFinite(x)
+            ? `column ${names[i]}: ${text} ${k.unit} is outside the accepted range ${
+              rule.range[0]
+            } to ${rule.range[1]} ${k.unit}`
+            : `column ${names[i]}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`;
+        problems.push({
+          file: rel,
+          line: parquet ? r : lineOf(r),
+          col: i + 1,
+          row: r - 1,
+          message,
+        });
+      });
+    }
+    problems.sort((a, b) => a.line - b.line);
+  }
+  const notes: string[] = [];
+  const turned = Number(row.turned);
+  if (turned && ci >= 0) {
+    const form = first < 0 ? "minus" : "plus";
+    const other = first < 0 ? "plus" : "minus";
+    notes.push(
+      `table ${block.name}: column ${names[ci]} mixes cylinder signs; ${turned} row${
+        turned === 1 ? "" : "s"
+      } in ${other}-cylinder form ${
+        turned === 1 ? "was" : "were"
+      } transposed to ${form}-cylinder form, the form of the first cylinder met (the same lenses)`,
+    );
+  }
+  const rowsRead = rowsGood + rejected;
+  if (excluded && skip) {
+    notes.push(
+      `table ${block.name}: ${excluded} bad row${
+        excluded === 1 ? "" : "s"
+      } of ${rowsRead} excluded`,
+    );
+  }
+  const moments = new Map<string, ReturnType<typeof momentsFromRow>>();
+  work.statistics.forEach((st, i) =>
+    moments.set(st.cell, momentsFromRow(st.variables.length, row, `s${i}_`))
+  );
+  return {
+    work,
+    rowsRead,
+    rowsKept: rowsRead - excluded,
+    excluded,
+    problems,
+    notes,
+    moments,
+    kinds: names.map((name, i) => ({ name, kind: kinds[i] })),
+  };
+}
+
+/** Run a statement; a file that cannot be read (gone, unreadable) is a positioned problem. */
+async function run(
+  db: DuckConnection,
+  sql: string,
+  params: readonly (string | number)[],
+  rel: string,
+): Promise<Record<string, unknown>[]> {
+  try {
+    return await db.rows(sql, params.slice(0, maxParam(sql)));
+  } catch (e) {
+    const m = (e as Error).message;
+    if (/No files found|Cannot open file|No such file/i.test(m)) {
+      throw new DuckTableError({
+        file: rel,
+        line: 1,
+        col: 1,
+        message: `cannot read table file "${rel}": the file is gone or cannot be opened`,
+      });
+    }
+    throw new DuckTableError({
+      file: rel,
+      line: 1,
+      col: 1,
+      message: `table file "${rel}" cannot be read: ${m.split("\n")[0]}`,
+    });
+  }
+}
+
+/** The highest $n placeholder in a statement. */
+function maxParam(sql: string): number {
+  let max = 0;
+  for (const m of sql.matchAll(/\$(\d+)/g)) max = Math.max(max, Number(m[1]));
+  return max;
+}

@@ -1,0 +1,370 @@
+/**
+ * A notebook's work on one table, in SQL: its computed columns as expressions grouped in
+ * sets (a set reads only the table and earlier sets), and its statistics cells as aggregate
+ * queries over complete rows, whose totals (count, missing, means, co-moments, smallest and
+ * largest) finish into the same records the in-process statistics give.
+ *
+ * Statistics in SQL: `countOf`, `meanOf`, `sdOf`, `meanRx`, `vectorStats`, `ellipse95`,
+ * `spread95`, `agreement` and `rxAgreement` over the table's numeric columns. A notebook that
+ * reads the table any other way is not table work in SQL (the reason says where).
+ *
+ * @module
+ */
+
+import type { MathNode } from "mathjs";
+import type { Language } from "../../cells/language.ts";
+import { Column, makeTable } from "../../cells/table.ts";
+import { markExact } from "../../cells/quantity.ts";
+import {
+  agreementRecord,
+  ellipseRecord,
+  meanRxRecord,
+  vectorStatsRecord,
+} from "../../cells/stats.ts";
+import { agreementFrom } from "../../lib/agreement.ts";
+import { RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
+import type { NotebookDoc, TableBlock } from "../format/parse.ts";
+import { Notebook } from "../engine/engine.ts";
+import type { ColumnShape } from "../engine/_columns.ts";
+import { NotInSql, sqlExpression, type SqlValue, unitScale } from "./expression.ts";
+import { quoteName } from "./_names.ts";
+
+/** One computed column in SQL. */
+export interface SqlColumn {
+  /** Column name. */
+  readonly name: string;
+  /** Expression over the table and earlier sets. */
+  readonly sql: string;
+  /** Unit of its values ("" for plain numbers). */
+  readonly unit: string;
+  /** The set it belongs to (1 reads only the table). */
+  readonly set: number;
+  /** Line of the formula in the notebook. */
+  readonly line: number;
+}
+
+/** One statistics cell in SQL. */
+export interface SqlStatistic {
+  /** Cell name. */
+  readonly cell: string;
+  /** The statistics function. */
+  readonly fn: string;
+  /** Column arguments. */
+  readonly args: readonly string[];
+  /** Expressions of the variables observed together (over the last set). */
+  readonly variables: readonly string[];
+  /** Unit of the results of a one-column statistic or an agreement. */
+  readonly unit: string;
+  /** Line of the cell. */
+  readonly line: number;
+}
+
+/** A table's work in SQL. */
+export interface TableWork {
+  /** The table. */
+  readonly table: string;
+  /** Its input columns. */
+  readonly inputs: readonly ColumnShape[];
+  /** Computed columns, in evaluation order. */
+  readonly columns: readonly SqlColumn[];
+  /** Statistics cells, in document order. */
+  readonly statistics: readonly SqlStatistic[];
+  /** Number of computed-column sets. */
+  readonly sets: number;
+}
+
+/** Statistics that run as SQL. */
+export const SQL_STATISTICS: readonly string[] = [
+  "countOf",
+  "meanOf",
+  "sdOf",
+  "meanRx",
+  "vectorStats",
+  "ellipse95",
+  "spread95",
+  "agreement",
+  "rxAgreement",
+];
+
+function columnArgs(args: readonly MathNode[], table: string): string[] | undefined {
+  const names: string[] = [];
+  for (const a of args) {
+    const any = a as unknown as {
+      type: string;
+      object?: { type: string; name?: string };
+      index?: { dimensions: { value?: unknown }[]; isObjectProperty(): boolean };
+    };
+    if (
+      any.type !== "AccessorNode" || any.object?.type !== "SymbolNode" ||
+      any.object.name !== table || !any.index?.isObjectProperty()
+    ) return undefined;
+    names.push(String(any.index.dimensions[0].value));
+  }
+  return names;
+}
+
+function symbols(node: MathNode): Set<string> {
+  const out = new Set<string>();
+  node.traverse((n) => {
+    if (n.type === "SymbolNode") out.add((n as unknown as { name: string }).name);
+  });
+  return out;
+}
+
+/**
+ * Plan a table's work in SQL, or give the reason it is not all in SQL. `inputs` are the
+ * table's columns as read (names, types, units); `value` writes numbers into SQL.
+ *
+ * @example
+ * ```ts
+ * import { parseNotebook } from "../format/parse.ts";
+ * import { getLanguage } from "../../cells/language.ts";
+ * import { planTableWork } from "./work.ts";
+ * const doc = parseNotebook("~~~lentil table t\nfile: t.csv\n~~~\n~~~lentil\nt.M = sph + cyl / 2\nm = meanOf(t.M)\n~~~\n", "a.lentil.md");
+ * const shapes = ["sph", "cyl"].map((name) => ({ name, type: "quantity", unit: "D", numeric: true }));
+ * const w = planTableWork(doc, doc.tables[0], shapes, getLanguage(), String);
+ * typeof w === "string" ? w : w.statistics[0].fn; // "meanOf"
+ * ```
+ */
+export function planTableWork(
+  doc: NotebookDoc,
+  block: TableBlock,
+  inputs: readonly ColumnShape[],
+  lang: Language,
+  value: SqlValue,
+): TableWork | string {
+  const empty = inputs.map((s) =>
+    s.numeric
+      ? new Column(s.name, s.type, s.unit, new Float64Array())
+      : new Column(s.name, s.type, "", [])
+  );
+  const nb = new Notebook(doc, {
+    language: lang,
+    tables: new Map([[block.name, {
+      columns: inputs.map((s, i) => ({ name: s.name, spec: s.unit || s.type, col: i + 1 })),
+      built: {
+        value: makeTable(block.name, empty, { file: block.options.file?.value }),
+        problems: [],
+        notes: [],
+        excluded: 0,
+      },
+    }]]),
+  });
+  nb.evaluateAll();
+  const reads = (deps: readonly string[]) =>
+    deps.some((d) => d === block.name || d.startsWith(`${block.name}.`));
+  const scope = new Map<string, unknown>(Object.entries(lang.constants));
+  for (const r of nb.results()) {
+    if (r.kind === "cell" && r.value !== undefined && !reads(r.deps)) scope.set(r.name, r.value);
+  }
+  const shapes: ColumnShape[] = [...inputs];
+  const setOf = new Map<string, number>();
+  const columns: SqlColumn[] = [];
+  for (const id of nb.graph.order) {
+    const r = nb.result(id)!;
+    if (r.kind !== "column" || r.table !== block.name) continue;
+    const node = lang.parse(r.expression!);
+    let e;
+    try {
+      e = sqlExpression(node, shapes.filter((s) => s.name !== r.name), scope, lang, value);
+    } catch (err) {
+      if (err instanceof NotInSql) return `computed column ${block.name}.${r.name}: ${err.message}`;
+      throw err;
+    }
+    if (shapes.some((s) => s.name === r.name)) {
+      return `computed column ${block.name}.${r.name} replaces a column of the table`;
+    }
+    const set = 1 + Math.max(0, ...[...symbols(node)].map((n) => setOf.get(n) ?? 0));
+    setOf.set(r.name, set);
+    columns.push({ name: r.name, sql: e.sql, unit: e.unit, set, line: r.line });
+    shapes.push({
+      name: r.name,
+      type: e.unit ? "quantity" : "number",
+      unit: e.unit,
+      numeric: true,
+    });
+  }
+  const byName = new Map(shapes.map((s) => [s.name, s]));
+  const statistics: SqlStatistic[] = [];
+  for (const r of nb.results()) {
+    if (r.kind !== "cell" || !reads(r.deps)) continue;
+    const node = lang.parse(r.expression!) as unknown as {
+      type: string;
+      fn?: { type: string; name?: string };
+      args?: MathNode[];
+    };
+    const fn = node.type === "FunctionNode" && node.fn?.type === "SymbolNode" ? node.fn.name! : "";
+    const args = fn ? columnArgs(node.args!, block.name) : undefined;
+    const where = `cell ${r.name} (line ${r.line})`;
+    if (!SQL_STATISTICS.includes(fn) || !args) {
+      return `${where} reads table ${block.name} other than by one call of ${
+        SQL_STATISTICS.join(", ")
+      } over its columns`;
+    }
+    const stat = statisticVariables(fn, args, byName, lang, value);
+    if (typeof stat === "string") return `${where}: ${stat}`;
+    statistics.push({ cell: r.name, fn, args, ...stat, line: r.line });
+  }
+  const sets = Math.max(0, ...columns.map((c) => c.set));
+  return { table: block.name, inputs, columns, statistics, sets };
+}
+
+/** The variables a statistic observes together, as SQL over the table's columns. */
+function statisticVariables(
+  fn: string,
+  args: readonly string[],
+  shapes: ReadonlyMap<string, ColumnShape>,
+  lang: Language,
+  value: SqlValue,
+): { variables: string[]; unit: string } | string {
+  for (const a of args) {
+    const s = shapes.get(a);
+    if (!s) return `no column ${a}`;
+    if (!s.numeric) return `column ${a} holds ${s.type} values (not in SQL)`;
+  }
+  /** Column `a` in `unit` (of the same kind). */
+  const inUnit = (a: string, unit: string): string | undefined => {
+    const s = shapes.get(a)!;
+    if (!unit || s.type !== "quantity" || s.unit === unit) return quoteName(a);
+    const from = unitScale(lang, s.unit);
+    const to = unitScale(lang, unit);
+    if (!from || !to || from.base !== to.base) return undefined;
+    return `(${quoteName(a)} * ${value(from.scale / to.scale)})`;
+  };
+  const vectors = (sph: string, cyl: string, axis: string): string[] | string => {
+    const s = inUnit(sph, "D");
+    const c = inUnit(cyl, "D");
+    const x = inUnit(axis, "deg");
+    if (!s || !c || !x) return "sphere and cylinder in D, axis in deg";
+    const angle = `(${value(2)} * ${x} * ${value(Math.PI / 180)})`;
+    const half = `(${c} / ${value(2)})`;
+    return [`(${s} + ${half})`, `((-${half}) * COS(${angle}))`, `((-${half}) * SIN(${angle}))`];
+  };
+  switch (fn) {
+    case "countOf":
+    case "meanOf":
+    case "sdOf": {
+      if (args.length !== 1) return `${fn} takes one column`;
+      const s = shapes.get(args[0])!;
+      return { variables: [quoteName(args[0])], unit: s.type === "quantity" ? s.unit : "" };
+    }
+    case "meanRx":
+    case "vectorStats":
+    case "ellipse95":
+    case "spread95": {
+      if (args.length !== 3) return `${fn} in SQL takes sphere, cylinder and axis columns`;
+      const v = vectors(args[0], args[1], args[2]);
+      return typeof v === "string" ? v : { variables: v, unit: "D" };
+    }
+    case "agreement": {
+      if (args.length !== 2) return "agreement takes two columns";
+      const a = shapes.get(args[0])!;
+      const unit = a.type === "quantity" ? a.unit : "";
+      const b = inUnit(args[1], unit);
+      if (!b) return `columns ${args[0]} and ${args[1]} are of different kinds`;
+      return { variables: [`(${quoteName(args[0])} - ${b})`], unit };
+    }
+    case "rxAgreement": {
+      if (args.length !== 6) {
+        return "rxAgreement in SQL takes six columns (two sets of sphere, cylinder, axis)";
+      }
+      const a = vectors(args[0], args[1], args[2]);
+      const b = vectors(args[3], args[4], args[5]);
+      if (typeof a === "string") return a;
+      if (typeof b === "string") return b;
+      return { variables: a.map((x, i) => `(${x} - ${b[i]})`), unit: "D" };
+    }
+  }
+  return `${fn} is not in SQL`;
+}
+
+/** The aggregate query of a statistic over a row source: totals over complete rows. */
+export function statisticQuery(stat: SqlStatistic, from: string): string {
+  const k = stat.variables.length;
+  const v = (i: number) => `v${i}`;
+  const complete = stat.variables.map((_, i) => `${v(i)} IS NOT NULL`).join(" AND ");
+  const f = `FILTER (WHERE ${complete})`;
+  const parts = [`COUNT(*) ${f} AS n`, `COUNT(*) FILTER (WHERE TRUE) - COUNT(*) ${f} AS missing`];
+  for (let i = 0; i < k; i++) {
+    parts.push(`AVG(${v(i)}) ${f} AS mean_${i}`);
+    parts.push(`MIN(${v(i)}) ${f} AS min_${i}`, `MAX(${v(i)}) ${f} AS max_${i}`);
+    for (let j = i; j < k; j++) {
+      parts.push(
+        i === j
+          ? `VAR_SAMP(${v(i)}) ${f} AS cov_${i}_${j}`
+          : `COVAR_SAMP(${v(i)}, ${v(j)}) ${f} AS cov_${i}_${j}`,
+      );
+    }
+  }
+  const vars = stat.variables.map((x, i) => `${x} AS ${v(i)}`).join(", ");
+  return `SELECT ${parts.join(", ")}\nFROM (SELECT ${vars} FROM ${from}) AS observed`;
+}
+
+/** Totals of one statistic as read back from its query, by column name. */
+export type StatisticRow = Readonly<Record<string, unknown>>;
+
+const toNumber = (x: unknown): number =>
+  x === null || x === undefined ? NaN : typeof x === "bigint" ? Number(x) : Number(x);
+
+/** Running moments restored from a statistic's row (`prefix` for combined queries). */
+export function momentsFromRow(k: number, row: StatisticRow, prefix = ""): RunningMoments {
+  const n = toNumber(row[`${prefix}n`]);
+  const mean: number[] = [];
+  const min: number[] = [];
+  const max: number[] = [];
+  const co = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) {
+    mean.push(toNumber(row[`${prefix}mean_${i}`]));
+    min.push(toNumber(row[`${prefix}min_${i}`]));
+    max.push(toNumber(row[`${prefix}max_${i}`]));
+    for (let j = i; j < k; j++) {
+      const c = n > 1 ? toNumber(row[`${prefix}cov_${i}_${j}`]) * (n - 1) : 0;
+      co[i * k + j] = c;
+      co[j * k + i] = c;
+    }
+  }
+  return RunningMoments.fromTotals({
+    count: n,
+    missing: toNumber(row[`${prefix}missing`]),
+    mean,
+    co,
+    min,
+    max,
+  });
+}
+
+/**
+ * The value of a statistics cell from its running moments, as the in-process formula gives
+ * it (records for the vector statistics and the agreements; measures shown exactly).
+ */
+export function finishStatistic(
+  fn: string,
+  r: RunningMoments,
+  unit: string,
+  lang: Language,
+): unknown {
+  const q = (v: number, u: string) => (u ? markExact(lang.quantity(v + 0, u)) : v);
+  switch (fn) {
+    case "countOf":
+      return r.count;
+    case "meanOf":
+      return q(r.mean(0), unit);
+    case "sdOf":
+      return unit ? markExact(lang.quantity(r.sd(0), unit), { unsigned: true }) : r.sd(0);
+    case "meanRx":
+      return meanRxRecord(vectorSummaryFrom(r));
+    case "vectorStats":
+      return vectorStatsRecord(vectorSummaryFrom(r));
+    case "ellipse95":
+      return ellipseRecord(vectorSummaryFrom(r), "mean");
+    case "spread95":
+      return ellipseRecord(vectorSummaryFrom(r), "observations");
+    case "agreement":
+      return agreementRecord(agreementFrom(r, 0), unit);
+    case "rxAgreement": {
+      const part = (k: number) => agreementRecord(agreementFrom(r, k), "D");
+      return { n: r.count, M: part(0), J0: part(1), J45: part(2) };
+    }
+  }
+  throw new Error(`${fn} is not in SQL`);
+}
