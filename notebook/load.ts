@@ -14,9 +14,19 @@
 
 import { dirname } from "node:path";
 import { checkedTableFile, type TableFilePolicy } from "./engine/_table_file.ts";
-import { Notebook } from "./engine/engine.ts";
+import { Notebook, type PreparedTable } from "./engine/engine.ts";
+import { parseNotebook } from "./format/parse.ts";
 import { decodeNotebookLenient } from "./format/read.ts";
 import type { Diagnostic } from "./format/diagnostic.ts";
+
+/** How to load a notebook. */
+export interface LoadOptions extends TableFilePolicy {
+  /**
+   * Work large `file:` tables (Parquet, big CSV, or `engine: duckdb`) in the embedded
+   * database, bringing back only what the notebook shows (needs `--allow-ffi`).
+   */
+  readonly database?: boolean;
+}
 
 /** A loaded notebook, or the reason it could not be read at all. */
 export type LoadResult =
@@ -77,16 +87,27 @@ export async function readNotebookBytes(path: string): Promise<Uint8Array> {
 export async function notebookFromBytes(
   bytes: Uint8Array,
   path: string,
-  policy: TableFilePolicy = {},
+  options: LoadOptions = {},
 ): Promise<LoadResult> {
   const decoded = decodeNotebookLenient(bytes, path);
   const dir = dirname(path);
+  let prepared: { tables?: Map<string, PreparedTable>; given?: Map<string, unknown> } = {};
+  if (options.database) {
+    const doc = parseNotebook(decoded.text, path);
+    if (doc.tables.some((t) => t.options.file)) {
+      // Loaded only when a notebook reads a table from a file.
+      const duck = await import("./duck/load.ts");
+      const blocks = await duck.duckTables(doc, path);
+      if (blocks.length) prepared = await duck.prepareInDuck(doc, path, blocks, options);
+    }
+  }
   const notebook = await Notebook.load(decoded.text, path, {
+    ...prepared,
     encoding: decoded.diagnostics,
     host: {
       // Only regular files in the notebook's folder tree (no links, devices or pipes).
-      readText: (rel) => Deno.readTextFileSync(checkedTableFile(dir, rel, policy)),
-      open: (rel) => openStream(checkedTableFile(dir, rel, policy)),
+      readText: (rel) => Deno.readTextFileSync(checkedTableFile(dir, rel, options)),
+      open: (rel) => openStream(checkedTableFile(dir, rel, options)),
     },
   });
   return { ok: true, notebook, bytes };
@@ -109,9 +130,6 @@ function openStream(path: string): AsyncIterable<Uint8Array> {
  * ```
  * @throws {NotebookFileError} when the file cannot be read.
  */
-export async function loadNotebook(
-  path: string,
-  policy: TableFilePolicy = {},
-): Promise<LoadResult> {
-  return notebookFromBytes(await readNotebookBytes(path), path, policy);
+export async function loadNotebook(path: string, options: LoadOptions = {}): Promise<LoadResult> {
+  return notebookFromBytes(await readNotebookBytes(path), path, options);
 }

@@ -21,7 +21,7 @@ import {
   type TableProblem,
 } from "../engine/_tables.ts";
 import { quoteName } from "../sql/_names.ts";
-import { momentsFromRow, planTableWork, statisticQuery, type TableWork } from "../sql/work.ts";
+import { momentsFromRow, planTableWork, statisticAggregates, type TableWork } from "../sql/work.ts";
 import type { NotebookDoc } from "../format/parse.ts";
 import type { DuckConnection } from "./_open.ts";
 
@@ -40,7 +40,7 @@ export interface DuckTableResult {
   /** Notes: excluded rows, transposed rows. */
   readonly notes: readonly string[];
   /** Running moments of each statistic cell, by cell name. */
-  readonly moments: ReadonlyMap<string, ReturnType<typeof momentsFromRow>>;
+  readonly moments: ReadonlyMap<string, ReturnType<typeof momentsFromRow>[]>;
   /** Input columns with their kinds. */
   readonly kinds: readonly { name: string; kind: ColumnKind }[];
 }
@@ -226,7 +226,7 @@ export async function workTableInDuck(
       const range = rule && k.type === "quantity" && k.unit === rule.unit
         ? ` OR (${v} < ${value(rule.range[0])} OR ${v} > ${value(rule.range[1])})`
         : "";
-      flags.push(`(${bad}${range})`);
+      flags.push(`COALESCE((${bad}${range}), FALSE)`);
       cellText.push(parquet ? `CAST(${q} AS VARCHAR)` : `TRIM(${q})`);
     } else {
       select.push(parquet ? `CAST(${q} AS VARCHAR) AS ${q}` : `TRIM(${q}) AS ${q}`);
@@ -298,18 +298,13 @@ export async function workTableInDuck(
     "COUNT(*) FILTER (WHERE bad_row) AS bad_rows",
     turnedCol ? "COUNT(*) FILTER (WHERE turned_row AND NOT bad_row) AS turned" : "0 AS turned",
   ];
-  work.statistics.forEach((st, si2) => {
-    const q = statisticQuery(st, "x");
-    // The statistic's select list, over the good rows of the shared scan.
-    const list = q.slice("SELECT ".length, q.indexOf("\nFROM"));
-    const vars = st.variables;
-    let expr = list;
-    vars.forEach((v, i) => {
-      expr = expr.replaceAll(new RegExp(`\\bv${i}\\b`, "g"), `(${v})`);
-    });
-    expr = expr.replaceAll("FILTER (WHERE ", "FILTER (WHERE NOT bad_row AND ");
-    expr = expr.replace(/ AS (\w+)/g, ` AS s${si2}_$1`);
-    aggregates.push(expr);
+  work.statistics.forEach((st, i) => {
+    const vars = st.variables.map((v) => `(${v})`);
+    if (st.separate) {
+      vars.forEach((v, k) =>
+        aggregates.push(...statisticAggregates([v], `s${i}_p${k}_`, "NOT bad_row"))
+      );
+    } else aggregates.push(...statisticAggregates(vars, `s${i}_`, "NOT bad_row"));
   });
   const main = `SELECT ${aggregates.join(", ")} FROM ${from}`;
   const [row] = await run(db, main, params, rel);
@@ -347,9 +342,10 @@ export async function workTableInDuck(
     });
   }
   if (badChecked) {
-    const flagList = numericIdx.map((i, j) => `${flags[j]} AS f${j}, ${cellText[j]} AS t${j}`).join(
-      ", ",
-    );
+    const flagList = numericIdx.map((_i, j) => `${flags[j]} AS f${j}, ${cellText[j]} AS t${j}`)
+      .join(
+        ", ",
+      );
     const bad = await run(
       db,
       `SELECT * FROM (SELECT row_number() OVER () AS r, ${flagList} FROM ${rawFrom}) AS numbered WHERE ${
@@ -405,9 +401,14 @@ export async function workTableInDuck(
       } of ${rowsRead} excluded`,
     );
   }
-  const moments = new Map<string, ReturnType<typeof momentsFromRow>>();
+  const moments = new Map<string, ReturnType<typeof momentsFromRow>[]>();
   work.statistics.forEach((st, i) =>
-    moments.set(st.cell, momentsFromRow(st.variables.length, row, `s${i}_`))
+    moments.set(
+      st.cell,
+      st.separate
+        ? st.variables.map((_, k) => momentsFromRow(1, row, `s${i}_p${k}_`))
+        : [momentsFromRow(st.variables.length, row, `s${i}_`)],
+    )
   );
   return {
     work,
@@ -429,7 +430,12 @@ async function run(
   rel: string,
 ): Promise<Record<string, unknown>[]> {
   try {
-    return await db.rows(sql, params.slice(0, maxParam(sql)));
+    const used = [...new Set([...sql.matchAll(/\$(\d+)/g)].map((m) => Number(m[1])))].sort((a, b) =>
+      a - b
+    );
+    const at = new Map(used.map((n, i) => [n, i + 1]));
+    const renumbered = sql.replace(/\$(\d+)/g, (_, n) => `$${at.get(Number(n))}`);
+    return await db.rows(renumbered, used.map((n) => params[n - 1]));
   } catch (e) {
     const m = (e as Error).message;
     if (/No files found|Cannot open file|No such file/i.test(m)) {
@@ -447,11 +453,4 @@ async function run(
       message: `table file "${rel}" cannot be read: ${m.split("\n")[0]}`,
     });
   }
-}
-
-/** The highest $n placeholder in a statement. */
-function maxParam(sql: string): number {
-  let max = 0;
-  for (const m of sql.matchAll(/\$(\d+)/g)) max = Math.max(max, Number(m[1]));
-  return max;
 }

@@ -679,7 +679,10 @@ export class Notebook {
     try {
       if (n.kind !== "table" && this.#given?.has(id)) {
         const value = this.#given.get(id);
-        if (n.kind === "column") addColumn(this.#scope.get(n.table!) as TableValue, value as Column);
+        if (value instanceof Error) throw value;
+        if (n.kind === "column") {
+          addColumn(this.#scope.get(n.table!) as TableValue, value as Column);
+        }
         return set({ value });
       }
       if (n.kind === "table") {

@@ -10,7 +10,7 @@ import type { Fenced } from "./_fence.ts";
 import { isBlankOrComment, type Line, optionValue, type ReadContext, splitRow } from "./_text.ts";
 
 /** The option keys a table block knows. */
-export const TABLE_OPTION_KEYS = ["file", "bad rows", "subject", "eye"] as const;
+export const TABLE_OPTION_KEYS = ["file", "bad rows", "subject", "eye", "engine"] as const;
 
 /**
  * Read a table block: its name (claimed), options, header and rows; a row with another

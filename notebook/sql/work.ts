@@ -55,6 +55,8 @@ export interface SqlStatistic {
   readonly variables: readonly string[];
   /** Unit of the results of a one-column statistic or an agreement. */
   readonly unit: string;
+  /** True when each variable is summarised on its own rows (the three agreements of rxAgreement). */
+  readonly separate?: boolean;
   /** Line of the cell. */
   readonly line: number;
 }
@@ -216,7 +218,7 @@ function statisticVariables(
   shapes: ReadonlyMap<string, ColumnShape>,
   lang: Language,
   value: SqlValue,
-): { variables: string[]; unit: string } | string {
+): { variables: string[]; unit: string; separate?: boolean } | string {
   for (const a of args) {
     const s = shapes.get(a);
     if (!s) return `no column ${a}`;
@@ -272,32 +274,53 @@ function statisticVariables(
       const b = vectors(args[3], args[4], args[5]);
       if (typeof a === "string") return a;
       if (typeof b === "string") return b;
-      return { variables: a.map((x, i) => `(${x} - ${b[i]})`), unit: "D" };
+      return { variables: a.map((x, i) => `(${x} - ${b[i]})`), unit: "D", separate: true };
     }
   }
   return `${fn} is not in SQL`;
 }
 
-/** The aggregate query of a statistic over a row source: totals over complete rows. */
-export function statisticQuery(stat: SqlStatistic, from: string): string {
-  const k = stat.variables.length;
-  const v = (i: number) => `v${i}`;
-  const complete = stat.variables.map((_, i) => `${v(i)} IS NOT NULL`).join(" AND ");
-  const f = `FILTER (WHERE ${complete})`;
-  const parts = [`COUNT(*) ${f} AS n`, `COUNT(*) FILTER (WHERE TRUE) - COUNT(*) ${f} AS missing`];
+/**
+ * The aggregate list of a statistic: totals over complete rows (and rows passing `keep`),
+ * named with `prefix`, over its variables written as `vars[i]`.
+ */
+export function statisticAggregates(
+  vars: readonly string[],
+  prefix = "",
+  keep = "",
+): string[] {
+  const k = vars.length;
+  const complete = vars.map((v) => `${v} IS NOT NULL`).join(" AND ");
+  const rows = keep ? `FILTER (WHERE ${keep})` : "";
+  const f = `FILTER (WHERE ${keep ? `${keep} AND ` : ""}${complete})`;
+  const parts = [
+    `COUNT(*) ${f} AS ${prefix}n`,
+    `COUNT(*) ${rows} - COUNT(*) ${f} AS ${prefix}missing`,
+  ];
   for (let i = 0; i < k; i++) {
-    parts.push(`AVG(${v(i)}) ${f} AS mean_${i}`);
-    parts.push(`MIN(${v(i)}) ${f} AS min_${i}`, `MAX(${v(i)}) ${f} AS max_${i}`);
+    parts.push(`AVG(${vars[i]}) ${f} AS ${prefix}mean_${i}`);
+    parts.push(
+      `MIN(${vars[i]}) ${f} AS ${prefix}min_${i}`,
+      `MAX(${vars[i]}) ${f} AS ${prefix}max_${i}`,
+    );
     for (let j = i; j < k; j++) {
       parts.push(
         i === j
-          ? `VAR_SAMP(${v(i)}) ${f} AS cov_${i}_${j}`
-          : `COVAR_SAMP(${v(i)}, ${v(j)}) ${f} AS cov_${i}_${j}`,
+          ? `VAR_SAMP(${vars[i]}) ${f} AS ${prefix}cov_${i}_${j}`
+          : `COVAR_SAMP(${vars[i]}, ${vars[j]}) ${f} AS ${prefix}cov_${i}_${j}`,
       );
     }
   }
-  const vars = stat.variables.map((x, i) => `${x} AS ${v(i)}`).join(", ");
-  return `SELECT ${parts.join(", ")}\nFROM (SELECT ${vars} FROM ${from}) AS observed`;
+  return parts;
+}
+
+/** The aggregate query of a statistic over a row source: totals over complete rows. */
+export function statisticQuery(stat: SqlStatistic, from: string): string {
+  const v = stat.variables.map((_, i) => `v${i}`);
+  const vars = stat.variables.map((x, i) => `${x} AS ${v[i]}`).join(",\n    ");
+  return `SELECT\n  ${
+    statisticAggregates(v).join(",\n  ")
+  }\nFROM (\n  SELECT\n    ${vars}\n  FROM ${from}\n) AS observed`;
 }
 
 /** Totals of one statistic as read back from its query, by column name. */
@@ -339,10 +362,11 @@ export function momentsFromRow(k: number, row: StatisticRow, prefix = ""): Runni
  */
 export function finishStatistic(
   fn: string,
-  r: RunningMoments,
+  rs: readonly RunningMoments[],
   unit: string,
   lang: Language,
 ): unknown {
+  const r = rs[0];
   const q = (v: number, u: string) => (u ? markExact(lang.quantity(v + 0, u)) : v);
   switch (fn) {
     case "countOf":
@@ -362,7 +386,8 @@ export function finishStatistic(
     case "agreement":
       return agreementRecord(agreementFrom(r, 0), unit);
     case "rxAgreement": {
-      const part = (k: number) => agreementRecord(agreementFrom(r, k), "D");
+      const part = (k: number) =>
+        agreementRecord(rs.length === 3 ? agreementFrom(rs[k], 0) : agreementFrom(r, k), "D");
       return { n: r.count, M: part(0), J0: part(1), J45: part(2) };
     }
   }

@@ -6,18 +6,17 @@
 
 import type { CliIo } from "../command.ts";
 import type { Notebook } from "../../engine/engine.ts";
-import { loadNotebook, NotebookFileError } from "../../load.ts";
-import type { TableFilePolicy } from "../../engine/_table_file.ts";
+import { loadNotebook, type LoadOptions, NotebookFileError } from "../../load.ts";
 import { formatDiagnostic } from "../../format/diagnostic.ts";
 
 /** Load `file`; on failure print a one-line message and return undefined. */
 export async function openNotebook(
   file: string,
   io: CliIo,
-  policy: TableFilePolicy = {},
+  options: LoadOptions = {},
 ): Promise<Notebook | undefined> {
   try {
-    const r = await loadNotebook(file, policy);
+    const r = await loadNotebook(file, options);
     if (!r.ok) {
       io.err(formatDiagnostic(r.diagnostic));
       return undefined;

@@ -98,7 +98,10 @@ export const runCommand: Command = {
   },
   positionals: [1, 1],
   async run([file], options, io) {
-    const opened = await openNotebook(file, io, { followLinks: !!options["follow-links"] });
+    const opened = await openNotebook(file, io, {
+      followLinks: !!options["follow-links"],
+      database: true,
+    });
     if (!opened) return 1;
     const report = buildReport(opened);
     const problems = otherProblems(opened, report);

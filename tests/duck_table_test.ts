@@ -1,0 +1,216 @@
+import assert from "node:assert/strict";
+import { join } from "node:path";
+import { DuckDBInstance } from "@duckdb/node-api";
+import { loadNotebook } from "../notebook/load.ts";
+import { buildReport } from "../notebook/report.ts";
+import { openDuck } from "../notebook/duck/_open.ts";
+import { quoteName, SqlNameError } from "../notebook/sql/_names.ts";
+
+/** A seeded generator (mulberry32, common practice, no source) for invented refractions. */
+function rng(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function csv(n: number, opts: { mixed?: boolean; gaps?: boolean } = {}): string {
+  const r = rng(7);
+  const q = (x: number) => Math.round(x * 4) / 4;
+  const lines = [
+    "subject [text],age [number],sph [D],cyl [D],axis [deg],sph2 [D],cyl2 [D],axis2 [deg]",
+  ];
+  for (let i = 0; i < n; i++) {
+    const s = q(-6 + 9 * r());
+    let c = -q(3 * r());
+    const a = 1 + Math.floor(179 * r());
+    if (opts.mixed && i % 17 === 5 && c !== 0) c = -c;
+    const gap = opts.gaps && i % 23 === 3;
+    lines.push(
+      `P${String(i).padStart(5, "0")},${20 + (i % 60)},${gap ? "" : s},${c},${a},${
+        q(s + 0.5 * r())
+      },${-q(3 * r())},${1 + Math.floor(179 * r())}`,
+    );
+  }
+  return lines.join("\n") + "\n";
+}
+
+const CELLS = [
+  "shift = 0.25 D",
+  "eyes.M = sph + cyl / 2 + shift",
+  "eyes.J0 = vectorJ0(cyl, axis)",
+  "eyes.M2 = vectorM(sph2, cyl2)",
+  "eyes.d = (M - M2) * 2",
+  "n = countOf(eyes.sph)",
+  "avgM = meanOf(eyes.M)",
+  "sdM = sdOf(eyes.M)",
+  "avg = meanRx(eyes.sph, eyes.cyl, eyes.axis)",
+  "vs = vectorStats(eyes.sph, eyes.cyl, eyes.axis)",
+  "ell = ellipse95(eyes.sph, eyes.cyl, eyes.axis)",
+  "sp = spread95(eyes.sph, eyes.cyl, eyes.axis)",
+  "ag = agreement(eyes.M, eyes.M2)",
+  "rag = rxAgreement(eyes.sph, eyes.cyl, eyes.axis, eyes.sph2, eyes.cyl2, eyes.axis2)",
+  "twice = n * 2",
+];
+
+function notebook(engine: string, extra = "", file = "eyes.csv"): string {
+  return `~~~lentil table eyes\nfile: ${file}\nengine: ${engine}\n${extra}~~~\n\n~~~lentil\n${
+    CELLS.join("\n")
+  }\n~~~\n`;
+}
+
+async function folder(files: Record<string, string>): Promise<string> {
+  const dir = await Deno.makeTempDir({ prefix: "lentil-duck-" });
+  for (const [k, v] of Object.entries(files)) await Deno.writeTextFile(join(dir, k), v);
+  return dir;
+}
+
+function closeDeep(a: unknown, b: unknown, path: string): void {
+  if (typeof b === "number") {
+    const x = a as number;
+    assert.ok(Math.abs(x - b) <= 1e-9 * Math.max(1, Math.abs(b)), `${path}: ${x} vs ${b}`);
+  } else if (Array.isArray(b) && b.length > 50) {
+    // a column's values stay in the database: only its shape is compared
+  } else if (b !== null && typeof b === "object") {
+    for (const k of Object.keys(b)) {
+      closeDeep(
+        (a as Record<string, unknown>)?.[k],
+        (b as Record<string, unknown>)[k],
+        `${path}.${k}`,
+      );
+    }
+  } else assert.equal(a, b, path);
+}
+
+async function both(files: Record<string, string>, extra = "") {
+  const dir = await folder({
+    ...files,
+    "d.lentil.md": notebook("duckdb", extra),
+    "p.lentil.md": notebook("in-process", extra),
+  });
+  const d = await loadNotebook(join(dir, "d.lentil.md"), { database: true });
+  const p = await loadNotebook(join(dir, "p.lentil.md"), { database: true });
+  assert.ok(d.ok && p.ok);
+  return { dir, d: buildReport(d.notebook), p: buildReport(p.notebook) };
+}
+
+Deno.test("DuckDB and the in-process path give the same statistics to 1e-9", async () => {
+  // Thibos et al. 1997 (power vectors) and Bland & Altman 1986 (limits): same formulas, two engines
+  const { d, p } = await both({ "eyes.csv": csv(20000, { mixed: true, gaps: true }) });
+  assert.deepEqual(d.cells.map((c) => c.id), p.cells.map((c) => c.id));
+  for (let i = 0; i < p.cells.length; i++) {
+    const a = d.cells[i];
+    const b = p.cells[i];
+    assert.equal(a.error?.message, b.error?.message, a.id);
+    if (a.kind === "column") assert.equal(a.display, b.display, a.id);
+    else closeDeep(a.value, b.value, a.id);
+  }
+  const n = p.cells.find((c) => c.id === "n")!;
+  assert.equal(n.value, 20000 - Math.ceil((20000 - 3) / 23)); // empty sphere cells left out
+});
+
+Deno.test("DuckDB: a unit column holding text stops the table naming file, line and column; skip counts it", async () => {
+  const data = csv(300).split("\n");
+  const f = data[42].split(",");
+  f[2] = "abc";
+  data[42] = f.join(","); // data row 42, line 43
+  const files = { "eyes.csv": data.join("\n") };
+  const { d, p } = await both(files);
+  const de = d.cells.find((c) => c.id === "eyes")!;
+  const pe = p.cells.find((c) => c.id === "eyes")!;
+  assert.match(de.error!.message, /column sph: "abc" is not a number \(in D\)/);
+  assert.equal(de.error!.file, "eyes.csv");
+  assert.equal(de.error!.line, 43);
+  assert.equal(pe.error!.line, 43);
+  const skip = await both(files, "bad rows: skip\n");
+  const t = skip.d.cells.find((c) => c.id === "eyes")!;
+  assert.match(t.display, /299 rows/);
+  assert.match(t.display, /1 (bad row|row) excluded|excluded/);
+  closeDeep(
+    skip.d.cells.find((c) => c.id === "vs")!.value,
+    skip.p.cells.find((c) => c.id === "vs")!.value,
+    "vs",
+  );
+});
+
+Deno.test("DuckDB: ragged rows are bad rows with their line; a declared column missing from the file is named", async () => {
+  const data = csv(100).split("\n");
+  data[10] += ",7";
+  const dir = await folder({
+    "eyes.csv": data.join("\n"),
+    "d.lentil.md": notebook("duckdb"),
+    "m.lentil.md": notebook("duckdb", "lens [D]\n"),
+  });
+  const r = await loadNotebook(join(dir, "d.lentil.md"), { database: true });
+  assert.ok(r.ok);
+  const e = buildReport(r.notebook).cells.find((c) => c.id === "eyes")!;
+  assert.match(e.error!.message, /row has 9 fields, the header has 8/);
+  assert.equal(e.error!.line, 11);
+  const m = await loadNotebook(join(dir, "m.lentil.md"), { database: true });
+  assert.ok(m.ok);
+  const me = buildReport(m.notebook).cells.find((c) => c.id === "eyes")!;
+  assert.match(me.error!.message, /column lens is declared but eyes.csv has no such column/);
+});
+
+Deno.test("DuckDB: a Parquet file is read; one with text where numbers are expected is refused by column", async () => {
+  const dir = await folder({ "eyes.csv": csv(500) });
+  const db = await (await DuckDBInstance.create(":memory:")).connect();
+  const src = join(dir, "eyes.csv").replaceAll("'", "''");
+  await db.run(
+    `COPY (SELECT * FROM read_csv('${src}', header = true)) TO '${
+      join(dir, "eyes.parquet").replaceAll("'", "''")
+    }' (FORMAT parquet)`,
+  );
+  await db.run(
+    `COPY (SELECT "subject [text]" AS "sph [D]", 1.0 AS "cyl [D]", 90.0 AS "axis [deg]" FROM read_csv('${src}', header = true)) TO '${
+      join(dir, "bad.parquet").replaceAll("'", "''")
+    }' (FORMAT parquet)`,
+  );
+  db.closeSync();
+  await Deno.writeTextFile(join(dir, "q.lentil.md"), notebook("auto", "", "eyes.parquet"));
+  await Deno.writeTextFile(join(dir, "p.lentil.md"), notebook("in-process"));
+  const q = await loadNotebook(join(dir, "q.lentil.md"), { database: true });
+  const p = await loadNotebook(join(dir, "p.lentil.md"), { database: true });
+  assert.ok(q.ok && p.ok);
+  const qr = buildReport(q.notebook);
+  const pr = buildReport(p.notebook);
+  for (const id of ["n", "vs", "rag"]) {
+    closeDeep(
+      qr.cells.find((c) => c.id === id)!.value,
+      pr.cells.find((c) => c.id === id)!.value,
+      id,
+    );
+  }
+  await Deno.writeTextFile(
+    join(dir, "b.lentil.md"),
+    "~~~lentil table t\nfile: bad.parquet\n~~~\n\n~~~lentil\nm = meanOf(t.sph)\n~~~\n",
+  );
+  const b = await loadNotebook(join(dir, "b.lentil.md"), { database: true });
+  assert.ok(b.ok);
+  const be = buildReport(b.notebook).cells.find((c) => c.id === "t")!;
+  assert.match(
+    be.error!.message,
+    /column sph: the Parquet file stores VARCHAR values, the notebook expects numbers in D/,
+  );
+});
+
+Deno.test("DuckDB: a file that is gone is named; the database reads nothing outside the notebook's folder", async () => {
+  const dir = await folder({ "d.lentil.md": notebook("duckdb") });
+  const r = await loadNotebook(join(dir, "d.lentil.md"), { database: true });
+  assert.ok(r.ok);
+  const e = buildReport(r.notebook).cells.find((c) => c.id === "eyes")!;
+  assert.match(e.error!.message, /eyes\.csv.*no such file/);
+  const db = await openDuck(dir);
+  await assert.rejects(
+    () => db.rows("SELECT * FROM read_csv('/etc/passwd')"),
+    /disabled by configuration/,
+  );
+  await assert.rejects(() => db.rows("SET enable_external_access = true"), /locked/);
+  db.close();
+  assert.throws(() => quoteName('x"; DROP TABLE t; --'), SqlNameError);
+  assert.equal(quoteName("sph2"), '"sph2"');
+});
