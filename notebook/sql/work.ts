@@ -122,7 +122,7 @@ function symbols(node: MathNode): Set<string> {
  * import { parseNotebook } from "../format/parse.ts";
  * import { getLanguage } from "../../cells/language.ts";
  * import { planTableWork } from "./work.ts";
- * const doc = parseNotebook("~~~lentil table t\nfile: t.csv\n~~~\n~~~lentil\nt.M = sph + cyl / 2\nm = meanOf(t.M)\n~~~\n", "a.lentil.md");
+ * const doc = parseNotebook("~~~lentil table t\nfile: t.csv\n~~~\n~~~lentil\nt.M = sph + cyl / 2\navg = meanOf(t.M)\n~~~\n", "a.lentil.md");
  * const shapes = ["sph", "cyl"].map((name) => ({ name, type: "quantity", unit: "D", numeric: true }));
  * const w = planTableWork(doc, doc.tables[0], shapes, getLanguage(), String);
  * typeof w === "string" ? w : w.statistics[0].fn; // "meanOf"
