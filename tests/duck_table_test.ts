@@ -214,3 +214,13 @@ Deno.test("DuckDB: a file that is gone is named; the database reads nothing outs
   assert.throws(() => quoteName('x"; DROP TABLE t; --'), SqlNameError);
   assert.equal(quoteName("sph2"), '"sph2"');
 });
+
+Deno.test("DuckDB: a file: table that is a symbolic link is refused as by the in-process reader", async () => {
+  const dir = await folder({ "d.lentil.md": notebook("duckdb") });
+  await Deno.symlink("/etc/passwd", join(dir, "eyes.csv"));
+  const r = await loadNotebook(join(dir, "d.lentil.md"), { database: true });
+  assert.ok(r.ok);
+  const e = buildReport(r.notebook).cells.find((c) => c.id === "eyes")!;
+  assert.match(e.error!.message, /cannot read table file "eyes.csv": .*link/);
+  assert.doesNotMatch(JSON.stringify(buildReport(r.notebook)), /root:/);
+});
