@@ -4,9 +4,12 @@
  * queries over complete rows, whose totals (count, missing, means, co-moments, smallest and
  * largest) finish into the same records the in-process statistics give.
  *
- * Statistics in SQL: `countOf`, `meanOf`, `sdOf`, `meanRx`, `vectorStats`, `ellipse95`,
- * `spread95`, `agreement` and `rxAgreement` over the table's numeric columns. A notebook that
- * reads the table any other way is not table work in SQL (the reason says where).
+ * Statistics in SQL: `countOf`, `meanOf`, `sdOf`, `meanRx` and `vectorStats` over the table's
+ * numeric columns, and `agreement` when the rows are independent eyes (the table names no
+ * subject and eye columns, and has none by those names). Statistics that need every value or
+ * the persons behind the eyes (ellipses and rxAgreement, with their medians and
+ * person-clustered errors) keep the in-process path. A notebook that reads the table any
+ * other way is not table work in SQL (the reason says where).
  *
  * @module
  */
@@ -15,12 +18,9 @@ import type { MathNode } from "mathjs";
 import type { Language } from "../../cells/language.ts";
 import { Column, makeTable } from "../../cells/table.ts";
 import { markExact } from "../../cells/quantity.ts";
-import {
-  agreementRecord,
-  ellipseRecord,
-  meanRxRecord,
-  vectorStatsRecord,
-} from "../../cells/stats.ts";
+import { agreementRecord, meanRxRecord, vectorStatsRecord } from "../../cells/stats.ts";
+import { INDEPENDENT_NOTE } from "../../cells/_eyes_context.ts";
+import { LentilInputError } from "../../lib/errors.ts";
 import { agreementFrom } from "../../lib/agreement.ts";
 import { RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
 import type { NotebookDoc, TableBlock } from "../format/parse.ts";
@@ -82,11 +82,12 @@ export const SQL_STATISTICS: readonly string[] = [
   "sdOf",
   "meanRx",
   "vectorStats",
-  "ellipse95",
-  "spread95",
   "agreement",
-  "rxAgreement",
 ];
+
+/** Column names by which the study statistics find persons and eyes (as `cells/_eyes_context.ts`). */
+const PERSON_NAMES = /^(subject|subjectid|subject_id|person|patient|participant)$/i;
+const EYE_NAMES = /^(eye|side)$/i;
 
 function columnArgs(args: readonly MathNode[], table: string): string[] | undefined {
   const names: string[] = [];
@@ -203,6 +204,16 @@ export function planTableWork(
         SQL_STATISTICS.join(", ")
       } over its columns`;
     }
+    if (
+      fn === "agreement" &&
+      (block.options.subject || block.options.eye || inputs.some((c) =>
+        PERSON_NAMES.test(c.name)
+      ) ||
+        inputs.some((c) => EYE_NAMES.test(c.name)))
+    ) {
+      return `${where}: agreement over the eyes of persons is computed in-process`;
+    }
+    if (node.args!.length !== args.length) return `${where}: settings are computed in-process`;
     const stat = statisticVariables(fn, args, byName, lang, value);
     if (typeof stat === "string") return `${where}: ${stat}`;
     statistics.push({ cell: r.name, fn, args, ...stat, line: r.line });
@@ -379,16 +390,12 @@ export function finishStatistic(
       return meanRxRecord(vectorSummaryFrom(r));
     case "vectorStats":
       return vectorStatsRecord(vectorSummaryFrom(r));
-    case "ellipse95":
-      return ellipseRecord(vectorSummaryFrom(r), "mean");
-    case "spread95":
-      return ellipseRecord(vectorSummaryFrom(r), "observations");
-    case "agreement":
-      return agreementRecord(agreementFrom(r, 0), unit);
-    case "rxAgreement": {
-      const part = (k: number) =>
-        agreementRecord(rs.length === 3 ? agreementFrom(rs[k], 0) : agreementFrom(r, k), "D");
-      return { n: r.count, M: part(0), J0: part(1), J45: part(2) };
+    case "agreement": {
+      const a = agreementFrom(r, 0);
+      if (a.n < 2) {
+        throw new LentilInputError(`agreement needs at least 2 complete pairs, got ${a.n}`);
+      }
+      return agreementRecord(a, unit, { eyes: INDEPENDENT_NOTE });
     }
   }
   throw new Error(`${fn} is not in SQL`);
