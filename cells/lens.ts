@@ -48,49 +48,57 @@ import {
 } from "../lib/tolerance.ts";
 import { REFERENCE_VALUES } from "../shared/constants.ts";
 
-/** Edge thickness where the frame is, as a value of the formula language. */
-export class FrameEdgesValue {
-  /** @param edges the estimate at the four edges of the frame. */
-  constructor(readonly edges: FrameEdges) {}
-}
-
 const mm = (v: number) => `${v.toFixed(2)} mm`;
 const edgeWords = (e: FrameEdges["thickest"]) =>
   `${mm(e.thickness)} at the ${e.edge} edge (${
     e.meridian === 180 ? "horizontal" : "vertical"
   } meridian, ${e.meridian}°)`;
 
-/** The `frameEdges` value type. */
-export const FRAME_EDGES_TYPE = defineValueType<FrameEdgesValue>({
+/** The fields of a `frameEdges` result: each edge's thickness, and the thickest with its meridian. */
+interface FrameEdgesRecord {
+  centre: unknown;
+  nasal: unknown;
+  temporal: unknown;
+  upper: unknown;
+  lower: unknown;
+  thickest: unknown;
+  thickestEdge: string;
+  thickestMeridian: unknown;
+  distances: string;
+}
+
+/** The `frameEdges` record: a plain record, so a later cell reads `edges.temporal`. */
+export const FRAME_EDGES_RECORD = defineRecordType<FrameEdgesRecord>({
   name: "frameEdges",
   summary: "edge thickness at the nasal, temporal, upper and lower edges of a frame",
-  is: (x): x is FrameEdgesValue => x instanceof FrameEdgesValue,
-  display: (v) =>
-    `thickest ${edgeWords(v.edges.thickest)}; centre ${mm(v.edges.centre)}, ${
-      v.edges.edges.map((e) => `${e.edge} ${mm(e.thickness)}`).join(", ")
-    }`,
-  headline: (v) => `thickest ${edgeWords(v.edges.thickest)}`,
-  parts: (v) => [
-    { key: "centre", label: "centre thickness", value: quantity(v.edges.centre, "mm") },
-    ...v.edges.edges.map((e) => ({
-      key: e.edge,
-      label: `${e.edge} edge, ${mm(e.distance)} from the optical centre`,
-      value: quantity(e.thickness, "mm"),
-    })),
-    {
-      key: "thickest",
-      label: "thickest edge",
-      value: quantity(v.edges.thickest.thickness, "mm"),
-      display: edgeWords(v.edges.thickest),
-    },
-    {
-      key: "thickestMeridian",
-      label: "meridian of the thickest edge",
-      value: quantity(v.edges.thickest.meridian, "deg"),
-    },
+  headline: (r) => `thickest edge ${describeValue(r.thickest).display}, ${r.thickestEdge}`,
+  parts: [
+    { key: "centre", label: "centre thickness" },
+    { key: "nasal", label: "nasal edge" },
+    { key: "temporal", label: "temporal edge" },
+    { key: "upper", label: "upper edge" },
+    { key: "lower", label: "lower edge" },
+    { key: "thickest", label: "thickest edge" },
+    { key: "thickestEdge", label: "where the thickest edge is" },
+    { key: "thickestMeridian", label: "meridian of the thickest edge" },
+    { key: "distances", label: "edges from the optical centre" },
   ],
-  json: (v) => v.edges,
 });
+
+function frameEdgesRecord(e: FrameEdges): FrameEdgesRecord {
+  const at = (edge: string) => quantity(e.edges.find((x) => x.edge === edge)!.thickness, "mm");
+  return FRAME_EDGES_RECORD.make({
+    centre: quantity(e.centre, "mm"),
+    nasal: at("nasal"),
+    temporal: at("temporal"),
+    upper: at("upper"),
+    lower: at("lower"),
+    thickest: quantity(e.thickest.thickness, "mm"),
+    thickestEdge: edgeWords(e.thickest).replace(/^\S+ mm at the /, ""),
+    thickestMeridian: quantity(e.thickest.meridian, "deg"),
+    distances: e.edges.map((x) => `${x.edge} ${mm(x.distance)}`).join(", "),
+  });
+}
 
 /** A verification result as a value of the formula language. */
 export class ToleranceReportValue {
@@ -466,7 +474,7 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     caution: true,
     example: 'frameEdges(rx("-4.00 / -2.00 x 90"), 1.6, 54 mm, 40 mm, 3 mm, 1.5 mm)',
     fn: (r, n, a, b, dec, t, f, dy) =>
-      new FrameEdgesValue(frameEdges(rxOf(r), {
+      frameEdgesRecord(frameEdges(rxOf(r), {
         index: n as number,
         boxA: a as number,
         boxB: b as number,

@@ -22,7 +22,7 @@
 
 import { checkFinite, checkRange, LentilInputError } from "./errors.ts";
 import { principalPowers, toPowerMatrix } from "./power_matrix.ts";
-import { formatPower } from "./_power_text.ts";
+import { numberInMessage } from "./number_text.ts";
 import type { SpheroCylinder } from "./spherocylinder.ts";
 
 /** Accepted refractive indices. */
@@ -48,11 +48,11 @@ export function surfaceSag(radiusMm: number, semiDiameterMm: number): number {
   const y = Math.abs(checkFinite("semi-diameter", semiDiameterMm));
   if (y > r) {
     throw new LentilInputError(
-      `semi-diameter ${y.toFixed(2)} mm is larger than the surface radius ${
-        r.toFixed(2)
-      } mm: the curve is too steep for this lens size (a diameter under ${
-        (2 * r).toFixed(1)
-      } mm, or a flatter curve, would fit)`,
+      `semi-diameter ${numberInMessage(y, "mm")} is larger than the surface radius ${
+        numberInMessage(r, "mm")
+      }: the curve is too steep for this lens size (a diameter under ${
+        numberInMessage(2 * r, "mm")
+      }, or a flatter curve, would fit)`,
     );
   }
   return r - Math.sqrt(r * r - y * y);
@@ -189,7 +189,7 @@ function checkSteepness(
   if (diameter <= limits.largestDiameter + 1e-9) return;
   // Suggestions stay inside the limits: the diameter down to 0.5 mm, curves to 0.25 D.
   const d = Math.floor(limits.largestDiameter * 2 - 1e-9) / 2;
-  const ways = [`a diameter of ${d.toFixed(1)} mm or less with this front curve`];
+  const ways = [`a diameter of ${numberInMessage(d, "mm")} or less with this front curve`];
   if (limits.frontCurves) {
     const [lo, hi] = limits.frontCurves;
     const clamp = Math.min(Math.max(frontCurve, lo), hi);
@@ -199,15 +199,15 @@ function checkSteepness(
     const suggested = step >= lo - 1e-9 && step <= hi + 1e-9 ? step : clamp;
     ways.push(
       `a ${suggested < frontCurve ? "flatter" : "steeper"} front curve of ${
-        formatPower(suggested)
-      } at this diameter (fits from ${formatPower(Math.ceil(lo * 100) / 100)} to ${
-        formatPower(Math.floor(hi * 100) / 100)
+        numberInMessage(suggested, "D")
+      } at this diameter (fits from ${numberInMessage(Math.ceil(lo * 100) / 100, "D")} to ${
+        numberInMessage(Math.floor(hi * 100) / 100, "D")
       })`,
     );
   }
   throw new LentilInputError(
-    `a surface is too steep for a ${diameter.toFixed(1)} mm lens (front curve ${
-      formatPower(frontCurve)
+    `a surface is too steep for a ${numberInMessage(diameter, "mm")} lens (front curve ${
+      numberInMessage(frontCurve, "D")
     }, index ${index}): try ${
       ways.join(", or ")
     }; a box-corner blank size is an upper bound, the frame's effective diameter gives a smaller one (blankSize)`,

@@ -157,7 +157,7 @@ Deno.test("a lens too steep for its size: the diameter or front curve that would
   }
   // every surface's semi-diameter at most its radius 1000·(n − 1)/|F| (Jalie, from memory):
   // the −14.00 D back reaches 2 · 500/14 = 71.4 mm; at 77.5 mm a front up to +2.90 D fits
-  assert.match(message, /diameter of 71\.0 mm or less/);
+  assert.match(message, /diameter of 71\.00 mm or less/);
   assert.match(message, /flatter front curve of \+2\.75 D/);
   assert.doesNotMatch(message, /\d\.\d{3,}/, "numbers by the display rules, not raw floats");
   const limits = steepnessLimits([-10], 4, 1.5, 77.5);
@@ -217,4 +217,28 @@ Deno.test("edge thickness where the frame is: four edges and the thickest with i
   assert.equal(plus.thinnest.edge, "temporal");
   near(plus.centre, 1 + sag(500 / 7, 27) - sag(500 / 4, 27));
   near(plus.edges.find((x) => x.edge === "lower")!.distance, 17);
+});
+
+Deno.test("frameEdges in the notebook: labelled parts a later cell reads", async () => {
+  const { getLanguage } = await import("../cells/language.ts");
+  const { present } = await import("../cells/present.ts");
+  const lang = getLanguage();
+  const run = (e: string) => lang.compile(lang.parse(e)).evaluate({ ...lang.constants });
+  const call = 'frameEdges(rx("-4.00 / -2.00 x 90"), 1.6, 54 mm, 40 mm, 3 mm, 1.5 mm)';
+  const shown = present(run(call));
+  assert.match(
+    shown.headline!,
+    /^thickest edge 6\.51 mm, temporal edge \(horizontal meridian, 180°\)/,
+  );
+  assert.deepEqual(shown.parts!.map((p) => p.label).slice(0, 5), [
+    "centre thickness",
+    "nasal edge",
+    "temporal edge",
+    "upper edge",
+    "lower edge",
+  ]);
+  assert.equal(lang.describe(run(`${call}.temporal`)).display, "6.51 mm");
+  assert.equal(lang.describe(run(`${call}.thickestMeridian`)).display, "180°");
+  assert.equal(lang.catalogue.formulas.get("frameEdges")?.caution, true);
+  assert.equal(lang.catalogue.formulas.get("blankSize")?.caution, true);
 });
