@@ -199,7 +199,7 @@ export function acuityFromCategory(
 }
 
 /** Height of a 1 M letter, mm: 5′ at 1 m (Sloan 1956). */
-export const M_UNIT_MM = 1000 * Math.tan((5 / 60) * Math.PI / 180);
+export const M_UNIT_MM: number = 1000 * Math.tan((5 / 60) * Math.PI / 180);
 
 /** Print size in N (points) that matches 1 M (N8 ≈ 1 M, from memory). */
 export const N_POINTS_PER_M = 8;
