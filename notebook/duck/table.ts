@@ -143,6 +143,62 @@ async function parquetHeader(
 }
 
 /**
+ * The input columns of a `file:` table (names, types, units) from its header, by the same
+ * rules as the readers: a CSV's first rows are read in-process; a Parquet file's schema is
+ * read through DuckDB (loaded only then).
+ *
+ * @example
+ * ```ts ignore
+ * const inputs = await tableInputs(doc.tables[0], "study.lentil.md", ".", lang);
+ * ```
+ * @throws {DuckTableError} when the header cannot be read.
+ */
+export async function tableInputs(
+  block: TableBlock,
+  notebookFile: string,
+  folder: string,
+  lang: Language,
+): Promise<ColumnShape[]> {
+  const rel = block.options.file!.value;
+  const path = join(folder, rel);
+  let header: { names: string[]; kinds: ColumnKind[] };
+  try {
+    if (isParquet(rel)) {
+      const { openDuck } = await import("./_open.ts");
+      const db = await openDuck(folder);
+      try {
+        header = await parquetHeader(db, block, notebookFile, path, rel, lang);
+      } finally {
+        db.close();
+      }
+    } else header = await csvHeader(block, notebookFile, path, lang);
+  } catch (e) {
+    if (e instanceof DuckTableError) throw e;
+    const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
+    throw new DuckTableError({
+      file: notebookFile,
+      line: block.options.file!.line,
+      col: block.options.file!.col,
+      message: `cannot read table file "${rel}": ${why}`,
+    });
+  }
+  return shapesOf(header.names, header.kinds);
+}
+
+function shapesOf(names: readonly string[], kinds: readonly ColumnKind[]): ColumnShape[] {
+  return names.map((name, i) => {
+    const k = kinds[i];
+    const numeric = k.type === "quantity" || k.type === "number";
+    return {
+      name,
+      type: numeric ? k.type : k.type === "value" ? k.name : "text",
+      unit: numeric ? (k as { unit: string }).unit : "",
+      numeric,
+    };
+  });
+}
+
+/**
  * Work a table block's file in DuckDB: plan the notebook's table work, read and check the
  * file, run every statistic in one scan. Paths are bound as parameters; names are quoted.
  *

@@ -13,6 +13,7 @@ import { liveCommand } from "./live.ts";
 import { exportCommand } from "./export.ts";
 import { formulasCommand } from "./formulas.ts";
 import { streamCommand } from "./stream.ts";
+import { sqlCommand } from "./sql.ts";
 
 /** The commands. */
 export const COMMANDS: readonly Command[] = [
@@ -24,4 +25,5 @@ export const COMMANDS: readonly Command[] = [
   liveCommand,
   formulasCommand,
   streamCommand,
+  sqlCommand,
 ];
