@@ -18,6 +18,7 @@ export type {
   Catalogue,
   ConstantSpec,
   FormulaSpec,
+  OptionSpec,
   ParamSpec,
   ReturnSpec,
 } from "./catalogue.ts";

@@ -48,9 +48,11 @@ import type { ExportedPage, PageOptions } from "./export/html.ts";
 export { Notebook } from "./engine/engine.ts";
 export type { CellError, CellResult, ErrorKind, NotebookOptions } from "./engine/engine.ts";
 export { loadNotebook, NotebookFileError, notebookFromBytes } from "./load.ts";
-export type { LoadResult } from "./load.ts";
+export type { LoadOptions, LoadResult } from "./load.ts";
 export { buildReport } from "./report.ts";
-export type { Report, ReportCell, ReportSource } from "./report.ts";
+export type { Report, ReportCell, ReportOptions, ReportSource } from "./report.ts";
+export type { PartView, TableShown } from "../cells/present.ts";
+export type { CheckLine, CheckVerdict, ValuePart } from "../cells/types.ts";
 export { parseNotebook } from "./format/parse.ts";
 export type {
   Block,
@@ -67,6 +69,7 @@ export type {
   TableBlock,
 } from "./format/parse.ts";
 export type { TableHost } from "./engine/_tables.ts";
+export type { TableFilePolicy } from "./engine/_table_file.ts";
 export type { DisplayOptions } from "../cells/types.ts";
 export type { SourceStatus } from "../shared/sources.ts";
 export { formatDiagnostic } from "./format/diagnostic.ts";
