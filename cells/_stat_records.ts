@@ -22,6 +22,12 @@ const STAT_RECORDS = new WeakMap<object, StatShape>();
 
 /** How one kind of statistics record reads: its headline and its display line. */
 interface StatShape {
+  /** Display of a part where the common rule is not enough (undefined: the common rule). */
+  readonly partDisplay?: (
+    key: string,
+    value: unknown,
+    options: DisplayOptions,
+  ) => string | undefined;
   /** Labels of this record's parts where they differ from the common ones. */
   readonly labels?: Readonly<Record<string, string>>;
   readonly headline?: (r: Record<string, unknown>, options: DisplayOptions) => string;
@@ -144,7 +150,8 @@ const statParts = (r: Record<string, unknown>, options: DisplayOptions): ValuePa
     key,
     label: STAT_RECORDS.get(r)?.labels?.[key] ?? partLabel(key),
     value,
-    display: showStat(key, value, options),
+    display: STAT_RECORDS.get(r)?.partDisplay?.(key, value, options) ??
+      showStat(key, value, options),
   }));
 
 const statDisplay = (r: Record<string, unknown>, options: DisplayOptions) =>

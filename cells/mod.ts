@@ -31,6 +31,8 @@ import { BLUR_FORMULAS } from "./blur.ts";
 import { ENDPOINT_FORMULAS } from "./endpoint.ts";
 import { STATS_FORMULAS } from "./stats.ts";
 import { STUDY_FORMULAS } from "./study.ts";
+import { RELIABILITY_FORMULAS } from "./reliability.ts";
+import { STUDY_TABLE_FORMULAS } from "./study_table.ts";
 import { PAIRING_FORMULAS } from "./pairing.ts";
 
 /** Every formula and constant, checked for duplicate names. */
@@ -46,6 +48,8 @@ export const CATALOGUE: Catalogue = buildCatalogue(
     ...PAIRING_FORMULAS,
     ...STATS_FORMULAS,
     ...STUDY_FORMULAS,
+    ...RELIABILITY_FORMULAS,
+    ...STUDY_TABLE_FORMULAS,
   ],
   [
     ...CORE_CONSTANTS,

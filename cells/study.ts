@@ -212,6 +212,74 @@ function meanCILine(r: Record<string, unknown>, options: DisplayOptions): string
   return out.join("; ");
 }
 
+/** A mean with its 95% t interval, both eyes of one person handled as the settings say. */
+export interface MeanInterval {
+  /** Values used. */
+  readonly n: number;
+  /** Persons, when standard errors came from persons. */
+  readonly subjects?: number;
+  /** Robust variance / naive variance, when standard errors came from persons. */
+  readonly designEffect?: number;
+  /** Mean, SD, standard error and the interval, in the column's unit. */
+  readonly mean: number;
+  /** SD of the values used. */
+  readonly sd: number;
+  /** Standard error of the mean. */
+  readonly se: number;
+  /** 95% interval, from. */
+  readonly from: number;
+  /** 95% interval, to. */
+  readonly to: number;
+  /** What was done with both eyes, in words. */
+  readonly note: string;
+  /** Set when eyes were taken as independent. */
+  readonly warning?: string;
+}
+
+/**
+ * The mean of a column with its 95% t interval: standard errors from persons by default
+ * when persons are found, else as the `eyes` setting says.
+ *
+ * @throws {LentilInputError} with fewer than two values (or persons).
+ */
+export function meanInterval(col: Column, settings: Record<string, unknown>): MeanInterval {
+  const ctx = eyeContext(col, settings);
+  const applied = applyEyes(ctx, [columnNumbers(col)], settings);
+  const said = { note: applied.note, ...(applied.warning ? { warning: applied.warning } : {}) };
+  if (applied.clusters) {
+    const m = clusteredMean(applied.clusters, applied.arrays[0]);
+    return {
+      n: m.n,
+      subjects: m.subjects,
+      designEffect: m.designEffect,
+      mean: m.mean,
+      sd: m.sd,
+      se: m.robustSE,
+      from: m.ci.lower,
+      to: m.ci.upper,
+      ...said,
+    };
+  }
+  const [x] = complete(applied.arrays);
+  const r = moments([x]);
+  const n = r.count;
+  if (n < 2) throw new LentilInputError(`a confidence interval needs at least 2 values, got ${n}`);
+  const se = r.sd(0) / Math.sqrt(n);
+  const t = tQuantile(0.975, n - 1);
+  return {
+    n,
+    mean: r.mean(0),
+    sd: r.sd(0),
+    se,
+    from: r.mean(0) - t * se,
+    to: r.mean(0) + t * se,
+    ...said,
+  };
+}
+
+/** The settings of the study statistics that handle both eyes. */
+export { EYE_SETTINGS, split as splitSettings };
+
 /** The study statistics formulas. */
 export const STUDY_FORMULAS: readonly FormulaSpec[] = [
   defineFormula({
@@ -230,42 +298,17 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
       const { cols, settings } = split("meanCI", args, EYE_SETTINGS);
       const col = cols[0];
       const unit = unitOf(col);
-      const ctx = eyeContext(col, settings);
-      const applied = applyEyes(ctx, [columnNumbers(col)], settings);
-      const extra: Record<string, unknown> = {};
-      let mean: number, sd: number, se: number, lo: number, hi: number, n: number;
-      if (applied.clusters) {
-        const m = clusteredMean(applied.clusters, applied.arrays[0]);
-        ({ mean, sd, n } = m);
-        se = m.robustSE;
-        lo = m.ci.lower;
-        hi = m.ci.upper;
-        extra.subjects = m.subjects;
-        extra.designEffect = m.designEffect;
-      } else {
-        const [x] = complete(applied.arrays);
-        const r = moments([x]);
-        n = r.count;
-        if (n < 2) {
-          throw new LentilInputError(`a confidence interval needs at least 2 values, got ${n}`);
-        }
-        mean = r.mean(0);
-        sd = r.sd(0);
-        se = sd / Math.sqrt(n);
-        const t = tQuantile(0.975, n - 1);
-        lo = mean - t * se;
-        hi = mean + t * se;
-      }
+      const m = meanInterval(col, settings);
       return statRecord({
-        n,
-        mean: qty(mean, unit),
-        sd: qty(sd, unit),
-        se: qty(se, unit),
-        from: qty(lo, unit),
-        to: qty(hi, unit),
-        ...extra,
-        eyes: applied.note,
-        ...(applied.warning ? { warning: applied.warning } : {}),
+        n: m.n,
+        mean: qty(m.mean, unit),
+        sd: qty(m.sd, unit),
+        se: qty(m.se, unit),
+        from: qty(m.from, unit),
+        to: qty(m.to, unit),
+        ...(m.subjects !== undefined ? { subjects: m.subjects, designEffect: m.designEffect } : {}),
+        eyes: m.note,
+        ...(m.warning ? { warning: m.warning } : {}),
       }, { display: meanCILine, headline: meanCILine });
     },
   }),
