@@ -19,7 +19,7 @@
 import { type Column, tableInfo, tableOfColumn, type TableValue } from "./table.ts";
 import { type EyePairing, eyePairing, oneEyeRows, personMeans, sideOf } from "../lib/eyes.ts";
 import { LentilInputError } from "../lib/errors.ts";
-import type { SettingSpec } from "./_settings.ts";
+import type { OptionSpec } from "./catalogue.ts";
 
 /** What to do with the two eyes of one person. */
 export type EyesChoice =
@@ -40,17 +40,28 @@ export const EYES_CHOICES: readonly EyesChoice[] = [
   "as independent",
 ];
 
-/** The settings every both-eyes-aware statistic takes. */
-export const EYE_SETTINGS: readonly SettingSpec[] = [
+/** The named options every both-eyes-aware statistic takes. */
+export const EYE_OPTIONS: readonly OptionSpec[] = [
   {
     name: "eyes",
+    type: "text",
+    choices: EYES_CHOICES,
+    default: "by person",
     doc:
       'what to do with both eyes of one person: "by person" (default: standard errors from persons), "right", "left", "random" (one eye each), "person mean", "as independent" (warned)',
-    choices: EYES_CHOICES,
   },
-  { name: "subject", doc: "the subject-key column, when the table does not name one" },
-  { name: "eye", doc: "the eye column (R or L), when the table does not name one" },
-  { name: "seed", doc: 'seed of the random choice of eye (with eyes: "random"; default 1)' },
+  {
+    name: "subject",
+    type: "any",
+    doc: "the subject-key column, when the table does not name one",
+  },
+  { name: "eye", type: "any", doc: "the eye column (R or L), when the table does not name one" },
+  {
+    name: "seed",
+    type: "integer",
+    default: 1,
+    doc: 'seed of the random choice of eye (with eyes: "random")',
+  },
 ];
 
 /** The persons behind a column of eyes, and how they were found. */
@@ -181,7 +192,7 @@ export function applyEyes(
 ): EyesApplied {
   const choice = (settings.eyes as EyesChoice | undefined) ?? "by person";
   if (!ctx) {
-    if (settings.eyes && settings.eyes !== "as independent") {
+    if (settings.eyes && settings.eyes !== "as independent" && settings.eyes !== "by person") {
       throw new LentilInputError(
         `eyes: "${settings.eyes}" needs the persons behind the rows: name a subject and an eye column (table lines subject: and eye:, or the settings subject and eye)`,
       );

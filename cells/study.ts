@@ -5,7 +5,7 @@
  * intervals of the bias and of both limits, proportional bias, repeated pairs and the
  * length of the power-vector difference.
  *
- * Each takes settings by name as its last argument; `eyes` chooses what to do when a
+ * Each takes named options in a record after its arguments; `eyes` chooses what to do when a
  * subject key and an eye column are found (see `_eyes_context.ts`), and the result says
  * what was done. A statistic computed on eyes as if independent carries a warning with the
  * fix.
@@ -21,7 +21,7 @@
  * @module
  */
 
-import { defineFormula, type FormulaSpec } from "./catalogue.ts";
+import { defineFormula, type FormulaSpec, type OptionSpec } from "./catalogue.ts";
 import type { Column } from "./table.ts";
 import {
   agreementRecord,
@@ -35,8 +35,7 @@ import {
   vectorsOf,
 } from "./stats.ts";
 import { joinShared, qty, showStat, statRecord } from "./_stat_records.ts";
-import { isSettings, readSettings, type SettingSpec } from "./_settings.ts";
-import { applyEyes, descriptiveNote, EYE_SETTINGS, eyeContext } from "./_eyes_context.ts";
+import { applyEyes, descriptiveNote, EYE_OPTIONS, eyeContext } from "./_eyes_context.ts";
 import type { DisplayOptions } from "./types.ts";
 import {
   agreementFrom,
@@ -50,33 +49,34 @@ import { RunningMoments } from "../lib/stats.ts";
 import { tQuantile } from "../lib/distributions.ts";
 import { LentilInputError } from "../lib/errors.ts";
 
-const METHOD: SettingSpec = {
+const METHOD: OptionSpec = {
   name: "method",
-  doc:
-    'how the ellipse is scaled: "hotelling" (default, exact for normal data at any n) or "chi-square" (the large-sample form)',
+  type: "text",
   choices: ["hotelling", "chi-square"],
+  default: "hotelling",
+  doc:
+    'how the ellipse is scaled: "hotelling" (default, exact for normal data at any n) or "chi-square" (the large-sample form, labelled)',
 };
 
-/** Split trailing settings from the column arguments. */
-function split(formula: string, args: unknown[], specs: readonly SettingSpec[]) {
-  const given = args.filter((x) => x !== undefined);
-  const last = given[given.length - 1];
-  const settings = isSettings(last) ? { ...readSettings(formula, last, specs) } : {};
-  for (const k of ["subject", "eye"]) {
-    if (settings[k] !== undefined) settings[k] = asColumn(settings[k], k);
-  }
-  const cols = (isSettings(last) ? given.slice(0, -1) : given).map((x, i) =>
+/**
+ * The columns and the named options of a call: the formula receives its parameters, then
+ * each option in declaration order.
+ */
+function split(args: unknown[], options: readonly OptionSpec[]) {
+  const k = options.length;
+  const values = args.slice(args.length - k);
+  const cols = args.slice(0, args.length - k).filter((x) => x !== undefined).map((x, i) =>
     asColumn(x, `argument ${i + 1}`)
   );
+  const settings: Record<string, unknown> = {};
+  options.forEach((o, i) => {
+    if (values[i] !== undefined) settings[o.name] = values[i];
+  });
+  for (const key of ["subject", "eye"]) {
+    if (settings[key] !== undefined) settings[key] = asColumn(settings[key], key);
+  }
   return { cols, settings };
 }
-
-const SETTINGS_PARAM = {
-  name: "settings",
-  type: "any",
-  optional: true,
-  doc: 'settings by name, e.g. {eyes: "right"}',
-} as const;
 
 function complete(arrays: Float64Array[]): Float64Array[] {
   const keep: number[] = [];
@@ -121,14 +121,15 @@ function fellowEyeParts(
 
 function ellipseFormula(region: "mean" | "observations"): FormulaSpec {
   const name = region === "mean" ? "ellipse95" : "spread95";
-  const specs = region === "mean" ? [...EYE_SETTINGS, METHOD] : [METHOD];
+  const specs = region === "mean" ? [...EYE_OPTIONS, METHOD] : [METHOD];
   return defineFormula({
     name,
     group: "study statistics",
     summary: region === "mean"
       ? "95% confidence ellipse of the mean (J0, J45) of refractions by Hotelling's T²; both eyes of one person handled as the eyes setting says (default: standard errors from persons)."
       : "Ellipse expected to hold 95% of the eyes' (J0, J45), by Hotelling's T² for a new eye (a description of all eyes).",
-    params: [...RX_PARAMS, SETTINGS_PARAM],
+    params: RX_PARAMS,
+    options: specs,
     returns: {
       type: "any",
       doc:
@@ -140,7 +141,7 @@ function ellipseFormula(region: "mean" | "observations"): FormulaSpec {
     example:
       `${name}([-1 D, -1.5 D, -2 D, -1 D], [-0.5 D, -0.75 D, -0.25 D, -1 D], [90 deg, 85 deg, 10 deg, 170 deg])`,
     fn: (...args) => {
-      const { cols, settings } = split(name, args, specs);
+      const { cols, settings } = split(args, specs);
       const method = (settings.method as EllipseMethod | undefined) ?? "hotelling";
       const v = refractionOf(cols);
       const xy = [v.j0, v.j45];
@@ -278,7 +279,9 @@ export function meanInterval(col: Column, settings: Record<string, unknown>): Me
 }
 
 /** The settings of the study statistics that handle both eyes. */
-export { EYE_SETTINGS, split as splitSettings };
+export { EYE_OPTIONS, split as splitOptions };
+
+const FELLOW_OPTIONS = EYE_OPTIONS.filter((o) => o.name === "subject" || o.name === "eye");
 
 /** The study statistics formulas. */
 export const STUDY_FORMULAS: readonly FormulaSpec[] = [
@@ -287,7 +290,8 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
     group: "study statistics",
     summary:
       "Mean of a numeric column with its 95% confidence interval by Student's t; both eyes of one person handled as the eyes setting says (default: standard errors from persons).",
-    params: [COL("column", "a numeric column"), SETTINGS_PARAM],
+    params: [COL("column", "a numeric column")],
+    options: EYE_OPTIONS,
     returns: {
       type: "any",
       doc: "mean, sd, standard error, 95% CI from and to, n, persons, what was done",
@@ -295,7 +299,7 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
     sources: ["murdoch-1998", "liang-zeger-1986", "ying-2017"],
     example: "meanCI([-1.25 D, -1.5 D, -1 D, -2 D])",
     fn: (...args) => {
-      const { cols, settings } = split("meanCI", args, EYE_SETTINGS);
+      const { cols, settings } = split(args, EYE_OPTIONS);
       const col = cols[0];
       const unit = unitOf(col);
       const m = meanInterval(col, settings);
@@ -317,19 +321,14 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
     group: "study statistics",
     summary:
       "Correlation between fellow eyes (Pearson's r of right against left over persons with both eyes), with the design effect 1 + r of a mean over both eyes.",
-    params: [COL("column", "a numeric column of a table with a subject key and an eye column"), {
-      name: "settings",
-      type: "any",
-      optional: true,
-      doc: "settings by name: subject and eye columns when the table does not name them",
-    }],
+    params: [COL("column", "a numeric column of a table with a subject key and an eye column")],
+    options: FELLOW_OPTIONS,
     returns: { type: "any", doc: "r, pairs of eyes, persons, design effect" },
     sources: ["murdoch-1998", "armstrong-2013", "ying-2017"],
     example:
       'fellowEyes([1, 1.2, 2, 2.1, 3, 2.7], {subject: ["a", "a", "b", "b", "c", "c"], eye: ["R", "L", "R", "L", "R", "L"]})',
     fn: (...args) => {
-      const specs = EYE_SETTINGS.filter((s) => s.name === "subject" || s.name === "eye");
-      const { cols, settings } = split("fellowEyes", args, specs);
+      const { cols, settings } = split(args, FELLOW_OPTIONS);
       const ctx = eyeContext(cols[0], settings);
       if (!ctx) {
         throw new LentilInputError(
@@ -361,8 +360,8 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
     params: [
       COL("a", "first method's column"),
       COL("b", "second method's column, same rows"),
-      SETTINGS_PARAM,
     ],
+    options: EYE_OPTIONS,
     returns: {
       type: "any",
       doc: "n, bias, sd, lower, upper (in a's unit), their 95% CIs, what was done",
@@ -370,7 +369,7 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
     sources: ["bland-altman-1986", "bland-altman-1999", "carkeet-2015"],
     example: "agreement([1, 2, 3.5, 2.5], [0.75, 2.25, 3, 2.5])",
     fn: (...args) => {
-      const { cols, settings } = split("agreement", args, EYE_SETTINGS);
+      const { cols, settings } = split(args, EYE_OPTIONS);
       if (cols.length !== 2) {
         throw new LentilInputError(`agreement takes two columns, got ${cols.length}`);
       }
@@ -398,8 +397,8 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
       COL("bSph", "second method's sphere column", true),
       COL("bCyl", "second method's cylinder column", true),
       COL("bAxis", "second method's axis column", true),
-      SETTINGS_PARAM,
     ],
+    options: EYE_OPTIONS,
     returns: {
       type: "any",
       doc:
@@ -409,7 +408,7 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
     example:
       'rxAgreement(["-1.00 / -0.50 x 90", "-2.00 DS", "+0.50 / -0.25 x 180"], ["-1.25 / -0.50 x 85", "-2.25 DS", "+0.50 DS"])',
     fn: (...args) => {
-      const { cols, settings } = split("rxAgreement", args, EYE_SETTINGS);
+      const { cols, settings } = split(args, EYE_OPTIONS);
       let ra, rb;
       if (cols.length === 2) {
         ra = vectorsOf(refractionArrays(cols[0]));

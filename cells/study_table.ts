@@ -21,7 +21,8 @@ import { Column, makeTable } from "./table.ts";
 import { columnNumbers, unitOf } from "./stats.ts";
 import { DEFAULT_DISPLAY } from "./types.ts";
 import { qty, showStat } from "./_stat_records.ts";
-import { EYE_SETTINGS, meanInterval, splitSettings } from "./study.ts";
+import { EYE_OPTIONS, meanInterval, splitOptions } from "./study.ts";
+import { COL } from "./stats.ts";
 import { sampleStats } from "../lib/stats.ts";
 import { LentilInputError } from "../lib/errors.ts";
 
@@ -39,16 +40,19 @@ export const STUDY_TABLE_FORMULAS: readonly FormulaSpec[] = [
     name: "studyTable",
     group: "study statistics",
     summary:
-      "A supplement-ready table, one row per measure: measure (unit) | n | persons | mean ± SD | 95% CI | median | range | both eyes; the CI counts persons when a subject key and an eye column are found (settings as for meanCI).",
+      "A supplement-ready table, one row per measure: measure (unit) | n | persons | mean ± SD | 95% CI | median | range | both eyes; the CI counts persons when a subject key and an eye column are found (options as for meanCI).",
     params: [
-      { name: "columns", type: "any", doc: "numeric columns, one per row of the table" },
+      COL("first", "the first measure, a numeric column"),
+      ...["second", "third", "fourth", "fifth", "sixth", "seventh", "eighth"].map((w) =>
+        COL(w, `the ${w} measure`, true)
+      ),
     ],
-    variadic: true,
+    options: EYE_OPTIONS,
     returns: { type: "table", doc: "the table: text columns as printed" },
     sources: ["welford-1962", "hyndman-fan-1996", "murdoch-1998", "liang-zeger-1986"],
     example: "studyTable([-1.25 D, -1.5 D, -1 D, -2 D], [0.1, 0.0, 0.2, 0.1])",
     fn: (...args) => {
-      const { cols, settings } = splitSettings("studyTable", args, EYE_SETTINGS);
+      const { cols, settings } = splitOptions(args, EYE_OPTIONS);
       if (!cols.length) throw new LentilInputError("studyTable: give at least one column");
       const out: Record<string, string[]> = {
         measure: [],

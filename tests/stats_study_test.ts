@@ -74,8 +74,8 @@ Deno.test("bad input: a clear message at the cell, never NaN", () => {
   const msg = (n: string) => nb.result(n)?.error?.message ?? "";
   assert.match(msg("x1"), /at least 2 values, got 1/);
   assert.match(msg("x2"), /both settings subject and eye/);
-  assert.match(msg("x3"), /eyes is one of "by person"/);
-  assert.match(msg("x4"), /no setting "colour" \(valid: eyes, subject, eye, seed\)/);
+  assert.match(msg("x3"), /"both" is not one of "by person", "right"/);
+  assert.match(msg("x4"), /no option "colour"; the options are eyes, subject, eye, seed/);
   assert.match(msg("x5"), /needs the persons behind the rows/);
   assert.match(msg("x6"), /too narrow/);
   assert.match(msg("x7"), /needs the persons behind the rows/);
