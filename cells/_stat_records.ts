@@ -151,19 +151,37 @@ const statParts = (r: Record<string, unknown>, options: DisplayOptions): ValuePa
     label: STAT_RECORDS.get(r)?.labels?.[key] ?? partLabel(key),
     value,
     display: STAT_RECORDS.get(r)?.partDisplay?.(key, value, options) ??
-      showStat(key, value, options),
+      plainFigure(key, value) ?? showStat(key, value, options),
   }));
 
 const statDisplay = (r: Record<string, unknown>, options: DisplayOptions) =>
   STAT_RECORDS.get(r)?.display?.(r, options) ??
     statParts(r, options).map((p) => `${p.label}: ${p.display}`).join(", ");
 
+/** The first figures of a record, for a headline when its kind declares none. */
+function shortLine(r: Record<string, unknown>, options: DisplayOptions): string {
+  return statParts(r, options)
+    .filter((p) => typeof p.value !== "string" && typeOfValue(p.value)?.name !== "statistics")
+    .slice(0, 3)
+    .map((p) => `${p.label} ${p.display}`)
+    .join(", ") || statDisplay(r, options);
+}
+
+/** A plain figure (a correlation, a ratio, a p-value) to the decimals it is read at. */
+export function plainFigure(key: string, v: unknown): string | undefined {
+  if (typeof v !== "number" || !Number.isFinite(v)) return undefined;
+  if (key === "p") return v < 0.001 ? "< 0.001" : v.toFixed(3);
+  if (/^(r|fellowEye|designEffect|icc|t$)/.test(key)) return v.toFixed(2);
+  if (/^slope/.test(key)) return v.toFixed(3);
+  return undefined;
+}
+
 defineValueType<Record<string, unknown>>({
   name: "statistics",
   summary: "a record of statistics (means, SDs, limits) with units",
   is: (x): x is Record<string, unknown> => STAT_RECORDS.has(x as object),
   display: statDisplay,
-  headline: (r, options) => STAT_RECORDS.get(r)?.headline?.(r, options) ?? statDisplay(r, options),
+  headline: (r, options) => STAT_RECORDS.get(r)?.headline?.(r, options) ?? shortLine(r, options),
   parts: statParts,
   json: (r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, statJson(v)])),
 });

@@ -195,7 +195,16 @@ export function ellipseFields(
     angle: qty(e.angle, "deg"),
     n,
     ...extra,
-  });
+  }, { headline: ellipseHeadline });
+}
+
+function ellipseHeadline(r: Record<string, unknown>, options: DisplayOptions): string {
+  const show = (k: string) => showStat(k, r[k], options);
+  const who = r.subjects !== undefined ? `${r.subjects} persons` : `n ${r.n}`;
+  const how = String(r.region).includes("χ²") ? ", χ² form" : "";
+  return `centre J0 ${show("centreJ0")}, J45 ${show("centreJ45")}; semi-axes ${
+    joinShared(show("semiMajor"), " × ", show("semiMinor"))
+  } at ${show("angle")}; ${who}${how}`;
 }
 
 /**
@@ -229,7 +238,16 @@ export function agreementRecord(
     put("lowerExact", ci.lowerExact);
     put("upperExact", ci.upperExact);
   }
-  return statRecord({ ...record, ...extra }, { display: agreementLine });
+  return statRecord({ ...record, ...extra }, {
+    display: agreementLine,
+    headline: agreementHeadline,
+  });
+}
+
+/** Bias and limits in one line: "bias -0.19 D; limits -0.73 to +0.35 D". */
+export function agreementHeadline(r: Record<string, unknown>, options: DisplayOptions): string {
+  const show = (k: string) => showStat(k, r[k], options);
+  return `bias ${show("bias")}; limits ${joinShared(show("lower"), " to ", show("upper"))}`;
 }
 
 function agreementLine(r: Record<string, unknown>, options: DisplayOptions): string {

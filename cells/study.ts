@@ -24,6 +24,7 @@
 import { defineFormula, type FormulaSpec, type OptionSpec } from "./catalogue.ts";
 import type { Column } from "./table.ts";
 import {
+  agreementHeadline,
   agreementRecord,
   asColumn,
   COL,
@@ -201,6 +202,13 @@ function ellipseFormula(region: "mean" | "observations"): FormulaSpec {
   });
 }
 
+function meanCIHeadline(r: Record<string, unknown>, options: DisplayOptions): string {
+  const show = (k: string) => showStat(k, r[k], options);
+  return `${show("mean")} (95% CI ${joinShared(show("from"), " to ", show("to"))})${
+    r.warning ? " — warning: eyes taken as independent" : ""
+  }`;
+}
+
 function meanCILine(r: Record<string, unknown>, options: DisplayOptions): string {
   const show = (k: string) => showStat(k, r[k], options);
   const out = [
@@ -313,7 +321,7 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
         ...(m.subjects !== undefined ? { subjects: m.subjects, designEffect: m.designEffect } : {}),
         eyes: m.note,
         ...(m.warning ? { warning: m.warning } : {}),
-      }, { display: meanCILine, headline: meanCILine });
+      }, { display: meanCILine, headline: meanCIHeadline });
     },
   }),
   defineFormula({
@@ -347,6 +355,9 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
         subjects: ctx.pairing.subjects,
         designEffect: 1 + r,
         eyes: ctx.found,
+      }, {
+        headline: () =>
+          `r ${r.toFixed(2)} over ${pairs.toLocaleString("en")} persons with both eyes`,
       });
     },
   }),
@@ -440,6 +451,10 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
           ...(note ? { eyes: note } : {}),
         }),
       }, {
+        headline: (rec, options) =>
+          (["M", "J0", "J45"] as const).map((k) =>
+            `${k} ${agreementHeadline(rec[k] as Record<string, unknown>, options)}`
+          ).join("; "),
         labels: {
           n: "pairs",
           M: "M (spherical equivalent)",
@@ -453,19 +468,40 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
     name: "proportionalBias",
     group: "study statistics",
     summary:
-      "Proportional bias: regression of the difference a − b on the mean of each pair, with the slope's 95% CI and its t test against zero.",
+      'Proportional bias: regression of the difference a − b on the mean of each pair, with the slope\'s 95% CI and its t test against zero; on one eye per person when asked (eyes: "right", "left", "random").',
     params: [COL("a", "first method's column"), COL("b", "second method's column, same rows")],
-    returns: { type: "any", doc: "n, slope, intercept, slope's standard error and 95% CI, t, p" },
-    sources: ["bland-altman-1999"],
+    options: EYE_OPTIONS,
+    returns: { type: "any", doc: "n, slope, intercept, slope's 95% CI, t, p, what was done" },
+    sources: ["bland-altman-1999", "murdoch-1998"],
     example: "proportionalBias([1, 2, 3.5, 2.5], [0.75, 2.25, 3, 2.4])",
-    fn: (a, b) => {
-      const ca = asColumn(a, "a");
+    fn: (...args) => {
+      const { cols, settings } = split(args, EYE_OPTIONS);
+      const [ca, cb] = cols;
       const unit = unitOf(ca);
-      const r = proportionalBias(
-        columnNumbers(ca),
-        columnNumbers(asColumn(b, "b"), unit || undefined),
+      const ctx = eyeContext(ca, settings);
+      const oneEye = ["right", "left", "random"].includes(String(settings.eyes));
+      if (settings.eyes === "person mean") {
+        throw new LentilInputError(
+          'proportional bias is tested on pairs: use one eye per person (eyes: "right", "left" or "random")',
+        );
+      }
+      const applied = applyEyes(
+        ctx,
+        [columnNumbers(ca), columnNumbers(cb, unit || undefined)],
+        oneEye ? settings : { ...settings, eyes: "as independent" },
       );
-      const ctx = eyeContext(ca, {});
+      const r = proportionalBias(applied.arrays[0], applied.arrays[1]);
+      const warning = ctx && !oneEye && ctx.pairing.bothEyes
+        ? `${
+          ctx.pairing.bothEyes.toLocaleString("en")
+        } persons give both eyes: the test takes eyes as independent, so p is too small; write {eyes: "right"} (one eye per person)`
+        : undefined;
+      const headline = () =>
+        `slope ${r.slope.toFixed(3)} (95% CI ${r.slopeCI.lower.toFixed(3)} to ${
+          r.slopeCI.upper.toFixed(3)
+        }), p ${r.p < 0.001 ? "< 0.001" : r.p.toFixed(3)}${
+          warning ? " — warning: eyes taken as independent" : ""
+        }`;
       return statRecord({
         n: r.n,
         slope: r.slope,
@@ -474,14 +510,9 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
         intercept: qty(r.intercept, unit),
         t: r.t,
         p: r.p,
-        ...(ctx && ctx.pairing.bothEyes
-          ? {
-            warning: `${
-              ctx.pairing.bothEyes.toLocaleString("en")
-            } persons give both eyes: the test takes eyes as independent, so p is too small; repeat it on one eye per person (a column of right eyes)`,
-          }
-          : {}),
-      });
+        eyes: applied.note,
+        ...(warning ? { warning } : {}),
+      }, { headline });
     },
   }),
 ];
