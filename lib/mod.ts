@@ -54,6 +54,7 @@ export * from "./power_vector.ts";
 export * from "./prescription.ts";
 export * from "./prescription_format.ts";
 export * from "./prism.ts";
+export * from "./reliability.ts";
 export * from "./seeded.ts";
 export * from "./spherocylinder.ts";
 export * from "./stats.ts";
