@@ -121,7 +121,7 @@ Deno.test("lentil sql writes views and one query per statistic; the help and a b
   const text = io.stdout();
   assert.match(text, /CREATE VIEW "eyes_set1" AS/);
   assert.match(text, /CREATE VIEW "eyes_set2" AS/); // dd reads M and M2
-  assert.equal(text.match(/^SELECT\n  COUNT\(\*\)/gm)?.length, 6);
+  assert.equal(text.match(/^SELECT\n {2}COUNT\(\*\)/gm)?.length, 6);
   assert.doesNotMatch(text, /0\.25 D|shift/); // numbers from numbers, never notebook text
   const bad = captureIo();
   await Deno.writeTextFile(
