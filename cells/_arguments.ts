@@ -9,7 +9,7 @@
 
 import type { FormulaSpec, OptionSpec, ParamSpec } from "./catalogue.ts";
 import { Column, isTable } from "./table.ts";
-import { getValueType, typeOfValue } from "./types.ts";
+import { DEFAULT_DISPLAY, getValueType, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
 import { columnToArray, quantityParts, toNumberIn } from "./quantity.ts";
 
@@ -90,7 +90,10 @@ export function shownValue(x: unknown): string {
   const q = quantityParts(x);
   if (q) return q.unit ? formatQuantity(q.value, q.unit) : `the number ${formatNumber(q.value)}`;
   const t = typeOfValue(x);
-  if (t) return `a ${t.name}`;
+  if (t) {
+    const shown = t.headline?.(x, DEFAULT_DISPLAY) ?? t.display(x, DEFAULT_DISPLAY);
+    return shown.length <= 48 ? shown : `this ${t.name} result`;
+  }
   if (Array.isArray(x) || (x as { isMatrix?: boolean }).isMatrix) return "a list";
   if (isPlainRecord(x)) return "a record";
   if (typeof x === "function") return "a function";
@@ -187,7 +190,9 @@ function convertArg(spec: FormulaSpec, p: ParamSpec, x: unknown, label = p.name)
       return x;
     case "list":
       if ((x as { isMatrix?: boolean } | null)?.isMatrix) {
-        return (x as { toArray(): unknown[] }).toArray();
+        // The values themselves (toArray would copy each, and values of our own types
+        // cannot be copied by the library).
+        return (x as { valueOf(): unknown[] }).valueOf();
       }
       if (x instanceof Column) return columnToArray(x);
       if (Array.isArray(x)) return x;

@@ -17,6 +17,7 @@ import { Column, makeTable, type TableValue } from "./table.ts";
 import { defineValueType } from "./types.ts";
 import { findColumn, rowCount } from "./_acuity_values.ts";
 import { formatPower } from "./display.ts";
+import { markExact, quantity } from "./quantity.ts";
 import { type EndpointResult, findEndpoint, trialLogMAR, type TrialRow } from "../lib/endpoint.ts";
 import type { ChartLine } from "../lib/acuity_scoring.ts";
 import { LentilInputError } from "../lib/errors.ts";
@@ -55,7 +56,33 @@ defineValueType<EndpointValue>({
   is: (x): x is EndpointValue => x instanceof EndpointValue,
   display: displayEndpoint,
   json: ({ result }) => ({ ...result, caution: true }),
+  parts: ({ result: r }) => [
+    {
+      key: "endpoint",
+      label: "endpoint (most plus lens with the best acuity)",
+      value: power(r.endpoint),
+    },
+    { key: "endpointLogMAR", label: "acuity at the endpoint, logMAR", value: r.endpointLogMAR },
+    { key: "bestLogMAR", label: "best acuity, logMAR", value: r.bestLogMAR },
+    { key: "tolerance", label: "tolerance, logMAR", value: r.tolerance },
+    { key: "plateauFrom", label: "plateau, most plus end", value: power(r.plateau.from) },
+    { key: "plateauTo", label: "plateau, most minus end", value: power(r.plateau.to) },
+    {
+      key: "plateauWidth",
+      label: "plateau width",
+      value: markExact(quantity(r.plateau.width, "D")),
+    },
+    ...(r.fit
+      ? [{
+        key: "bestFocus",
+        label: "best focus of the fit",
+        value: markExact(quantity(r.fit.bestFocus, "D")),
+      }]
+      : []),
+  ],
 });
+
+const power = (d: number) => quantity(d, "D");
 
 const POWER_NAMES = ["lens", "power", "trial", "sphere"];
 const ACUITY_NAMES = ["va", "acuity", "logMAR", "letters", "reading"];

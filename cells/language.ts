@@ -23,10 +23,12 @@ import { CATALOGUE } from "./mod.ts";
 import { bindFormula } from "./_arguments.ts";
 import { NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
 import { provideInFormulas, refuseInFormulas } from "./_mathjs.ts";
+import { withPartAccess } from "./_parts.ts";
 import { formulaMath, markExact, quantity, quantityParts, toNumberIn } from "./quantity.ts";
 
 export { LENTIL_UNITS } from "./quantity.ts";
-export { FormulaArgumentError } from "./_arguments.ts";
+export { FormulaArgumentError, measureOfUnit, shownValue } from "./_arguments.ts";
+export { partNames } from "./_parts.ts";
 
 /** An expression that does not parse; `offset` is zero-based within the expression. */
 export class ExpressionSyntaxError extends SyntaxError {
@@ -37,18 +39,79 @@ export class ExpressionSyntaxError extends SyntaxError {
   }
 }
 
+/** The expression library's internal function names, as the notebook writes them. */
+const OPERATION_WORDS: Readonly<Record<string, string>> = {
+  add: "+",
+  addScalar: "+",
+  subtract: "-",
+  subtractScalar: "-",
+  multiply: "*",
+  multiplyScalar: "*",
+  divide: "/",
+  divideScalar: "/",
+  unaryMinus: "- (negation)",
+  unaryPlus: "+ (sign)",
+  pow: "^",
+  dotMultiply: ".*",
+  dotDivide: "./",
+  equal: "==",
+  equalScalar: "==",
+  unequal: "!=",
+  smaller: "<",
+  smallerEq: "<=",
+  larger: ">",
+  largerEq: ">=",
+  compare: "a comparison",
+  to: "to",
+  mod: "mod",
+};
+
+/** The library's type names in the notebook's words. */
+function typeWords(types: string): string {
+  const words: Record<string, string> = {
+    Unit: "a quantity",
+    number: "a number",
+    any: "a value of another kind",
+    Array: "a list",
+    Matrix: "a list",
+    DenseMatrix: "a list",
+    SparseMatrix: "a list",
+    string: "text",
+    boolean: "true or false",
+    Object: "a record",
+    identifier: "a unit name",
+    Column: "a column",
+    null: "nothing",
+    undefined: "nothing",
+    Range: "a range",
+    function: "a function",
+  };
+  const out: string[] = [];
+  for (const t of types.split(/\s*(?:\||,| or )\s*/)) {
+    const w = words[t.trim()];
+    if (w && !out.includes(w)) out.push(w);
+  }
+  return out.length ? out.join(" or ") : "a value of another kind";
+}
+
 /**
- * mathjs's argument errors in words a user can act on: which function, which argument,
- * what it got, and for rounding a quantity, the unit it needs. Other messages pass through.
+ * The expression library's refusals in words a user can act on: which operation or
+ * function, which argument, what it got, and for rounding a quantity, the unit it needs.
+ * The library's own function names and type names never show. (When the failing
+ * operation can be found in the formula, the engine says more: `_explain.ts`.)
  *
  * @example
  * ```ts
  * import { plainMathMessage } from "./language.ts";
  * plainMathMessage("Too few arguments in function round (expected: Unit or number, index: 1)");
  * // "round of a quantity needs the unit to round in: write round(x, D) (or round(x, 2, D) for two decimals)"
+ * plainMathMessage("Unexpected type of argument in function addScalar (expected: number or Complex or BigNumber, actual: Unit, index: 1)");
+ * // "+ cannot take a quantity as its 2nd operand here (it takes a number); give both sides the same kind"
  * ```
  */
 export function plainMathMessage(message: string): string {
+  const words = (fn: string) => OPERATION_WORDS[fn] ?? fn;
+  const nth = (i: number) => ["1st", "2nd", "3rd"][i] ?? `${i + 1}th`;
   const few =
     /^(.*?)Too few arguments in function (\w+) \(expected: ([^,]*(?:, [^,]*)*?), index: (\d+)\)/
       .exec(message);
@@ -58,19 +121,46 @@ export function plainMathMessage(message: string): string {
       return `${pre}${fn} of a quantity needs the unit to round in: write ${fn}(x, D) ` +
         `(or ${fn}(x, 2, D) for two decimals)`;
     }
-    return `${pre}${fn} needs more arguments (argument ${Number(index) + 1} should be ${
-      expected.split(" or ").slice(0, 3).join(" or ")
+    return `${pre}${words(fn)} needs more arguments (the ${nth(Number(index))} should be ${
+      typeWords(expected)
     })`;
+  }
+  const many = /^(.*?)Too many arguments in function (\w+) \(expected: (\d+), actual: (\d+)\)/
+    .exec(message);
+  if (many) {
+    const [, pre, fn, expected, actual] = many;
+    return `${pre}${words(fn)} takes ${expected} argument${
+      expected === "1" ? "" : "s"
+    }, got ${actual}`;
   }
   const type =
     /^(.*?)Unexpected type of argument in function (\w+) \(expected: (.*?), actual: (.*?), index: (\d+)\)/
       .exec(message);
   if (type) {
     const [, pre, fn, expected, actual, index] = type;
-    return `${pre}${fn}: argument ${Number(index) + 1} is ${
-      actual.replace(/^identifier/, "a name")
-    }, ` +
-      `expected ${expected.split(" or ").slice(0, 3).join(" or ")}`;
+    const operator = OPERATION_WORDS[fn] !== undefined;
+    return `${pre}${words(fn)} cannot take ${typeWords(actual)} as its ${nth(Number(index))} ${
+      operator ? "operand" : "argument"
+    } here (it takes ${typeWords(expected)}); give both sides the same kind`;
+  }
+  const calc = /^(.*?)Cannot calculate (\w+), unexpected type of argument.*$/.exec(message);
+  if (calc) {
+    return `${calc[1]}${
+      calc[2]
+    } cannot take these values: it works on numbers, quantities of one kind and lists of them`;
+  }
+  const text = /^(.*?)Cannot convert "(.*)" to a number$/.exec(message);
+  if (text) return `${text[1]}text "${text[2]}" is not a number: write the number without quotes`;
+  if (/Cannot compare units with different base/.test(message)) {
+    return "cannot compare quantities of different kinds (a power with a length, say)";
+  }
+  const undef = /^(.*?)Undefined symbol (\S+)$/.exec(message);
+  if (undef) return `${undef[1]}unknown name "${undef[2]}"`;
+  if (/Cannot clone: unknown type of value/.test(message)) {
+    return message.replace(
+      /Cannot clone: unknown type of value.*$/,
+      "these values cannot be put in a list here; give them as a table column",
+    );
   }
   return message;
 }
@@ -199,7 +289,9 @@ function buildLanguage(catalogue: Catalogue): Language {
         throw new ExpressionSyntaxError(msg.replace(/\s*\(char \d+\)/, ""), offset);
       }
     },
-    compile: (node) => node.compile() as { evaluate(scope: unknown): unknown },
+    compile: (node) =>
+      withPartAccess(node, math as unknown as Parameters<typeof withPartAccess>[1])
+        .compile() as { evaluate(scope: unknown): unknown },
     isFunction,
     isBuiltinSymbol,
     isUnit,

@@ -44,6 +44,7 @@ import {
   cornealPower,
   ROUNDING_RULES,
   type RoundingRule,
+  roundPower,
   roundToStep,
   vertexSpheroCylinder,
 } from "../lib/vertex.ts";
@@ -52,10 +53,16 @@ import {
 export class RxValue {
   /**
    * @param rx the prescription record.
-   * @param exactOnly shown exact, never stepped to the notebook's power step (for a figure
-   * that sits beside its own rounded form, as the contact-lens power does).
+   * @param exactOnly shown exact, never stepped to the notebook's power step (a measure such
+   * as a mean prescription, or a figure beside its own rounded form, as the contact-lens
+   * power is).
+   * @param rounding for a prescription rounded on request: the step and rule, said beside it.
    */
-  constructor(readonly rx: Prescription, readonly exactOnly = false) {}
+  constructor(
+    readonly rx: Prescription,
+    readonly exactOnly = false,
+    readonly rounding?: string,
+  ) {}
 
   /** The trade's text, exact to 0.01 D and whole degrees. */
   toString(): string {
@@ -70,6 +77,7 @@ export function rxValue(rx: Prescription): RxValue {
 
 function displayRx(v: RxValue, options: DisplayOptions): string {
   const exact = formatPrescription(v.rx);
+  if (v.rounding) return `${exact} (rounded: ${v.rounding})`;
   const step = options.powerStep;
   if (v.exactOnly || !(step >= 0.01 && step <= 1)) return exact;
   const stepped = formatPrescription(roundToStep(v.rx, step));
@@ -211,7 +219,12 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
     group: "prescription",
     summary: "Spherical equivalent M = S + C/2.",
     params: [RX()],
-    returns: { type: "quantity", unit: "D", doc: "spherical equivalent" },
+    returns: {
+      type: "quantity",
+      unit: "D",
+      display: "exact",
+      doc: "spherical equivalent, a measure shown exact (roundPower rounds it to a step)",
+    },
     sources: ["thibos-1997"],
     example: 'sphericalEquivalent(rx("-2.25 / -0.75 x 170"))',
     fn: (r) => sphericalEquivalent(rxOf(r)),
@@ -405,6 +418,29 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
     sources: ["common-practice"],
     caution: true,
     example: 'roundToStep(vertexRx(rx("-8.00 / -1.25 x 10"), 12 mm), {step: 0.25 D})',
-    fn: (r, step, rule) => rxValue(roundToStep(rxOf(r), step as number, ruleOf(rule))),
+    fn: (r, step, rule) =>
+      new RxValue(
+        roundToStep(rxOf(r), step as number, ruleOf(rule)),
+        true,
+        roundingText(step as number, ruleOf(rule)),
+      ),
+  }),
+  defineFormula({
+    name: "roundPower",
+    group: "vertex",
+    summary:
+      "One power (a spherical equivalent, a mean) rounded to the available step by the rule, when a figure to order is wanted; measures are otherwise shown exact.",
+    params: [{ name: "power", type: "quantity", unit: "D", doc: "the power" }],
+    options: [STEP, RULE],
+    returns: { type: "quantity", unit: "D", doc: "the power on the step" },
+    sources: ["common-practice"],
+    example: 'roundPower(sphericalEquivalent(rx("-2.25 / -0.75 x 90")), {step: 0.25 D})',
+    fn: (p, step, rule) => roundPower(p as number, step as number, ruleOf(rule)),
   }),
 ];
+
+/** The step and rule of a rounding asked for, in words ("0.25 D step, nearest"). */
+function roundingText(step: number, rule: RoundingRule): string {
+  const s = step.toFixed(3).replace(/0$/, "");
+  return `${s} D step, ${rule === "nearest" ? "nearest" : `toward ${rule}`}`;
+}

@@ -24,7 +24,7 @@ import { Column } from "./table.ts";
 import { markExact, quantity, quantityParts, toNumberIn } from "./quantity.ts";
 import { joinShared, qty, sampleStatsRecord, showStat, statRecord } from "./_stat_records.ts";
 import type { DisplayOptions } from "./types.ts";
-import { rxValue } from "./rx.ts";
+import { RxValue } from "./rx.ts";
 import { getValueType } from "./types.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
 import { CYLINDER_RANGE, SPHERE_RANGE } from "../lib/prescription.ts";
@@ -47,10 +47,9 @@ import { type Ellipse, type EllipseMethod, ellipseOf } from "../lib/ellipse.ts";
  */
 export function asColumn(x: unknown, what: string): Column {
   if (x instanceof Column) return x;
-  const list = Array.isArray(x)
-    ? x
-    : typeof (x as { toArray?: unknown })?.toArray === "function"
-    ? (x as { toArray(): unknown[] }).toArray()
+  const list = Array.isArray(x) ? x : (x as { isMatrix?: boolean } | null)?.isMatrix
+    // The values themselves: toArray would copy each, and prescriptions cannot be copied.
+    ? (x as { valueOf(): unknown[] }).valueOf()
     : undefined;
   if (!list) throw new LentilInputError(`${what}: expected a table column or a list [..]`);
   if (list.every((v) => typeof v === "number")) {
@@ -130,7 +129,8 @@ export function unitOf(c: Column): string {
 /** A vector summary as a mean-prescription record. */
 export function meanRxRecord(v: VectorSummary): Record<string, unknown> {
   return statRecord({
-    rx: rxValue(v.meanRx),
+    // A mean is a measure, not a lens to order: exact (roundToStep rounds it on request).
+    rx: new RxValue(v.meanRx, true),
     M: qty(v.mean.m, "D"),
     J0: qty(v.mean.j0, "D"),
     J45: qty(v.mean.j45, "D"),

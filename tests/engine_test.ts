@@ -60,7 +60,10 @@ Deno.test("an error is carried to dependents with the original cause and positio
   );
   const bad = nb.result("bad")!.error!;
   assert.equal(bad.kind, "unit");
-  assert.equal(bad.message, "units do not match: cannot add 3.00 mm to -2.00 D");
+  assert.equal(
+    bad.message,
+    "units do not match: cannot add 3.00 mm to -2.00 D (a power and a length)",
+  );
   assert.deepEqual([bad.line, bad.col], [4, 9]); // at the +
   const worst = nb.result("worst")!.error!;
   assert.equal(worst.kind, "dependency");

@@ -107,7 +107,7 @@ Deno.test("the catalogue refuses a malformed option", () => {
 Deno.test("every formula's settings go by name; by position they are refused", () => {
   // Rounding a power to the 0.25 D step toward plus (common practice, no source).
   const r = run('roundToStep(rx("-4.10 DS"), {step: 0.25 D, rule: "plus"})');
-  assert.equal(lang.describe(r).display, "-4.00 DS");
+  assert.match(lang.describe(r).display, /^-4.00 DS/);
   for (
     const expr of [
       'roundToStep(rx("-4.10 DS"), 0.25 D)',

@@ -20,6 +20,11 @@ export interface TableShape {
   readonly data: ReadonlySet<string>;
   /** Computed columns defined in calc blocks. */
   readonly computed: ReadonlySet<string>;
+  /**
+   * True for a table a formula returns (`paired = pairRows(…)`): its data columns are known
+   * only once it is evaluated, so any other name is taken as one of them and checked then.
+   */
+  readonly open?: boolean;
 }
 
 /** The names an expression can see. */
@@ -161,18 +166,20 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
       if (rowTable.computed.has(name)) return void deps.add(`${ctx.rowTable}.${name}`);
       if (rowTable.data.has(name)) return void deps.add(ctx.rowTable);
     }
-    if (ctx.cells.has(name)) return void deps.add(name);
     if (ctx.tables.has(name)) return useTable(name);
+    if (ctx.cells.has(name)) return void deps.add(name);
     if (catalogue.constants.has(name)) return void constants.add(name);
     if (ctx.lang.isBuiltinSymbol(name)) return;
     if (ctx.lang.isUnit(name)) {
       if (USABLE_UNITS.has(name)) return;
+      if (rowTable?.open) return void deps.add(ctx.rowTable!);
       return fail(
         `"${name}" is not a unit Lentil uses (units: ${LENTIL_UNITS.join(", ")}, ft, inch); ` +
           "if it is a name, define it as a cell",
         name,
       );
     }
+    if (rowTable?.open) return void deps.add(ctx.rowTable!);
     fail(`unknown name or unit "${name}"`, name);
   };
 
@@ -223,7 +230,7 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
           if (shape) {
             const prop = (index.dimensions[0] as unknown as { value: string }).value;
             if (shape.computed.has(prop)) deps.add(`${t}.${prop}`);
-            else if (shape.data.has(prop)) deps.add(t);
+            else if (shape.data.has(prop) || shape.open) deps.add(t);
             else {
               fail(
                 `table ${t} has no column "${prop}" (columns: ${

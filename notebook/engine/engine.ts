@@ -23,6 +23,7 @@ import {
   type Language,
   LENTIL_UNITS,
   plainMathMessage,
+  shownValue,
 } from "../../cells/language.ts";
 import {
   addColumn,
@@ -43,6 +44,7 @@ import {
 } from "../format/parse.ts";
 import { analyse, type Analysis, isStackOverflow, type TableShape } from "./_analyse.ts";
 import { DependencyGraph } from "./graph.ts";
+import { explainFailure } from "./_explain.ts";
 import { planColumn } from "./_columns.ts";
 import {
   buildTable,
@@ -414,7 +416,10 @@ export class Notebook {
         node.defError = this.#badBytes(cell.line, cell.line);
       } else if (!cell.table && reserved(cell.name)) {
         node.defError = at("name", reservedMessage(cell.name, "name"), cell.line, cell.col);
-      } else if (cell.table && !this.doc.tables.some((t) => t.name === cell.table)) {
+      } else if (
+        cell.table && !this.doc.tables.some((t) => t.name === cell.table) &&
+        !this.doc.cells.some((c) => !c.table && c.name === cell.table)
+      ) {
         node.defError = at(
           "name",
           `no table named "${cell.table}" for computed column ${full}`,
@@ -514,6 +519,15 @@ export class Notebook {
         data: new Set(n.raw?.columns.map((c) => c.name) ?? []),
         computed: new Set(),
       });
+    }
+    // A cell with computed columns is a table a formula returns: its columns are known
+    // when it is evaluated.
+    for (const n of this.#nodes.values()) {
+      if (n.kind !== "column" || shapes.has(n.table!)) continue;
+      const cell = this.#nodes.get(n.table!);
+      if (cell?.kind === "cell" && ownsName(cell)) {
+        shapes.set(n.table!, { data: new Set(), computed: new Set(), open: true });
+      }
     }
     for (const n of this.#nodes.values()) {
       if (n.kind === "column" && n.id === `${n.table}.${n.name}` && shapes.has(n.table!)) {
@@ -698,6 +712,18 @@ export class Notebook {
         });
       } else if (n.kind === "column") {
         const table = this.#scope.get(n.table!) as TableValue;
+        if (!tableInfo(table)) {
+          return set({
+            error: {
+              kind: "name",
+              message: `${n.table} is ${
+                shownValue(table)
+              }, not a table: computed columns belong to tables`,
+              file,
+              ...where,
+            },
+          });
+        }
         const column = this.#evaluateColumn(n, table);
         addColumn(table, column);
         set({ value: column });
@@ -724,6 +750,14 @@ export class Notebook {
               file,
               ...where,
             },
+          });
+        }
+        // A table a formula returns takes the cell's name (a copy, so computed columns
+        // added to it never change the table it came from).
+        const info = tableInfo(value);
+        if (info) {
+          return set({
+            value: makeTable(n.name, info.columns, { excluded: info.excluded, file: info.file }),
           });
         }
         set({ value });
@@ -769,16 +803,10 @@ export class Notebook {
     let message = plainMathMessage(e.message);
     let kind: ErrorKind = "evaluation";
     let at = where;
+    const undefinedSymbol = /^(?:row \d+: )?Undefined symbol (\S+)/.exec(e.message);
     if (isStackOverflow(e)) {
       message =
         "the formula nests too deeply to evaluate (the values it builds are too deep); split it into cells";
-    } else if (/Units do not match|Unexpected type of argument.*Unit/.test(message)) {
-      kind = "unit";
-      const found = this.#unitMismatch(n);
-      message = found?.message ?? `units do not match in ${n.cell?.expression}`;
-      if (found?.offset !== undefined && n.cell) {
-        at = { line: n.cell.line, col: n.cell.exprCol + found.offset };
-      }
     } else if (
       e.name === "LentilRangeError" || e instanceof RangeError ||
       /outside the accepted range/.test(message)
@@ -789,55 +817,31 @@ export class Notebook {
       e.name === "LentilInputError"
     ) {
       kind = "argument";
+    } else if (e.name === "PartError") {
+      kind = "name";
+    } else if (n.kind === "column" && undefinedSymbol) {
+      kind = "name";
+      const info = tableInfo(this.#scope.get(n.table!));
+      message = `table ${n.table} has no column "${undefinedSymbol[1]}" and no cell has that name` +
+        (info ? ` (columns: ${info.columns.map((c) => c.name).join(", ")})` : "");
+    } else {
+      // The expression library refused an operation: find which, and say it in our words.
+      const node = n.analysis?.node as MathNode | undefined;
+      const found = node && n.kind === "cell"
+        ? explainFailure(node, this.#scope, this.#lang, this.display, n.cell?.expression ?? "")
+        : undefined;
+      if (found) {
+        message = found.message;
+        if (found.unit) kind = "unit";
+        if (found.offset !== undefined && n.cell) {
+          at = { line: n.cell.line, col: n.cell.exprCol + found.offset };
+        }
+      } else if (/Units do not match|Unexpected type of argument.*Unit/.test(e.message)) {
+        kind = "unit";
+        message = `units do not match in ${n.cell?.expression ?? "the formula"}`;
+      }
     }
     return { kind, message, file, ...at };
-  }
-
-  /**
-   * Find the + or − whose operands carry incompatible units, to say which, and where the
-   * operator stands in the expression when it can be found.
-   */
-  #unitMismatch(n: NodeDef): { message: string; offset?: number } | undefined {
-    const node = n.analysis?.node as MathNode | undefined;
-    if (!node) return undefined;
-    let found: { message: string; offset?: number } | undefined;
-    node.traverse((m) => {
-      if (found || m.type !== "OperatorNode") return;
-      const op = m as unknown as { fn: string; op: string; args: MathNode[] };
-      if (op.fn === "to" && op.args.length === 2) {
-        try {
-          const a = op.args[0].compile().evaluate(this.#scope);
-          const shown = this.#lang.describe(a, this.display).display;
-          const target = op.args[1].toString();
-          found = {
-            message: `units do not match: ${shown} cannot be shown in ${target}`,
-            offset: operatorOffset(n.cell?.expression ?? "", "to", target),
-          };
-        } catch {
-          // Leave it to the generic message.
-        }
-        return;
-      }
-      if (!["add", "subtract"].includes(op.fn) || op.args.length !== 2) return;
-      try {
-        const [a, b] = op.args.map((x) => x.compile().evaluate(this.#scope));
-        const qa = this.#lang.quantityParts(a);
-        const qb = this.#lang.quantityParts(b);
-        const da = qa ? this.#lang.describe(a, this.display).display : `${a}`;
-        const db = qb ? this.#lang.describe(b, this.display).display : `${b}`;
-        if ((qa?.unit ?? "") !== (qb?.unit ?? "")) {
-          found = {
-            message: `units do not match: cannot ${op.fn === "add" ? "add" : "subtract"} ${db} ${
-              op.fn === "add" ? "to" : "from"
-            } ${da}`,
-            offset: operatorOffset(n.cell?.expression ?? "", op.op, op.args[1].toString()),
-          };
-        }
-      } catch {
-        // Leave it to the generic message.
-      }
-    });
-    return found;
   }
 
   /**
@@ -960,17 +964,4 @@ function positioned(p: { file: string; line: number; col: number; message: strin
 
 function ownsName(n: NodeDef): boolean {
   return n.id === n.name && n.defError?.kind !== "name";
-}
-
-/**
- * Where the operator `op` before the right operand `right` stands in `expression` (zero-based),
- * found by the operand's text; undefined when the text cannot be matched.
- */
-function operatorOffset(expression: string, op: string, right: string): number | undefined {
-  const squeeze = (t: string) => t.replace(/\s+/g, "");
-  const target = squeeze(op + right);
-  for (let i = expression.indexOf(op); i >= 0; i = expression.indexOf(op, i + 1)) {
-    if (squeeze(expression.slice(i)).startsWith(target)) return i;
-  }
-  return undefined;
 }
