@@ -7,6 +7,7 @@
 import { formatGoal, type Goal } from "./goal.ts";
 import * as engine from "./engine.ts";
 import * as exporting from "./export.ts";
+import * as harden from "./harden.ts";
 import * as live from "./live.ts";
 import * as start from "./start.ts";
 import * as tables from "./tables.ts";
@@ -19,6 +20,7 @@ interface BenchModule {
 const modules: [string, BenchModule][] = [
   ["engine", engine],
   ["export", exporting],
+  ["harden", harden],
   ["live", live],
   ["start", start],
   ["tables", tables],

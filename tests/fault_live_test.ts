@@ -75,3 +75,59 @@ Deno.test("a streamed body without a length is cut off at the limit (413), and t
     await close();
   }
 });
+
+/** A table of `n` rows and a computed column that takes about 10 ms a row (row-wise sums). */
+function stuckNotebook(n: number, slow: boolean): string {
+  const rows = Array.from({ length: n }, (_, i) => `${i}`).join("\n");
+  const column = slow ? "x + sum(1:100000)" : "x";
+  return `${F}lentil table t\nx\n${rows}\n${F}\n\n${F}lentil\nt.y = ${column}\nz = 1\nw = z + 1\n${F}\n`;
+}
+
+Deno.test("a cell over the time budget is stopped in the worker; the server answers and saves meanwhile", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "lentil-fault-budget-" });
+  const path = join(dir, "a.lentil.md");
+  await Deno.writeTextFile(path, stuckNotebook(300, false));
+  const server = await startLiveServer(path, { budget: { timeMs: 400 } });
+  const headers = { "x-lentil-token": server.token, "content-type": "application/json" };
+  try {
+    const stuck = fetch(`${server.origin}/api/cell`, {
+      method: "POST",
+      headers,
+      body: JSON.stringify({ id: "t.y", expression: "x + sum(1:100000)" }),
+    }).then((r) => r.json());
+    await new Promise((r) => setTimeout(r, 150));
+    const t0 = performance.now();
+    const state = await fetch(`${server.origin}/api/state`, { headers });
+    assert.equal(state.status, 200);
+    await state.json();
+    assert.ok(performance.now() - t0 < 1000, "state answered while the cell computes");
+    const save = await fetch(`${server.origin}/api/save`, { method: "POST", headers, body: "{}" });
+    assert.equal((await save.json()).ok, true, "save works while the cell computes");
+    const r = await stuck;
+    assert.equal(r.ok, true);
+    const y = r.patch.cells.find((c: { id: string }) => c.id === "t.y");
+    assert.match(y.error.message, /computed for more than 0\.4 s/);
+    assert.equal(server.session.notebook.value("w") !== undefined, true, "other cells evaluated");
+    assert.match(server.session.text, /t\.y = x \+ sum\(1:100000\)/, "the text as typed is kept");
+  } finally {
+    await server.shutdown();
+    await Deno.remove(dir, { recursive: true });
+  }
+});
+
+Deno.test("a notebook opened with a cell over budget opens, with that cell marked", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "lentil-fault-budget-" });
+  const path = join(dir, "a.lentil.md");
+  await Deno.writeTextFile(path, stuckNotebook(300, true));
+  const t0 = performance.now();
+  const server = await startLiveServer(path, { budget: { timeMs: 400 } });
+  try {
+    assert.ok(performance.now() - t0 < 20_000);
+    const nb = server.session.notebook;
+    assert.match(nb.result("t.y")?.error?.message ?? "", /stopped: this cell computed/);
+    assert.equal(String(nb.value("w")), "2");
+  } finally {
+    await server.shutdown();
+    await Deno.remove(dir, { recursive: true });
+  }
+});

@@ -143,6 +143,16 @@ export interface NotebookOptions {
    * @ignore
    */
   readonly given?: ReadonlyMap<string, unknown>;
+  /**
+   * Cells found to exceed the evaluation budget (by id, with the expression that did and
+   * the reason): such a cell is an error and is not evaluated while its expression stays.
+   */
+  readonly overBudget?: ReadonlyMap<
+    string,
+    { readonly expression: string; readonly message: string }
+  >;
+  /** Called before each node is evaluated (a watchdog learns which cell is computing). */
+  readonly onEvaluate?: (id: string, expression: string | undefined) => void;
 }
 
 /**
@@ -214,6 +224,8 @@ export class Notebook {
   readonly #staticDiagnostics: Diagnostic[] = [];
   #graph!: DependencyGraph;
   #cycleOf = new Map<string, readonly string[]>();
+  readonly #overBudget?: NotebookOptions["overBudget"];
+  readonly #onEvaluate?: NotebookOptions["onEvaluate"];
 
   /**
    * Parse and prepare a notebook from text, and evaluate it.
@@ -331,6 +343,8 @@ export class Notebook {
     this.#lang = options.language ?? getLanguage();
     this.#preloaded = options.tables;
     this.#given = options.given;
+    this.#overBudget = options.overBudget;
+    this.#onEvaluate = options.onEvaluate;
     this.#encoding = new Map((options.encoding ?? []).map((d) => [d.line, d]));
     this.#staticDiagnostics.push(...(options.encoding ?? []));
     this.#host = options.host ?? {
@@ -576,7 +590,25 @@ export class Notebook {
         col: cell.exprCol + a.problem.offset,
       };
     } else if (a.node) {
-      n.compiled = this.#lang.compile(a.node as MathNode);
+      try {
+        n.compiled = this.#lang.compile(a.node as MathNode);
+      } catch (e) {
+        // A formula the language cannot prepare is this cell's error, never the notebook's.
+        n.exprError = {
+          kind: "syntax",
+          message: isStackOverflow(e)
+            ? "the formula nests too deeply to evaluate; split it into cells"
+            : `cannot prepare the formula: ${
+              plainMathMessage((e as Error).message).replace(
+                /^Function (\w+) missing in provided namespace "math"$/,
+                'function "$1" is not available in Lentil formulas',
+              )
+            }`,
+          file: this.doc.file,
+          line: cell.line,
+          col: cell.exprCol,
+        };
+      }
     }
     const srcs: string[] = [];
     let caution = false;
@@ -690,6 +722,11 @@ export class Notebook {
         });
       }
     }
+    const over = this.#overBudget?.get(id);
+    if (over && n.cell && over.expression === n.cell.expression) {
+      return set({ error: { kind: "evaluation", message: over.message, file, ...where } });
+    }
+    this.#onEvaluate?.(id, n.cell?.expression);
     try {
       if (n.kind !== "table" && this.#given?.has(id)) {
         const value = this.#given.get(id);

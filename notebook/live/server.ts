@@ -40,6 +40,7 @@ import { CLIENT_JS } from "./_client.ts";
 import { pageHtml, STYLE_CSS } from "./_page.ts";
 import { EditRefused, type EditResult, LiveSession } from "./session.ts";
 import { SaveError } from "./save.ts";
+import type { BudgetLimits } from "../engine/budget.ts";
 import type { Renderers } from "./_views.ts";
 
 /** A running live server. */
@@ -66,6 +67,11 @@ export interface LiveServerOptions {
   readonly port?: number;
   /** Renderers for prose and plots (default: the export's). */
   readonly renderers?: Renderers;
+  /**
+   * Time and memory per cell (default 3 s and 1 GiB); a cell over budget is stopped in a
+   * worker and shown as an error. `false` evaluates in the server's own thread, unguarded.
+   */
+  readonly budget?: BudgetLimits | false;
 }
 
 const MAX_BODY = 8 * 1024 * 1024;
@@ -183,7 +189,11 @@ export async function startLiveServer(
   path: string,
   options: LiveServerOptions = {},
 ): Promise<LiveServer> {
-  const session = await LiveSession.open(path, { renderers: options.renderers });
+  // Every new state is evaluated in a worker first, under a time and memory budget per cell.
+  const session = await LiveSession.open(path, {
+    renderers: options.renderers,
+    budget: options.budget === false ? undefined : options.budget ?? {},
+  });
   const token = newToken();
   let port = 0;
   let queue: Promise<unknown> = Promise.resolve();
@@ -192,7 +202,15 @@ export async function startLiveServer(
     queue = run.catch(() => {});
     return run;
   };
-  const edit = (r: EditResult) => json(r);
+  // Saving has its own queue: it writes the state the page shows, even while an edit's
+  // cell is still being computed in the budget's worker.
+  let saving: Promise<unknown> = Promise.resolve();
+  const oneSave = <T>(fn: () => Promise<T>): Promise<T> => {
+    const run = saving.then(fn, fn);
+    saving = run.catch(() => {});
+    return run;
+  };
+  const edit = async (op: () => EditResult) => json(await session.guarded(op));
 
   const route = async (req: Request): Promise<Response> => {
     const url = new URL(req.url);
@@ -214,26 +232,26 @@ export async function startLiveServer(
       }
       case "POST /api/cell": {
         const b = await readJson(req, CellEdit);
-        return edit(session.setExpression(b.id, b.expression));
+        return edit(() => session.setExpression(b.id, b.expression));
       }
       case "POST /api/cell/new": {
         const b = await readJson(req, NewCell);
-        return edit(session.addCell(b.block, b.line));
+        return edit(() => session.addCell(b.block, b.line));
       }
       case "POST /api/cell/delete": {
         const b = await readJson(req, DeleteCell);
-        return edit(session.deleteCell(b.id));
+        return edit(() => session.deleteCell(b.id));
       }
       case "POST /api/table": {
         const b = await readJson(req, Rows);
-        return edit(session.setRows(b.name, b.rows));
+        return edit(() => session.setRows(b.name, b.rows));
       }
       case "POST /api/undo":
         await readJson(req, Empty);
-        return edit(session.undo());
+        return edit(() => session.undo());
       case "POST /api/redo":
         await readJson(req, Empty);
-        return edit(session.redo());
+        return edit(() => session.redo());
       case "POST /api/save": {
         await readJson(req, Empty);
         const r = await session.save();
@@ -242,7 +260,7 @@ export async function startLiveServer(
       }
       case "POST /api/reload":
         await readJson(req, Empty);
-        return edit(await session.reload());
+        return json(await session.reload());
       case "POST /api/keep-both": {
         const b = await readJson(req, KeepBoth);
         return json(await session.keepBoth(b.name));
@@ -255,7 +273,15 @@ export async function startLiveServer(
   const handler = (req: Request): Promise<Response> | Response => {
     const refused = checkRequest(req, { port, token });
     if (refused) return json({ error: refused.reason }, refused.status);
-    return serial(async () => {
+    // Reading the page's state never waits for an edit being computed; saving waits only
+    // for another save; edits and everything else run one at a time.
+    const path = new URL(req.url).pathname;
+    const queue = req.method === "GET" && path !== "/api/source"
+      ? (fn: () => Promise<Response>) => fn()
+      : path === "/api/save"
+      ? oneSave
+      : serial;
+    return queue(async () => {
       try {
         return await route(req);
       } catch (e) {
@@ -287,7 +313,10 @@ export async function startLiveServer(
     port,
     token,
     session,
-    shutdown: () => server.shutdown(),
+    shutdown: async () => {
+      session.close();
+      await server.shutdown();
+    },
     finished: server.finished,
   };
 }

@@ -44,6 +44,7 @@ import {
 import { bareName, insideFolder } from "./_paths.ts";
 import { EXPORT_RENDERERS, remembering } from "./_markup.ts";
 import { readRawTable } from "../engine/_tables.ts";
+import { type BudgetLimits, EvaluationBudget, type OverBudget } from "../engine/budget.ts";
 import {
   buildPageView,
   type CellView,
@@ -147,6 +148,9 @@ interface TextState {
   readonly csv: ReadonlyMap<string, string>;
 }
 
+/** Thrown to end a dry run once the new state is known. */
+const DRY_RUN = Symbol("dry run");
+
 /** Undo keeps this many states. */
 const UNDO_LIMIT = 200;
 
@@ -176,11 +180,19 @@ export class LiveSession {
   readonly #renderers: Renderers;
   /** Set when an edit changed the engine in place (so undoing it means rebuilding). */
   #touched = false;
+  /** Trials each new state in a worker first, when given. */
+  readonly #budget?: EvaluationBudget;
+  /** Cells that went over the budget, not evaluated while their expression stays. */
+  readonly #overBudget = new Map<string, OverBudget>();
+  /** While set, an edit only computes its new text (see {@linkcode guarded}). */
+  #dry = false;
+  #candidate?: { text: string; csv: [string, string][] };
 
-  private constructor(path: string, renderers: Renderers) {
+  private constructor(path: string, renderers: Renderers, budget?: EvaluationBudget) {
     this.#path = path;
     this.#dir = dirname(resolve(path));
     this.#renderers = remembering(renderers);
+    this.#budget = budget;
   }
 
   /**
@@ -192,8 +204,16 @@ export class LiveSession {
    * ```
    * @throws {Error} when the file cannot be read or is not valid UTF-8.
    */
-  static async open(path: string, options: { renderers?: Renderers } = {}): Promise<LiveSession> {
-    const s = new LiveSession(path, options.renderers ?? EXPORT_RENDERERS);
+  static async open(
+    path: string,
+    options: { renderers?: Renderers; budget?: EvaluationBudget | BudgetLimits } = {},
+  ): Promise<LiveSession> {
+    const budget = options.budget instanceof EvaluationBudget
+      ? options.budget
+      : options.budget
+      ? new EvaluationBudget(options.budget)
+      : undefined;
+    const s = new LiveSession(path, options.renderers ?? EXPORT_RENDERERS, budget);
     await s.#readFromDisk();
     return s;
   }
@@ -208,6 +228,7 @@ export class LiveSession {
     this.#saved = decoded.text;
     this.#base = await fingerprintOf(bytes, stat);
     this.#csv.clear();
+    await this.#trial({ text: this.#text, csv: [] });
     this.#rebuild();
     this.#view = this.#buildView();
     await this.#settleCsv();
@@ -276,7 +297,67 @@ export class LiveSession {
   }
 
   #engineOptions() {
-    return { host: { readText: (rel: string) => this.#readCsv(rel) } };
+    return {
+      host: { readText: (rel: string) => this.#readCsv(rel) },
+      overBudget: this.#overBudget,
+    };
+  }
+
+  /**
+   * Run an edit under the evaluation budget: its new text is first evaluated in a worker,
+   * and a cell that computes too long or grows too large there is stopped and marked, so
+   * the edit then applies here with that cell shown as an error (never evaluated here).
+   * Without a budget, the edit simply runs.
+   *
+   * @example
+   * ```ts ignore
+   * const r = await session.guarded(() => session.setExpression("n", "bellNumbers(20000)"));
+   * r.patch.cells[0].error; // "stopped: this cell computed for more than 3 s …"
+   * ```
+   */
+  async guarded(edit: () => EditResult): Promise<EditResult> {
+    if (!this.#budget) return edit();
+    this.#dry = true;
+    this.#candidate = undefined;
+    try {
+      edit();
+    } catch {
+      // A refusal shows when the edit runs for real, below.
+    } finally {
+      this.#dry = false;
+    }
+    const candidate = this.#candidate;
+    this.#candidate = undefined;
+    if (candidate) await this.#trial(candidate);
+    return edit();
+  }
+
+  /** Trial a state in the budget's worker until no cell goes over (marking those that do). */
+  async #trial(state: { text: string; csv: [string, string][] }): Promise<void> {
+    if (!this.#budget) return;
+    for (let round = 0; round < 50; round++) {
+      const slow = await this.#budget.trial({
+        text: state.text,
+        file: this.#path,
+        dir: this.#dir,
+        csv: state.csv,
+        skip: [...this.#overBudget],
+      });
+      if (!slow) return;
+      this.#overBudget.set(slow.id, { expression: slow.expression, message: slow.message });
+    }
+  }
+
+  /** In a dry run, record the new state and stop before anything is evaluated. */
+  #stopIfDry(text: string): void {
+    if (!this.#dry) return;
+    this.#candidate = { text, csv: [...this.#csv].map(([k, e]) => [k, e.text]) };
+    throw DRY_RUN;
+  }
+
+  /** Stop the budget's worker (when the server stops). */
+  close(): void {
+    this.#budget?.close();
   }
 
   #rebuild(): string[] {
@@ -383,6 +464,7 @@ export class LiveSession {
       this.#view = kept.view;
       this.#undo.splice(0, this.#undo.length, ...kept.undo);
       this.#redo.splice(0, this.#redo.length, ...kept.redo);
+      if (e === DRY_RUN) throw e;
       return {
         ok: false,
         error: `the edit was not applied (nothing changed): ${(e as Error).message}`,
@@ -411,6 +493,7 @@ export class LiveSession {
       this.#push();
       const oldDoc = this.#doc;
       const text = applyEdit(this.#text, edit);
+      this.#stopIfDry(text);
       const doc = parseNotebook(text, this.#path);
       this.#text = text;
       let recomputed: string[];
@@ -555,6 +638,7 @@ export class LiveSession {
       const before = this.#view;
       this.#push();
       entry.text = next;
+      this.#stopIfDry(this.#text);
       const recomputed = this.#rebuild();
       return { ok: true, recomputed, patch: this.#patch(before) };
     });
@@ -591,6 +675,7 @@ export class LiveSession {
       const before = this.#view;
       to.push(this.#snapshot());
       this.#restore(s);
+      this.#stopIfDry(this.#text);
       const recomputed = this.#rebuild();
       return { ok: true, recomputed, patch: this.#patch(before) };
     });
