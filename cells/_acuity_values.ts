@@ -15,7 +15,8 @@ import {
   readNotation,
 } from "../lib/acuity.ts";
 import { LentilInputError } from "../lib/errors.ts";
-import { formatQuantity } from "./display.ts";
+import { formatMeasure, formatQuantity } from "./display.ts";
+import { quantity } from "./quantity.ts";
 import { type Column, tableInfo, type TableValue } from "./table.ts";
 import { defineValueType } from "./types.ts";
 
@@ -76,6 +77,11 @@ export interface Measure {
   readonly unit: string;
 }
 
+/** One measurement as shown: by its unit's rule, a ratio (no unit) to two decimals. */
+function measureShown(i: Measure): string {
+  return i.unit ? formatQuantity(i.value, i.unit) : formatMeasure(i.value, "ratio");
+}
+
 /** A record of named measurements, shown as "label value unit, …". */
 export class Measures {
   /** @param summary what the record is; @param items the measurements, in display order. */
@@ -86,7 +92,15 @@ defineValueType<Measures>({
   name: "measures",
   summary: "a record of named measurements with units",
   is: (x): x is Measures => x instanceof Measures,
-  display: (m) => m.items.map((i) => `${i.label} ${formatQuantity(i.value, i.unit)}`).join(", "),
+  display: (m) => m.items.map((i) => `${i.label} ${measureShown(i)}`).join(", "),
+  headline: (m) => `${m.items[0].label} ${measureShown(m.items[0])}`,
+  parts: (m) =>
+    m.items.map((i) => ({
+      key: i.key,
+      label: i.label,
+      value: i.unit ? quantity(i.value, i.unit) : i.value,
+      display: measureShown(i),
+    })),
   json: (m) =>
     Object.fromEntries(
       m.items.map((i) => [i.key, i.unit ? { value: i.value, unit: i.unit } : i.value]),

@@ -9,7 +9,7 @@
 
 import { markExact, quantity, quantityParts } from "./quantity.ts";
 import { defineValueType, type DisplayOptions, typeOfValue, type ValuePart } from "./types.ts";
-import { formatNumber, formatQuantity, signed } from "./display.ts";
+import { formatMeasure, formatNumber, formatQuantity, signed } from "./display.ts";
 import type { SampleStats } from "../lib/stats.ts";
 
 /**
@@ -130,10 +130,46 @@ export function showStat(key: string, v: unknown, options: DisplayOptions): stri
     }
     return SPREAD_KEYS.has(key) ? `${Math.abs(q.value).toFixed(2)} D` : `${signed(q.value)} D`;
   }
-  if (typeof v === "number") return Number.isFinite(v) ? formatNumber(v) : "not available";
+  if (typeof v === "number") {
+    if (!Number.isFinite(v)) return "not available";
+    // A covariance of powers is in D² (the record holds the bare number).
+    return COVARIANCE_KEYS.has(key) ? formatMeasure(v, "covariance") : formatNumber(v);
+  }
   if (typeof v === "string") return v;
   const t = typeOfValue(v);
   return t ? t.display(v, options) : String(v);
+}
+
+/** Keys of covariances of powers, shown in D². */
+const COVARIANCE_KEYS = new Set(["covMJ0", "covMJ45", "covJ0J45"]);
+
+/**
+ * The line read first of a statistics record that declares none: its main figures by what it
+ * holds (a mean prescription, an agreement, an ellipse, power-vector statistics), else its
+ * first part.
+ */
+function defaultHeadline(r: Record<string, unknown>, options: DisplayOptions): string {
+  const show = (k: string) => showStat(k, r[k], options);
+  const n = typeof r.n === "number" ? ` (n ${r.n.toLocaleString("en")})` : "";
+  if (r.rx !== undefined) return `${show("rx")}${n}`;
+  if (r.bias !== undefined && r.lower !== undefined && r.upper !== undefined) {
+    return `bias ${show("bias")}, limits ${joinShared(show("lower"), " to ", show("upper"))}${n}`;
+  }
+  if (r.centreJ0 !== undefined && r.semiMajor !== undefined) {
+    return `centre J0 ${show("centreJ0")}, J45 ${show("centreJ45")}; semi-axes ${
+      joinShared(show("semiMajor"), " × ", show("semiMinor"))
+    }`;
+  }
+  if (r.meanM !== undefined && r.sdM !== undefined) {
+    const pm = (m: string, sd: string) => joinShared(show(m), " ± ", show(sd));
+    return `M ${pm("meanM", "sdM")}, J0 ${pm("meanJ0", "sdJ0")}, J45 ${pm("meanJ45", "sdJ45")}${n}`;
+  }
+  // Agreement of M, J0 and J45: M's bias and limits first.
+  const m = r.M;
+  if (m !== null && typeof m === "object" && STAT_RECORDS.has(m) && "bias" in m) {
+    return `M ${defaultHeadline(m as Record<string, unknown>, options)}`;
+  }
+  return shortLine(r, options);
 }
 
 function statJson(v: unknown): unknown {
@@ -181,7 +217,8 @@ defineValueType<Record<string, unknown>>({
   summary: "a record of statistics (means, SDs, limits) with units",
   is: (x): x is Record<string, unknown> => STAT_RECORDS.has(x as object),
   display: statDisplay,
-  headline: (r, options) => STAT_RECORDS.get(r)?.headline?.(r, options) ?? shortLine(r, options),
+  headline: (r, options) =>
+    STAT_RECORDS.get(r)?.headline?.(r, options) ?? defaultHeadline(r, options),
   parts: statParts,
   json: (r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, statJson(v)])),
 });

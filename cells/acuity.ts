@@ -14,6 +14,7 @@
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { Column, makeTable, type TableValue } from "./table.ts";
 import { defineValueType } from "./types.ts";
+import { formatMeasure } from "./display.ts";
 import { AcuityValue, acuityValue, findColumn, rowCount } from "./_acuity_values.ts";
 import {
   type Acuity,
@@ -82,6 +83,39 @@ defineValueType<ChartScoreValue>({
     const notes = s.notes.length ? ` (${s.notes.join("; ")})` : "";
     return `${line}; ${letters}; ${s.lettersRead} letters${notes}`;
   },
+  headline: ({ score: s }) =>
+    s.letterLogMAR === null
+      ? "no letter read"
+      : `${formatAcuity(acuityFromLogMAR(s.letterLogMAR))} letter by letter`,
+  parts: ({ score: s }) => [
+    {
+      key: "lineLogMAR",
+      label: "line credited",
+      value: s.lineLogMAR,
+      display: s.lineLogMAR === null
+        ? "no line credited"
+        : `${formatAcuity(acuityFromLogMAR(s.lineLogMAR))}${
+          s.lineMissed ? ` -${s.lineMissed}` : ""
+        }${s.nextLineRead ? ` +${s.nextLineRead}` : ""}`,
+    },
+    {
+      key: "letterLogMAR",
+      label: "letter by letter",
+      value: s.letterLogMAR,
+      display: s.letterLogMAR === null
+        ? "no letter read"
+        : formatAcuity(acuityFromLogMAR(s.letterLogMAR)),
+    },
+    {
+      key: "lettersRead",
+      label: "letters read",
+      value: s.lettersRead,
+      display: formatMeasure(s.lettersRead, "count"),
+    },
+    { key: "lineMissed", label: "letters missed on the line credited", value: s.lineMissed },
+    { key: "nextLineRead", label: "letters read on the next line", value: s.nextLineRead },
+    ...s.notes.map((n, i) => ({ key: `note${i + 1}`, label: "note", value: n })),
+  ],
   json: ({ score }) => score,
 });
 
@@ -306,7 +340,7 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
     fn: (top, lines, letters, step) => {
       const chart = regularChart(top as number, lines as number, letters as number, step as number);
       return makeTable("chart", [
-        new Column("size", "number", "", Float64Array.from(chart, (l) => l.logMAR)),
+        new Column("size", "number", "logMAR", Float64Array.from(chart, (l) => l.logMAR)),
         new Column("letters", "number", "", Float64Array.from(chart, (l) => l.letters)),
         new Column("read", "number", "", new Float64Array(chart.length).fill(NaN)),
       ]);

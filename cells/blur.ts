@@ -35,7 +35,8 @@ import {
   minusAbsorbed,
 } from "../lib/accommodation.ts";
 import { powerRange, predictThroughFocus } from "../lib/through_focus.ts";
-import { signed } from "./display.ts";
+import { fixed, signed } from "./display.ts";
+import { markExact, quantity } from "./quantity.ts";
 import { REFERENCE_VALUES } from "../shared/constants.ts";
 
 const PUPIL: ParamSpec = {
@@ -109,6 +110,28 @@ defineValueType<AmplitudeValue>({
     `minimum ${a.minimum.toFixed(2)} D, mean ${a.mean.toFixed(2)} D, maximum ${
       a.maximum.toFixed(2)
     } D at ${a.age} years${a.clamped ? " (held at 0 where the formula goes below)" : ""}`,
+  headline: ({ amplitude: a }) => `${fixed(a.mean, 2)} D mean at ${a.age} years`,
+  parts: ({ amplitude: a }) => [
+    {
+      key: "minimum",
+      label: "minimum (Hofstetter)",
+      value: markExact(quantity(a.minimum, "D"), { unsigned: true }),
+    },
+    {
+      key: "mean",
+      label: "mean (Hofstetter)",
+      value: markExact(quantity(a.mean, "D"), { unsigned: true }),
+    },
+    {
+      key: "maximum",
+      label: "maximum (Hofstetter)",
+      value: markExact(quantity(a.maximum, "D"), { unsigned: true }),
+    },
+    { key: "age", label: "age", value: quantity(a.age, "years") },
+    ...(a.clamped
+      ? [{ key: "note", label: "note", value: "held at 0 where the formula goes below" }]
+      : []),
+  ],
   json: ({ amplitude }) => amplitude,
 });
 
@@ -191,24 +214,34 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       return new Measures("pinhole", [
         {
           key: "withoutPinhole",
-          label: "without pinhole",
+          label: "blur without the pinhole",
           value: r.pupil.combined,
           unit: "arcmin",
         },
-        { key: "withPinhole", label: "with pinhole", value: r.pinhole.combined, unit: "arcmin" },
+        {
+          key: "withPinhole",
+          label: "blur through the pinhole",
+          value: r.pinhole.combined,
+          unit: "arcmin",
+        },
         {
           key: "pinholeGeometric",
-          label: "pinhole geometric",
+          label: "through the pinhole, geometric part",
           value: r.pinhole.geometric,
           unit: "arcmin",
         },
         {
           key: "pinholeDiffraction",
-          label: "pinhole diffraction",
+          label: "through the pinhole, diffraction part",
           value: r.pinhole.diffraction,
           unit: "arcmin",
         },
-        { key: "ratio", label: "ratio", value: r.ratio, unit: "" },
+        {
+          key: "ratio",
+          label: "pinhole blur as a share of the blur without it",
+          value: r.ratio,
+          unit: "",
+        },
       ]);
     },
   }),
@@ -228,12 +261,12 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       const c = compareBlur(b as number, decimalOf(acuityOf(a)));
       return new Measures("blur comparison", [
         { key: "blur", label: "blur", value: c.blur, unit: "arcmin" },
-        { key: "coneSpacing", label: "cone spacing", value: c.coneSpacing, unit: "arcmin" },
-        { key: "detail", label: "optotype detail", value: c.detail, unit: "arcmin" },
-        { key: "letter", label: "optotype size", value: c.letter, unit: "arcmin" },
-        { key: "blurOverCones", label: "blur/cones", value: c.toCones, unit: "" },
-        { key: "blurOverDetail", label: "blur/detail", value: c.toDetail, unit: "" },
-        { key: "blurOverLetter", label: "blur/size", value: c.toLetter, unit: "" },
+        { key: "coneSpacing", label: "foveal cone spacing", value: c.coneSpacing, unit: "arcmin" },
+        { key: "detail", label: "optotype detail (stroke, gap)", value: c.detail, unit: "arcmin" },
+        { key: "letter", label: "optotype size (overall)", value: c.letter, unit: "arcmin" },
+        { key: "blurOverCones", label: "blur in cone spacings", value: c.toCones, unit: "" },
+        { key: "blurOverDetail", label: "blur in optotype details", value: c.toDetail, unit: "" },
+        { key: "blurOverLetter", label: "blur in optotype sizes", value: c.toLetter, unit: "" },
       ]);
     },
   }),
@@ -367,7 +400,7 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
       });
       return makeTable(`throughFocus ${signed(r)} D`, [
         new Column("lens", "quantity", "D", Float64Array.from(pts, (p) => p.power)),
-        new Column("va", "number", "", Float64Array.from(pts, (p) => p.logMAR)),
+        new Column("va", "number", "logMAR", Float64Array.from(pts, (p) => p.logMAR)),
         new Column("residual", "quantity", "D", Float64Array.from(pts, (p) => p.residual)),
       ]);
     },

@@ -112,7 +112,7 @@ export function formatQuantity(value: number, unit: string, powerStep?: number):
  * import { formatMeasure } from "./display.ts";
  * formatMeasure(0.1996, "logMAR"); // "0.20 logMAR"
  * formatMeasure(75.02, "letters"); // "75 letters"
- * formatMeasure(0.0123, "covariance"); // "0.012 D²"
+ * formatMeasure(-0.0001548, "covariance"); // "-0.0001548 D²"
  * formatMeasure(0.1996, "logMAR", { bare: true }); // "0.20"
  * ```
  */

@@ -14,10 +14,10 @@
 
 import { defineFormula, type FormulaSpec } from "./catalogue.ts";
 import { Column, makeTable, type TableValue } from "./table.ts";
-import { defineValueType } from "./types.ts";
-import { findColumn, rowCount } from "./_acuity_values.ts";
-import { formatPower } from "./display.ts";
+import { defineValueType, type ValuePart } from "./types.ts";
 import { markExact, quantity } from "./quantity.ts";
+import { findColumn, rowCount } from "./_acuity_values.ts";
+import { fixed, formatMeasure, formatPower } from "./display.ts";
 import { type EndpointResult, findEndpoint, trialLogMAR, type TrialRow } from "../lib/endpoint.ts";
 import type { ChartLine } from "../lib/acuity_scoring.ts";
 import { LentilInputError } from "../lib/errors.ts";
@@ -29,25 +29,105 @@ export class EndpointValue {
   constructor(readonly result: EndpointResult) {}
 }
 
+const logMAR = (v: number) => formatMeasure(v, "logMAR");
+const dioptres = (v: number) => `${fixed(v, 2)} D`;
+
+function plateauText(r: EndpointResult): string {
+  return `${formatPower(r.plateau.to)} to ${formatPower(r.plateau.from)} (${
+    dioptres(r.plateau.width)
+  } wide${r.plateau.openMinus && r.trials.length > 1 ? ", open on the minus side" : ""})`;
+}
+
 function displayEndpoint({ result: r }: EndpointValue): string {
   const parts = [
-    `endpoint ${formatPower(r.endpoint)} (${r.endpointLogMAR.toFixed(2)} logMAR; best ${
-      r.bestLogMAR.toFixed(2)
-    }, tolerance ${r.tolerance.toFixed(2)})`,
-    `plateau ${formatPower(r.plateau.to)} to ${formatPower(r.plateau.from)} (${
-      r.plateau.width.toFixed(2)
-    } D${r.plateau.openMinus && r.trials.length > 1 ? ", open on the minus side" : ""})`,
+    `endpoint ${formatPower(r.endpoint)} (${logMAR(r.endpointLogMAR)}; best ${
+      logMAR(r.bestLogMAR)
+    }, tolerance ${logMAR(r.tolerance)})`,
+    `plateau ${plateauText(r)}`,
   ];
   if (r.fit) {
     const f = r.fit;
     parts.push(
       `fit ${f.model}: best focus ${formatPower(f.bestFocus)}, depth of focus ${
-        f.depthOfFocus.width.toFixed(2)
-      } D${f.depthOpen ? " or more" : ""}, rms ${f.rms.toFixed(3)} logMAR`,
+        dioptres(f.depthOfFocus.width)
+      }${f.depthOpen ? " or more" : ""}, rms ${fixed(f.rms, 3)} logMAR`,
     );
   }
   for (const w of r.warnings) parts.push(`warning: ${w.message}`);
   return parts.join("; ");
+}
+
+/** The endpoint's parts: keys as a later cell reads them, labels in words. */
+function endpointParts({ result: r }: EndpointValue): ValuePart[] {
+  const parts: ValuePart[] = [
+    {
+      key: "endpoint",
+      label: "endpoint (most plus lens with the best acuity)",
+      value: quantity(r.endpoint, "D"),
+      display: formatPower(r.endpoint),
+    },
+    {
+      key: "endpointLogMAR",
+      label: "acuity at the endpoint",
+      value: r.endpointLogMAR,
+      display: logMAR(r.endpointLogMAR),
+    },
+    { key: "bestLogMAR", label: "best acuity", value: r.bestLogMAR, display: logMAR(r.bestLogMAR) },
+    {
+      key: "tolerance",
+      label: "acuity counted as the best within",
+      value: r.tolerance,
+      display: logMAR(r.tolerance),
+    },
+    {
+      key: "plateauFrom",
+      label: "best acuity from (most plus lens)",
+      value: quantity(r.plateau.from, "D"),
+      display: formatPower(r.plateau.from),
+    },
+    {
+      key: "plateauTo",
+      label: "best acuity to (most minus lens)",
+      value: quantity(r.plateau.to, "D"),
+      display: formatPower(r.plateau.to),
+    },
+    {
+      key: "plateauWidth",
+      label: "width of the best-acuity range",
+      value: markExact(quantity(r.plateau.width, "D"), { unsigned: true }),
+      display: `${dioptres(r.plateau.width)}${
+        r.plateau.openMinus && r.trials.length > 1 ? ", open on the minus side" : ""
+      }`,
+    },
+  ];
+  if (r.fit) {
+    const f = r.fit;
+    parts.push(
+      {
+        key: "bestFocus",
+        label: `best focus (fitted ${f.model} curve)`,
+        value: markExact(quantity(f.bestFocus, "D")),
+        display: formatPower(f.bestFocus),
+      },
+      {
+        key: "depthOfFocus",
+        label: "depth of focus",
+        value: markExact(quantity(f.depthOfFocus.width, "D"), { unsigned: true }),
+        display: `${dioptres(f.depthOfFocus.width)}${f.depthOpen ? " or more" : ""}`,
+      },
+      {
+        key: "rms",
+        label: "fit residual (root mean square)",
+        value: f.rms,
+        display: `${fixed(f.rms, 3)} logMAR`,
+      },
+    );
+  }
+  r.warnings.forEach((w, i) =>
+    parts.push({ key: `warning${i + 1}`, label: "warning", value: w.message })
+  );
+  r.notes.forEach((n, i) => parts.push({ key: `note${i + 1}`, label: "note", value: n }));
+  return parts;
 }
 
 defineValueType<EndpointValue>({
@@ -55,34 +135,13 @@ defineValueType<EndpointValue>({
   summary: "a subjective endpoint found from a trial table",
   is: (x): x is EndpointValue => x instanceof EndpointValue,
   display: displayEndpoint,
+  headline: ({ result: r }) =>
+    `${formatPower(r.endpoint)} (${logMAR(r.endpointLogMAR)})${
+      r.warnings.length ? `, ${r.warnings.length} warning${r.warnings.length === 1 ? "" : "s"}` : ""
+    }`,
+  parts: endpointParts,
   json: ({ result }) => ({ ...result, caution: true }),
-  parts: ({ result: r }) => [
-    {
-      key: "endpoint",
-      label: "endpoint (most plus lens with the best acuity)",
-      value: power(r.endpoint),
-    },
-    { key: "endpointLogMAR", label: "acuity at the endpoint, logMAR", value: r.endpointLogMAR },
-    { key: "bestLogMAR", label: "best acuity, logMAR", value: r.bestLogMAR },
-    { key: "tolerance", label: "tolerance, logMAR", value: r.tolerance },
-    { key: "plateauFrom", label: "plateau, most plus end", value: power(r.plateau.from) },
-    { key: "plateauTo", label: "plateau, most minus end", value: power(r.plateau.to) },
-    {
-      key: "plateauWidth",
-      label: "plateau width",
-      value: markExact(quantity(r.plateau.width, "D")),
-    },
-    ...(r.fit
-      ? [{
-        key: "bestFocus",
-        label: "best focus of the fit",
-        value: markExact(quantity(r.fit.bestFocus, "D")),
-      }]
-      : []),
-  ],
 });
-
-const power = (d: number) => quantity(d, "D");
 
 const POWER_NAMES = ["lens", "power", "trial", "sphere"];
 const ACUITY_NAMES = ["va", "acuity", "logMAR", "letters", "reading"];
@@ -232,7 +291,7 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
       }
       return makeTable("endpointCurve", [
         new Column("lens", "quantity", "D", Float64Array.from(fit.curve, (p) => p.power)),
-        new Column("va", "number", "", Float64Array.from(fit.curve, (p) => p.logMAR)),
+        new Column("va", "number", "logMAR", Float64Array.from(fit.curve, (p) => p.logMAR)),
       ]);
     },
   }),

@@ -19,7 +19,7 @@ import { defineFormula, type FormulaSpec, type OptionSpec, type ParamSpec } from
 import { Column, makeTable } from "./table.ts";
 import { type CheckLine, defineValueType } from "./types.ts";
 import { formatNumber } from "./display.ts";
-import { quantity } from "./quantity.ts";
+import { markExact, quantity } from "./quantity.ts";
 import { defineRecordType, describeValue } from "./present.ts";
 import type { RxValue } from "./rx.ts";
 import type { AmplitudeLevel } from "../lib/accommodation.ts";
@@ -198,6 +198,22 @@ export const THICKNESS_RECORD = defineRecordType<
     { key: "centre", label: "centre thickness" },
     { key: "edgeThin", label: "thinnest edge" },
     { key: "edgeThick", label: "thickest edge" },
+  ],
+});
+
+/** A tentative near add and how it was found. */
+const TENTATIVE_ADD_RECORD = defineRecordType<
+  { add: unknown; needed: unknown; demand: unknown; amplitude: unknown; usable: unknown }
+>({
+  name: "tentativeAdd",
+  summary: "a tentative near add with the demand and the usable amplitude",
+  headline: (r) => `add ${describeValue(r.add).display}`,
+  parts: [
+    { key: "add", label: "tentative add (rounded up to 0.25 D)" },
+    { key: "needed", label: "add needed, exact" },
+    { key: "demand", label: "near demand" },
+    { key: "amplitude", label: "expected amplitude of accommodation" },
+    { key: "usable", label: "usable amplitude (reserve kept)" },
   ],
 });
 
@@ -598,13 +614,13 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
         reserve as number,
         level as AmplitudeLevel,
       );
-      return {
+      return TENTATIVE_ADD_RECORD.make({
         add: quantity(t.add, "D"),
-        needed: quantity(t.exact, "D"),
-        demand: quantity(t.demand, "D"),
-        amplitude: quantity(t.amplitude, "D"),
-        usable: quantity(t.usable, "D"),
-      };
+        needed: markExact(quantity(t.exact, "D")),
+        demand: markExact(quantity(t.demand, "D")),
+        amplitude: markExact(quantity(t.amplitude, "D"), { unsigned: true }),
+        usable: markExact(quantity(t.usable, "D"), { unsigned: true }),
+      });
     },
   }),
 ];

@@ -227,22 +227,92 @@ export function present(
   }
   const t = typeOfValue(x);
   if (t) {
-    const parts = t.parts?.(x, options).map((p) => partView(p, options));
+    const grouped = groupParts(t.parts?.(x, options) ?? [], options);
+    const parts = grouped.rest.map((p) => partView(p, options));
     const checks = t.checks?.(x, options);
     return {
       ...d,
       headline: t.headline?.(x, options) ?? d.display,
-      ...(parts?.length ? { parts } : {}),
+      ...(parts.length ? { parts } : {}),
       ...(checks?.length ? { checks } : {}),
+      ...(grouped.table ? { table: grouped.table } : {}),
     };
   }
   if (isPlainRecord(x)) {
-    const parts = Object.entries(x).map(([key, value]) =>
-      partView({ key, label: key, value }, options)
+    const grouped = groupParts(
+      Object.entries(x).map(([key, value]) => ({ key, label: key, value })),
+      options,
     );
-    return { ...d, headline: "", parts };
+    const parts = grouped.rest.map((p) => partView(p, options));
+    const keys = Object.keys(x);
+    const headline = grouped.table && !parts.length
+      ? `${keys.length} groups: ${keys.join(", ")}`
+      : "";
+    return {
+      ...d,
+      headline,
+      ...(parts.length ? { parts } : {}),
+      ...(grouped.table ? { table: grouped.table } : {}),
+    };
   }
   return { ...d, headline: d.display };
+}
+
+/**
+ * Parts that are themselves records with the same parts (statistics by group, agreement of
+ * M, J0 and J45) read as one table: a row each, a column for each of their parts.
+ */
+function groupParts(
+  parts: readonly ValuePart[],
+  options: DisplayOptions,
+): { rest: readonly ValuePart[]; table?: TableShown } {
+  const inner = parts.map((p) => {
+    const t = typeOfValue(p.value);
+    return t?.parts && !tableInfo(p.value) ? t.parts(p.value, options) : undefined;
+  });
+  const members = parts.filter((_, i) => inner[i]?.length);
+  if (members.length < 2) return { rest: parts };
+  const keys: string[] = [];
+  const labels = new Map<string, string>();
+  for (const list of inner) {
+    for (const q of list ?? []) {
+      if (!labels.has(q.key)) {
+        keys.push(q.key);
+        labels.set(q.key, q.label);
+      }
+    }
+  }
+  const rows = parts.flatMap((p, i) => {
+    const list = inner[i];
+    if (!list?.length) return [];
+    const byKey = new Map(list.map((q) => [q.key, q]));
+    return [[
+      p.label,
+      ...keys.map((k) => {
+        const q = byKey.get(k);
+        return q ? q.display ?? oneLine(q.value, options) : "";
+      }),
+    ]];
+  });
+  const numericLike = (i: number) =>
+    rows.every((r) => r[i] === "" || /^[+-−]?\d/.test(r[i]) || r[i] === "not available");
+  const table: TableShown = {
+    name: "",
+    columns: [
+      { name: "", unit: "", numeric: false, computed: false },
+      ...keys.map((k, i) => ({
+        name: labels.get(k)!,
+        unit: "",
+        numeric: numericLike(i + 1),
+        computed: false,
+      })),
+    ],
+    rows,
+    rowCount: rows.length,
+    excluded: 0,
+    footer: "",
+  };
+  return { rest: parts.filter((_, i) => !inner[i]?.length), table };
 }
 
 function isPlainRecord(x: unknown): x is Record<string, unknown> {
@@ -276,8 +346,8 @@ function oneLine(x: unknown, options: DisplayOptions): string {
 }
 
 function partsLine(parts: readonly ValuePart[], options: DisplayOptions): string {
-  return parts.map((p) => `${p.label} ${p.display ?? describeValue(p.value, options).display}`)
-    .join(", ");
+  return parts.map((p) => `${p.label}: ${p.display ?? describeValue(p.value, options).display}`)
+    .join("; ");
 }
 
 // ---- tables -------------------------------------------------------------------------------
@@ -299,10 +369,10 @@ export function tableCounts(info: TableInfo): string {
   const computed = info.columns.filter((col) => isComputed(info, col)).length;
   const rows = `${n.toLocaleString("en")} row${n === 1 ? "" : "s"}`;
   const cols = `${c} column${c === 1 ? "" : "s"}`;
-  const from = info.file ? ` from ${info.file}` : "";
+  const from = info.file ? ` from ${info.file}` : " entered";
   const split = computed
     ? ` (${c - computed}${from}, ${computed} computed)`
-    : from
+    : info.file
     ? ` (all${from})`
     : "";
   return `${rows}, ${cols}${split}`;
@@ -497,7 +567,7 @@ export function recordKind(x: unknown): string | undefined {
  * @example
  * ```ts
  * import { byKind } from "./present.ts";
- * byKind("covariance")(0.0123); // "0.012 D²"
+ * byKind("covariance")(0.0123); // "0.0123 D²"
  * ```
  */
 export function byKind(kind: MeasureKind): (value: unknown) => string {

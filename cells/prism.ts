@@ -19,6 +19,7 @@ import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts"
 import { defineValueType } from "./types.ts";
 import { EYE_PARAM, pickEye, requireEye } from "./_eye.ts";
 import { quantity } from "./quantity.ts";
+import { defineRecordType, describeValue } from "./present.ts";
 import type { RxValue } from "./rx.ts";
 import { toPowerMatrix } from "../lib/power_matrix.ts";
 import type { SpheroCylinder } from "../lib/spherocylinder.ts";
@@ -64,6 +65,58 @@ export const PRISM_TYPE = defineValueType<PrismValue>({
 });
 
 const rxOf = (x: unknown) => (x as RxValue).rx;
+const shown = (x: unknown) => describeValue(x).display;
+
+/** A prism's components, and its amount and base direction when the eye is known. */
+const COMPONENTS_RECORD = defineRecordType<
+  { horizontal: unknown; vertical: unknown; amount: unknown; base?: unknown }
+>({
+  name: "prismComponents",
+  summary: "a prism's horizontal and vertical components, amount and base",
+  headline: (r) => `${shown(r.amount)}${r.base === undefined ? "" : ` base ${shown(r.base)}`}`,
+  parts: [
+    { key: "horizontal", label: "horizontal (base in positive)" },
+    { key: "vertical", label: "vertical (base up positive)" },
+    { key: "amount", label: "amount" },
+    { key: "base", label: "base direction (360° notation)", when: (r) => r.base !== undefined },
+  ],
+});
+
+/** The vertical prism before each eye at a reading point and the imbalance. */
+const IMBALANCE_RECORD = defineRecordType<
+  { right: unknown; left: unknown; imbalance: unknown; baseUpEye: unknown }
+>({
+  name: "verticalImbalance",
+  summary: "the vertical prism before each eye at a reading point, and their imbalance",
+  headline: (r) =>
+    `${shown(r.imbalance)} vertical imbalance${
+      r.baseUpEye === "R" || r.baseUpEye === "L" ? `, ${r.baseUpEye} relatively base up` : ""
+    }`,
+  parts: [
+    { key: "right", label: "right eye" },
+    { key: "left", label: "left eye" },
+    { key: "imbalance", label: "vertical imbalance" },
+    {
+      key: "baseUpEye",
+      label: "eye relatively base up",
+      display: (v) => v === "R" ? "right (R)" : v === "L" ? "left (L)" : "neither",
+    },
+  ],
+});
+
+/** A decentration of the optical centre, in mm and in words. */
+const DECENTRATION_RECORD = defineRecordType<
+  { horizontal: unknown; vertical: unknown; move: unknown }
+>({
+  name: "decentration",
+  summary: "a decentration of the optical centre (mm) and the move in words",
+  headline: (r) => String(r.move),
+  parts: [
+    { key: "horizontal", label: "horizontal (in positive)" },
+    { key: "vertical", label: "vertical (up positive)" },
+    { key: "move", label: "the move, in words" },
+  ],
+});
 
 /**
  * The eye to compute with and the eye to report: a lens whose power matrix has no oblique
@@ -184,14 +237,13 @@ export const PRISM_FORMULAS: readonly FormulaSpec[] = [
     fn: (p, eye) => {
       const v = p as PrismValue;
       const e = pickEye(eye as string | undefined, v.eye);
-      const out: Record<string, unknown> = {
+      const polar = polarPrism(v.prism, e ?? "R");
+      return COMPONENTS_RECORD.make({
         horizontal: quantity(v.prism.horizontal, "prism"),
         vertical: quantity(v.prism.vertical, "prism"),
-      };
-      const polar = polarPrism(v.prism, e ?? "R");
-      out.amount = quantity(polar.amount, "prism");
-      if (e) out.base = quantity(polar.base, "deg");
-      return out;
+        amount: quantity(polar.amount, "prism"),
+        ...(e ? { base: quantity(polar.base, "deg") } : {}),
+      });
     },
   }),
   defineFormula({
@@ -225,12 +277,12 @@ export const PRISM_FORMULAS: readonly FormulaSpec[] = [
     example: 'verticalImbalance(rx("+3.00 DS"), rx("+1.00 / -1.00 x 180"), 10 mm)',
     fn: (r, l, drop, inset) => {
       const v = verticalImbalance(rxOf(r), rxOf(l), drop as number, inset as number);
-      return {
+      return IMBALANCE_RECORD.make({
         right: new PrismValue(v.right, "R"),
         left: new PrismValue(v.left, "L"),
         imbalance: quantity(v.imbalance, "prism"),
         baseUpEye: v.baseUpEye,
-      };
+      });
     },
   }),
   defineFormula({
@@ -250,11 +302,11 @@ export const PRISM_FORMULAS: readonly FormulaSpec[] = [
       const pv = p as PrismValue;
       const [e] = eyeFor(rxOf(r), eye as string | undefined, pv.eye, rxOf(r).eye);
       const d = decentrationFor(rxOf(r), pv.prism, e);
-      return {
+      return DECENTRATION_RECORD.make({
         horizontal: quantity(d.horizontal, "mm"),
         vertical: quantity(d.vertical, "mm"),
         move: decentrationWords(d.horizontal, d.vertical),
-      };
+      });
     },
   }),
 ];

@@ -16,7 +16,8 @@
 
 import { defineFormula, type FormulaSpec, type OptionSpec, type ParamSpec } from "./catalogue.ts";
 import { defineValueType, type DisplayOptions } from "./types.ts";
-import { quantity, toNumberIn } from "./quantity.ts";
+import { markExact, quantity, toNumberIn } from "./quantity.ts";
+import { defineRecordType, describeValue } from "./present.ts";
 import { combineLenses, lensDifference, overRefraction } from "../lib/combine.ts";
 import {
   checkPowerMatrix,
@@ -126,16 +127,65 @@ function ruleOf(x: unknown): RoundingRule {
   throw new TypeError(`rounding rule "${x}" is not one of "nearest", "plus", "minus"`);
 }
 
+const shown = (x: unknown) => describeValue(x).display;
+
+/** A power vector: M, J0, J45 and the blur strength B, measures in D (not lens powers). */
+export const POWER_VECTOR_RECORD = defineRecordType<
+  { M: unknown; J0: unknown; J45: unknown; B: unknown }
+>({
+  name: "powerVector",
+  summary: "a power vector M, J0, J45 with the blur strength B",
+  headline: (r) => `M ${shown(r.M)}, J0 ${shown(r.J0)}, J45 ${shown(r.J45)}`,
+  parts: [
+    { key: "M", label: "M, spherical equivalent" },
+    { key: "J0", label: "J0, cross-cylinder at 0° and 90°" },
+    { key: "J45", label: "J45, cross-cylinder at 45° and 135°" },
+    { key: "B", label: "B, blur strength" },
+  ],
+});
+
 /** Power vector of a spherocylinder as a record of quantities. */
 function vectorRecord(rx: SpheroCylinder) {
   const v = toPowerVector(rx);
-  return {
-    M: quantity(v.m, "D"),
-    J0: quantity(v.j0, "D"),
-    J45: quantity(v.j45, "D"),
-    B: quantity(blurStrength(v), "D"),
-  };
+  return POWER_VECTOR_RECORD.make({
+    M: markExact(quantity(v.m, "D")),
+    J0: markExact(quantity(v.j0, "D")),
+    J45: markExact(quantity(v.j45, "D")),
+    B: markExact(quantity(blurStrength(v), "D"), { unsigned: true }),
+  });
 }
+
+/** The principal powers of a lens and their meridians. */
+export const PRINCIPAL_POWERS_RECORD = defineRecordType<
+  { power1: unknown; meridian1: unknown; power2: unknown; meridian2: unknown }
+>({
+  name: "principalPowers",
+  summary: "the two principal powers of a lens and their meridians",
+  headline: (r) =>
+    `${shown(r.power1)} along ${shown(r.meridian1)}, ${shown(r.power2)} along ${
+      shown(r.meridian2)
+    }`,
+  parts: [
+    { key: "power1", label: "first principal power" },
+    { key: "meridian1", label: "its meridian" },
+    { key: "power2", label: "second principal power" },
+    { key: "meridian2", label: "its meridian" },
+  ],
+});
+
+/** A contact-lens power at the cornea: exact, rounded to the step, and the rule used. */
+export const CORNEA_POWER_RECORD = defineRecordType<
+  { atCornea: unknown; rounded: unknown; rule: unknown }
+>({
+  name: "corneaPower",
+  summary: "a power at the cornea, exact and rounded to the available step",
+  headline: (r) => shown(r.rounded),
+  parts: [
+    { key: "rounded", label: "to order (rounded to the step)" },
+    { key: "atCornea", label: "exact, at the cornea" },
+    { key: "rule", label: "rounding rule" },
+  ],
+});
 
 /** Prescription formulas. */
 export const RX_FORMULAS: readonly FormulaSpec[] = [
@@ -328,12 +378,12 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
     example: 'principalPowers(rx("-2.00 / -1.00 x 30"))',
     fn: (r) => {
       const p = principalPowers(toPowerMatrix(rxOf(r)));
-      return {
+      return PRINCIPAL_POWERS_RECORD.make({
         power1: quantity(p.power1, "D"),
         meridian1: quantity(p.meridian1, "deg"),
         power2: quantity(p.power2, "D"),
         meridian2: quantity(p.meridian2, "deg"),
-      };
+      });
     },
   }),
   defineFormula({
@@ -400,11 +450,11 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
     fn: (r, v, step, rule) => {
       const exact = cornealPower(rxOf(r), v as number);
       const how = ruleOf(rule);
-      return {
+      return CORNEA_POWER_RECORD.make({
         atCornea: new RxValue(exact, true),
         rounded: rxValue(roundToStep(exact, step as number, how)),
         rule: `${ROUNDING_RULES[how]}, step ${(step as number).toFixed(3).replace(/0$/, "")} D`,
-      };
+      });
     },
   }),
   defineFormula({

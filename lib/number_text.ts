@@ -83,7 +83,7 @@ export const MEASURE_RULES: Readonly<Record<MeasureKind, MeasureRule>> = {
   micrometre: { doc: "micrometres: whole, written µm", decimals: 0, unit: "µm" },
   nanometre: { doc: "nanometres: whole", decimals: 0, unit: "nm" },
   length: { doc: "a length in mm or cm: two decimals", decimals: 2, unit: "mm" },
-  covariance: { doc: "a covariance of powers: three decimals, in D²", decimals: 3, unit: "D²" },
+  covariance: { doc: "a covariance of powers: four significant figures, in D²", unit: "D²" },
   ratio: { doc: "a ratio: two decimals", decimals: 2, unit: "" },
   count: { doc: "a count: whole, with thousands separators", decimals: 0, unit: "" },
   plain: { doc: "any other number: four significant figures", unit: "" },
@@ -210,7 +210,7 @@ export function measureNumber(value: number, kind: MeasureKind): string {
  * ```ts
  * import { measureText } from "./number_text.ts";
  * measureText(175.2, "axis"); // "175°"
- * measureText(0.0123, "covariance"); // "0.012 D²"
+ * measureText(0.01234, "covariance"); // "0.01234 D²"
  * measureText(12.3, "micrometre"); // "12 µm"
  * ```
  */

@@ -4,6 +4,7 @@ import { getLanguage } from "../cells/language.ts";
 import { getValueType } from "../cells/types.ts";
 import { RxValue } from "../cells/rx.ts";
 import { tableInfo } from "../cells/table.ts";
+import { present } from "../cells/present.ts";
 
 const lang = getLanguage();
 const run = (expr: string) => lang.compile(lang.parse(expr)).evaluate({ ...lang.constants });
@@ -28,11 +29,20 @@ Deno.test("rx value type: text or value, shown in the trade's way", () => {
   // vertex-formula at 12 mm: −6.00 / −1.50 × 180 → −5.60 / −1.28 × 180 at the cornea. The
   // exact figure is shown exact, so it cannot be mistaken for a rounding by another rule than
   // the one stated beside the rounded power
-  const cl = lang.describe(
+  const cl = present(
     run('contactLensPower("-6.00 / -1.50 x 180", 12 mm, {step: 0.25 D, rule: "minus"})'),
-  )
-    .display;
-  assert.match(cl, /^atCornea: -5\.60 \/ -1\.28 × 180, rounded: -5\.75 \/ -1\.25 × 180, rule: /);
+  );
+  // The headline is the lens to order; the parts are labelled in words, keyed by field name.
+  assert.equal(cl.headline, "-5.75 / -1.25 × 180");
+  assert.deepEqual(cl.parts?.map((p) => [p.key, p.display]), [
+    ["rounded", "-5.75 / -1.25 × 180"],
+    ["atCornea", "-5.60 / -1.28 × 180"],
+    [
+      "rule",
+      "each principal meridian power rounded down to the next step (toward minus); axis to the nearest degree, step 0.25 D",
+    ],
+  ]);
+  assert.ok(cl.parts?.every((p) => !/[a-z][A-Z]/.test(p.label)), "labels in words");
   assert.deepEqual(lang.describe(run('rx("L: +1.00 DS add +2.50 1 BU")')).value, {
     sphere: 1,
     cylinder: 0,

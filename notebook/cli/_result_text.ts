@@ -123,7 +123,7 @@ export function resultBelow(r: TextResult, width: number, indent: number): strin
     }
   }
   if (r.checks?.length) lines.push(...checkText(r.checks, room).map((l) => lead + l));
-  if (r.table) lines.push(...tableText(r.table, room).map((l) => lead + l));
+  if (r.table) lines.push(...tableText(r.table, room).map((l) => (lead + l).trimEnd()));
   return lines;
 }
 
@@ -212,6 +212,6 @@ export function tableText(t: TableShown, width: number): string[] {
     out.push(g.map((i) => "-".repeat(widths[i])).join("  "));
     for (const r of t.rows) out.push(g.map((i) => cell(r[i] ?? "", i)).join("  ").trimEnd());
   });
-  out.push(...wrap(t.footer, width));
+  if (t.footer) out.push(...wrap(t.footer, width));
   return out;
 }

@@ -161,7 +161,7 @@ export function dataTableHtml(t: TableShown, label: string): string {
     `<table class="lx-data-table" data-rows="${t.rowCount}"><thead><tr>${th}</tr></thead>` +
       `<tbody>\n${body}\n</tbody></table>`,
     `table ${label}`,
-  ) + `<p class="lx-table-foot">${escapeHtml(t.footer)}</p>`;
+  ) + (t.footer ? `<p class="lx-table-foot">${escapeHtml(t.footer)}</p>` : "");
 }
 
 /**

@@ -61,7 +61,8 @@ export function renderReportText(
       );
       continue;
     }
-    const hasBelow = !!(c.parts?.length || c.checks?.length || c.table);
+    // A table block is listed in one line (its file holds the rows); a formula's table shows its rows.
+    const hasBelow = !!(c.parts?.length || c.checks?.length || (c.table && c.kind !== "table"));
     const head = hasBelow ? c.headline : c.display;
     lines.push(...wrapAfter(`${lead}= `, `${head}${notes}${note}`.trim(), width));
     if (hasBelow) lines.push(...resultBelow(c, width, nameWidth + 3));
