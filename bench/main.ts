@@ -9,6 +9,7 @@ import * as engine from "./engine.ts";
 import * as exporting from "./export.ts";
 import * as harden from "./harden.ts";
 import * as live from "./live.ts";
+import * as rowwise from "./rowwise.ts";
 import * as start from "./start.ts";
 import * as tables from "./tables.ts";
 
@@ -22,6 +23,7 @@ const modules: [string, BenchModule][] = [
   ["export", exporting],
   ["harden", harden],
   ["live", live],
+  ["rowwise", rowwise],
   ["start", start],
   ["tables", tables],
 ];

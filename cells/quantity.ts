@@ -150,7 +150,80 @@ export function columnToArray(c: Column): unknown[] {
  * ```
  */
 export function quantity(value: number, unit: string): Unit {
-  return formulaMath().unit(value + 0, unit);
+  const shape = SHAPES.get(unit) ?? shapeOf(unit);
+  // The same object the library's `unit(value, text)` builds (a test holds them equal),
+  // without reading the unit text again: tables make one quantity a value.
+  const q = Object.create(shape.prototype) as UnitFields;
+  q.fixPrefix = shape.fixPrefix;
+  q.skipAutomaticSimplification = shape.skipAutomaticSimplification;
+  q.units = shape.units.map((u) => ({ unit: u.unit, prefix: u.prefix, power: u.power }));
+  q.dimensions = shape.dimensions.slice(0);
+  let v = value + 0;
+  for (const f of shape.factors) v = v * f;
+  q.value = v;
+  return q as unknown as Unit;
+}
+
+/** The fields of a library quantity that {@linkcode quantity} fills in. */
+interface UnitFields {
+  fixPrefix: boolean;
+  skipAutomaticSimplification: boolean;
+  units: { unit: { value: number; offset: number }; prefix: { value: number }; power: number }[];
+  dimensions: number[];
+  value: number;
+}
+
+/** A unit read from text once: its parts and the factors to its base units, in order. */
+interface UnitShape extends Omit<UnitFields, "value"> {
+  readonly prototype: object;
+  readonly factors: readonly number[];
+  readonly offsetFree: boolean;
+}
+
+const SHAPES = new Map<string, UnitShape>();
+
+function shapeOf(unit: string): UnitShape {
+  const u = formulaMath().unit(unit) as unknown as UnitFields;
+  const shape: UnitShape = {
+    prototype: Object.getPrototypeOf(u),
+    fixPrefix: u.fixPrefix,
+    skipAutomaticSimplification: u.skipAutomaticSimplification,
+    units: u.units,
+    dimensions: u.dimensions,
+    // As the library normalises a number: times (unit × prefix) to the power, unit by unit.
+    factors: u.units.map((p) => Math.pow(p.unit.value * p.prefix.value, p.power)),
+    offsetFree: u.units.every((p) => p.unit.offset === 0),
+  };
+  SHAPES.set(unit, shape);
+  return shape;
+}
+
+/**
+ * `x.toNumber(unit)` for a quantity of the same kind, as the library computes it (divided by
+ * (unit × prefix) to the power, unit by unit), without reading the unit text again; units
+ * with an offset (none of Lentil's) go through the library.
+ */
+function numberIn(x: Unit, unit: string): number {
+  const shape = SHAPES.get(unit) ?? shapeOf(unit);
+  const own = (x as unknown as UnitFields).units;
+  const v0 = (x as unknown as UnitFields).value;
+  if (
+    typeof v0 !== "number" || !shape.offsetFree || !own.every((u) => u.unit.offset === 0)
+  ) {
+    return x.toNumber(unit);
+  }
+  let v = v0;
+  for (const f of shape.factors) v = v / f;
+  return v;
+}
+
+/** One of each unit, to compare kinds of quantity with. */
+const ONES = new Map<string, Unit>();
+
+function one(unit: string): Unit {
+  let u = ONES.get(unit);
+  if (!u) ONES.set(unit, u = quantity(1, unit));
+  return u;
 }
 
 const EXACT = Symbol("lentil.exact");
@@ -233,10 +306,10 @@ export function toNumberIn(x: unknown, unit: string): number {
       if (si.dimensions.every((d: number) => d === 0)) return si.toNumber();
       throw new TypeError(`expected a pure number, got ${x.toString()}`);
     }
-    if (!x.equalBase(quantity(1, unit))) {
+    if (!x.equalBase(one(unit))) {
       throw new TypeError(`expected a quantity in ${unit}, got ${x.toString()}`);
     }
-    return x.toNumber(unit);
+    return numberIn(x, unit);
   }
   if (typeof x === "boolean") throw new TypeError(`expected a number, got ${x}`);
   throw new TypeError(`expected a number${unit ? ` in ${unit}` : ""}, got ${typeof x}`);
@@ -255,7 +328,7 @@ export function toNumberIn(x: unknown, unit: string): number {
 export function quantityParts(x: unknown): { value: number; unit: string } | undefined {
   if (!isQuantity(x)) return undefined;
   for (const u of PREFERRED_UNITS) {
-    if (x.equalBase(quantity(1, u))) {
+    if (x.equalBase(one(u))) {
       const own = x.formatUnits();
       const unit = PREFERRED_UNITS.includes(own) ? own : u;
       return { value: x.toNumber(unit), unit };

@@ -10,6 +10,7 @@ import assert from "node:assert/strict";
 import { all, create } from "mathjs";
 import { MATHJS_FACTORIES } from "../cells/_mathjs_files.ts";
 import { getLanguage } from "../cells/language.ts";
+import { formulaMath, quantity, toNumberIn, USABLE_UNITS } from "../cells/quantity.ts";
 import { Notebook } from "../notebook/engine/engine.ts";
 import { factoryFiles, filesModule } from "./_mathjs_files.ts";
 
@@ -79,4 +80,21 @@ Deno.test("functions a notebook does not need are refused at the cell, in words"
   assert.match(nb.result("c")!.error!.message, /at most 100,000/);
   assert.equal(nb.result("d")!.error, undefined);
   assert.match(nb.result("r")!.error!.message, /unknown function "random"/);
+});
+
+Deno.test("quantities built from a unit read once are the library's own, and convert alike", () => {
+  // Reference: the library's unit(value, text) and toNumber(text) on the same instance.
+  const math = formulaMath();
+  const values = [0, -0, 1, -2.5, 0.1, 1 / 3, 12.75, -1e-9, 1e12, 179.99999999999997];
+  for (const unit of USABLE_UNITS) {
+    for (const v of values) {
+      const ours = quantity(v, unit);
+      const theirs = math.unit(v + 0, unit);
+      assert.deepStrictEqual(ours, theirs, `${v} ${unit}`);
+      for (const to of USABLE_UNITS) {
+        if (!theirs.equalBase(math.unit(1, to))) continue;
+        assert.equal(toNumberIn(ours, to), theirs.toNumber(to), `${v} ${unit} → ${to}`);
+      }
+    }
+  }
 });

@@ -95,7 +95,7 @@ for (const expr of COMPILED) {
 const FALLBACK = [
   "sph * cyl",
   "x > 0 ? sph : cyl",
-  "eye",
+  "eye + 1",
   "mod(x, 2)",
   "sqrt(sph)",
   "exp(sph)",
@@ -160,11 +160,147 @@ Deno.test("the engine compiles power-vector columns and reports the path", () =>
   ].join("\n");
   const nb = Notebook.fromText(text, "v.lentil.md");
   assert.equal(nb.columnPath("eyes.M")?.path, "compiled");
-  assert.equal(nb.columnPath("eyes.tag")?.path, "row-wise");
+  // A text column passed through is compiled too: its values are read as they are.
+  assert.equal(nb.columnPath("eyes.tag")?.path, "compiled");
   const m = nb.value("eyes.M") as Column;
   assert.deepEqual(Array.from(m.data as Float64Array), [-2.5, 0]);
   assert.equal(m.unit, "D");
   const j0 = nb.value("eyes.J0") as Column;
   assert.ok(Math.abs((j0.data as Float64Array)[0] - 0.5) < 1e-12);
   assert.ok(Math.abs((j0.data as Float64Array)[1] - -1) < 1e-12);
+});
+
+// Text and typed-record columns: checked once at plan time, rows evaluated on plain values;
+// the same column as the row-wise path, and the same error at the same row.
+const ACUITY_TEXT = ["6/6", "6/9", "20/40", "0.3 logMAR", "1.0", "85 letters", "6/12", "20/20"];
+const PRISM_TEXT = ["1.5 BU", "2 BI", "R 2 base 30", "0.5 BD", "3 BO"];
+const RX_TEXT = ["-2.25 / -0.75 x 170", "+1.00 DS", "-4.00 / -1.25 x 90", "plano / -0.50 x 45"];
+const typed = (() => {
+  const pick = <T>(xs: readonly T[], i: number) => xs[(i * 7 + 3) % xs.length];
+  const prism = lang.compile(lang.parse("readPrism(t)"));
+  const rx = lang.compile(lang.parse("rx(t)"));
+  const of = (ev: { evaluate(s: unknown): unknown }, t: string) => ev.evaluate(new Map([["t", t]]));
+  const acuities = Array.from({ length: N }, (_, i) => pick(ACUITY_TEXT, i));
+  return [
+    ...columns,
+    new Column("va", "text", "", acuities),
+    new Column(
+      "p",
+      "prism",
+      "",
+      Array.from({ length: N }, (_, i) => of(prism, pick(PRISM_TEXT, i))),
+    ),
+    new Column("rxs", "rx", "", Array.from({ length: N }, (_, i) => of(rx, pick(RX_TEXT, i)))),
+    new Column("rxt", "text", "", Array.from({ length: N }, (_, i) => pick(RX_TEXT, i))),
+  ].filter((c, i, all) => all.findIndex((d) => d.name === c.name) === i || c.type === "text");
+})();
+const typedColumns = typed.filter((c) => !(c.name === "va" && c.type === "number"));
+
+function sameAsRowWise(expr: string, cols: readonly Column[], rows = N) {
+  const node = lang.parse(expr);
+  const ev = lang.compile(node);
+  const plan = planColumn("out", node, ev, cols, scope, lang);
+  let expected: unknown;
+  try {
+    expected = evaluateRowWise("out", ev, cols, rows, scope, lang);
+  } catch (e) {
+    expected = (e as Error).message;
+  }
+  let got: unknown;
+  let path = "";
+  try {
+    const r = plan.run(cols, rows);
+    got = r.column;
+    path = r.path;
+  } catch (e) {
+    got = (e as Error).message;
+  }
+  return { plan, expected, got, path };
+}
+
+const TYPED = [
+  "toLogMAR(acuity(va))",
+  "toDecimal(va)",
+  "toLogMAR(acuity(va)) + 0.1",
+  'acuityAs(va, "decimal")',
+  "eye",
+  "prismComponents(p)",
+  "prismComponents(p, eye)",
+  "sphericalEquivalent(rxs)",
+  "sphericalEquivalent(rxs) + sph",
+  "sphericalEquivalent(rx(rxt))",
+  "transpose(rxs)",
+  "vertexRx(rxs, vd)",
+  "vertexRx(rxs, 12 mm)",
+  "powerVector(rxt)",
+  "meridianPower(rxs, axis)",
+];
+
+for (const expr of TYPED) {
+  Deno.test(`typed column equals row-wise: ${expr}`, () => {
+    // common practice, no source: both paths of the same language must agree
+    const { plan, expected, got, path } = sameAsRowWise(expr, typedColumns);
+    assert.equal(plan.compiled, true, plan.reason);
+    assert.equal(path, "compiled");
+    assert.deepEqual(got, expected);
+  });
+}
+
+Deno.test("a bad value in a typed column is the language's error at its row", () => {
+  // common practice, no source
+  const bad = [...ACUITY_TEXT, "6/x", "6/9"];
+  const cols = [
+    new Column("va", "text", "", bad),
+    new Column("p", "text", "", [
+      "1 BU",
+      "2 BI",
+      "1 BU",
+      "40 BU",
+      "1 BU",
+      "1 BU",
+      "x",
+      "1",
+      "1",
+      "1",
+    ]),
+  ];
+  for (
+    const expr of ["toLogMAR(acuity(va))", "toDecimal(va) * 2", "prismComponents(readPrism(p))"]
+  ) {
+    const { plan, expected, got } = sameAsRowWise(expr, cols, bad.length);
+    assert.equal(plan.compiled, true, plan.reason);
+    assert.equal(typeof expected, "string", expr);
+    assert.match(expected as string, /^row \d+: /);
+    assert.equal(got, expected, expr);
+  }
+});
+
+Deno.test("every computed column of the starters equals the row-wise path", async () => {
+  // common practice, no source: the column plan must not change a starter's columns
+  const { loadNotebook } = await import("../notebook/load.ts");
+  const { tableInfo } = await import("../cells/table.ts");
+  const dir = new URL("../seeds/", import.meta.url);
+  let checked = 0;
+  for (const e of Deno.readDirSync(dir)) {
+    if (!e.name.endsWith(".lentil.md")) continue;
+    const r = await loadNotebook(decodeURIComponent(new URL(e.name, dir).pathname));
+    assert.ok(r.ok);
+    const nb = r.notebook;
+    const scope = new Map<string, unknown>();
+    for (const c of nb.results()) {
+      if (c.kind === "cell" && c.value !== undefined) scope.set(c.id, c.value);
+    }
+    for (const cell of nb.doc.cells) {
+      if (!cell.table) continue;
+      const info = tableInfo(nb.value(cell.table))!;
+      const cols = info.columns.filter((c) => c.name !== cell.name);
+      const node = lang.parse(cell.expression);
+      const ev = lang.compile(node);
+      const planned = planColumn(cell.name, node, ev, cols, scope, lang).run(cols, info.rowCount);
+      const rowWise = evaluateRowWise(cell.name, ev, cols, info.rowCount, scope, lang);
+      assert.deepEqual(planned.column, rowWise, `${e.name}: ${cell.table}.${cell.name}`);
+      checked++;
+    }
+  }
+  assert.ok(checked >= 5, `${checked} columns checked`);
 });

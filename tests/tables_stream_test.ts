@@ -79,7 +79,7 @@ Deno.test("streaming gives the same columns and aggregates as the in-memory note
     ["M", "compiled"],
     ["J0", "compiled"],
     ["J45", "compiled"],
-    ["tag", "row-wise"],
+    ["tag", "compiled"],
   ]);
   const nb = Notebook.fromText(NOTEBOOK(), "s.lentil.md", {
     host: memoryHost({ "eyes.csv": data }),

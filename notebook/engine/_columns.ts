@@ -14,9 +14,16 @@
  * language defines in its own way (rounding, powers of negative numbers, min and max) are
  * called through the language itself, one element at a time, so they agree exactly.
  *
+ * Columns of text and typed records (an acuity as text, `[prism]`, `[rx]`) are compiled too:
+ * their values reach catalogue formulas as they are, through the language's own argument
+ * checks (`bindFormula`), units are checked once for the column, quantities are built only
+ * where a formula of records takes a quantity column, and a formula's number result in its
+ * declared unit stays a number. Any refusal at any row hands the whole column to the
+ * row-wise path, so results and errors (at their rows) are the language's own.
+ *
  * The loop is generated as JavaScript source built only from fixed templates: every leaf
- * is an index into an array of inputs (columns, constants, functions), never text from the
- * notebook, so no user string reaches `new Function`.
+ * is an index into an array of inputs (columns, constants, functions, values), never text
+ * from the notebook, so no user string reaches `new Function`.
  *
  * @module
  */
@@ -26,6 +33,7 @@ import type { Language } from "../../cells/language.ts";
 import type { FormulaSpec } from "../../cells/catalogue.ts";
 import { Column } from "../../cells/table.ts";
 import { typeOfValue } from "../../cells/types.ts";
+import { bindFormula } from "../../cells/_arguments.ts";
 import { RowScope } from "./_scope.ts";
 
 /** What the compiler needs to know of an input column. */
@@ -71,15 +79,22 @@ interface UnitParts {
   formatUnits(): string;
 }
 
-/** A static type: a plain number, a quantity (held in SI) with its unit, or a bare unit name. */
+/**
+ * A static type: a plain number, a quantity (held in SI) with its unit, a bare unit name, or
+ * a value the language holds as it is (text, true/false, a typed record such as an acuity or
+ * a prism) with its type's name.
+ */
 type Ty =
   | { readonly kind: "num" }
   | { readonly kind: "qty"; readonly unit: string; readonly base: string }
-  | { readonly kind: "unit"; readonly unit: string; readonly base: string; readonly scale: number };
+  | { readonly kind: "unit"; readonly unit: string; readonly base: string; readonly scale: number }
+  | { readonly kind: "val"; readonly type: string };
 
 interface Gen {
   readonly code: string;
   readonly ty: Ty;
+  /** For a quantity column read as it is: the raw value's code and its unit. */
+  readonly raw?: { readonly code: string; readonly unit: string };
 }
 
 class Unsupported extends Error {}
@@ -131,7 +146,8 @@ interface Inputs {
   readonly columns: number[];
   readonly colScale: number[];
   readonly consts: number[];
-  readonly fns: ((...a: number[]) => number)[];
+  readonly fns: ((...a: never[]) => unknown)[];
+  readonly values: unknown[];
 }
 
 function isUnitValue(x: unknown): x is UnitParts {
@@ -146,16 +162,20 @@ function generate(
   scope: ReadonlyMap<string, unknown>,
   lang: Language,
 ): { body: string; ty: Ty; inputs: Inputs } {
-  const inputs: Inputs = { columns: [], colScale: [], consts: [], fns: [] };
+  const inputs: Inputs = { columns: [], colScale: [], consts: [], fns: [], values: [] };
   const byName = new Map(shapes.map((s, i) => [s.name, i]));
   const angle = unitInfo(lang, ANGLE_PROBE)!;
   const konst = (v: number): string => {
     inputs.consts.push(v);
     return `k${inputs.consts.length - 1}`;
   };
-  const fn = (f: (...a: number[]) => number): string => {
+  const fn = (f: (...a: never[]) => unknown): string => {
     inputs.fns.push(f);
     return `f${inputs.fns.length - 1}`;
+  };
+  const held = (v: unknown): string => {
+    inputs.values.push(v);
+    return `v${inputs.values.length - 1}`;
   };
   const column = (j: number): string => {
     let at = inputs.columns.indexOf(j);
@@ -179,10 +199,20 @@ function generate(
     return r;
   };
 
+  const readsColumns = (n: MathNode): boolean =>
+    n.filter((m) => m.type === "SymbolNode" && byName.has((m as unknown as { name: string }).name))
+      .length > 0;
+
   const visit = (n: MathNode): Gen => {
     const any = n as unknown as Record<string, unknown>;
     switch (n.type) {
       case "ConstantNode": {
+        if (typeof any.value === "string") {
+          return { code: held(any.value), ty: { kind: "val", type: "text" } };
+        }
+        if (typeof any.value === "boolean") {
+          return { code: held(any.value), ty: { kind: "val", type: "boolean" } };
+        }
         need(typeof any.value === "number", "a constant that is not a number");
         return { code: konst(any.value as number), ty: NUM };
       }
@@ -206,7 +236,11 @@ function generate(
     const j = byName.get(name);
     if (j !== undefined) {
       const s = shapes[j];
-      need(s.numeric, `column ${name} holds ${s.type} values`);
+      if (!s.numeric) {
+        // Text and typed records reach formulas as they are, as the language passes them.
+        need(s.type !== "quantity" && s.type !== "number", `column ${name} has empty values`);
+        return { code: column(j), ty: { kind: "val", type: s.type } };
+      }
       if (s.type === "quantity" && s.unit) {
         const u = unitInfo(lang, s.unit);
         need(!!u, `unit ${s.unit} of column ${name}`);
@@ -215,6 +249,7 @@ function generate(
         return {
           code: u!.scale === 1 ? code : `(${code}*${konst(u!.scale)})`,
           ty: { kind: "qty", unit: s.unit, base: u!.base },
+          raw: { code: column(j), unit: s.unit },
         };
       }
       return { code: column(j), ty: NUM };
@@ -222,6 +257,10 @@ function generate(
     if (scope.has(name)) {
       const v = scope.get(name);
       if (typeof v === "number") return { code: konst(v), ty: NUM };
+      if (typeof v === "string") return { code: held(v), ty: { kind: "val", type: "text" } };
+      if (typeof v === "boolean") return { code: held(v), ty: { kind: "val", type: "boolean" } };
+      const t = isUnitValue(v) ? undefined : typeOfValue(v);
+      if (t) return { code: held(v), ty: { kind: "val", type: t.name } };
       need(isUnitValue(v), `${name} is not a number or a quantity`);
       const u = v as UnitParts;
       const unit = u.formatUnits();
@@ -241,14 +280,19 @@ function generate(
     need(g.ty.kind !== "unit", "a unit on its own");
     return g;
   };
+  /** A number or a quantity, for arithmetic and `Math` functions. */
+  const scalar = (g: Gen): Gen => {
+    need(g.ty.kind !== "val", `arithmetic on ${g.ty.kind === "val" ? g.ty.type : ""} values`);
+    return g;
+  };
 
   const operator = (op: string, args: MathNode[]): Gen => {
     if (op === "unaryMinus" || op === "unaryPlus") {
-      const a = value(visit(args[0]));
-      return op === "unaryMinus" ? { code: `(-${a.code})`, ty: a.ty } : a;
+      const a = scalar(value(visit(args[0])));
+      return op === "unaryMinus" ? { code: `(-${a.code})`, ty: a.ty } : { code: a.code, ty: a.ty };
     }
     need(args.length === 2, `operator ${op}`);
-    const [l, r] = args.map(visit);
+    const [l, r] = args.map((a) => scalar(visit(a)));
     switch (op) {
       case "add":
       case "subtract": {
@@ -303,7 +347,7 @@ function generate(
     const m = MATH_FUNCTIONS[name];
     if (m) {
       need(args.length === m.arity, `${name} with ${args.length} arguments`);
-      const gs = args.map((a) => value(visit(a)));
+      const gs = args.map((a) => scalar(value(visit(a))));
       for (const g of gs) {
         need(
           g.ty.kind === "num" || (!!m.angle && g.ty.kind === "qty" && g.ty.base === angle.base),
@@ -314,7 +358,7 @@ function generate(
     }
     if (name === "abs") {
       need(args.length === 1, "abs with more than one argument");
-      const a = value(visit(args[0]));
+      const a = scalar(value(visit(args[0])));
       return { code: `Math.abs(${a.code})`, ty: a.ty };
     }
     const lf = LANGUAGE_FUNCTIONS[name];
@@ -332,10 +376,12 @@ function generate(
 
   const formula = (spec: FormulaSpec, args: MathNode[]): Gen => {
     const scalar = (t: string) => t === "quantity" || t === "number" || t === "integer";
-    need(
-      !spec.variadic && spec.params.every((p) => scalar(p.type)) && scalar(spec.returns.type),
-      `${spec.name} takes or gives values that are not numbers or quantities`,
-    );
+    if (
+      spec.variadic || spec.options?.length || !spec.params.every((p) => scalar(p.type)) ||
+      !scalar(spec.returns.type)
+    ) {
+      return typedFormula(spec, args);
+    }
     need(args.length <= spec.params.length, `${spec.name} with too many arguments`);
     need(
       (spec.options ?? []).every((o) => typeof o.default === "number"),
@@ -375,6 +421,46 @@ function generate(
     return { code: call, ty: NUM };
   };
 
+  /**
+   * A formula that takes or gives text or typed records: called as the language calls it
+   * (the same argument checks and conversions), with quantities built only for quantity
+   * columns passed to it; a number result in the declared unit stays a number.
+   */
+  const typedFormula = (spec: FormulaSpec, args: MathNode[]): Gen => {
+    const codes = args.map((a) => {
+      if (!readsColumns(a)) {
+        // The same value on every row: evaluated once, by the language itself.
+        let v: unknown;
+        try {
+          v = lang.compile(a).evaluate(new RowScope(scope));
+        } catch {
+          throw new Unsupported(`${spec.name}: an argument that does not evaluate`);
+        }
+        return held(v);
+      }
+      const g = value(visit(a));
+      if (g.ty.kind !== "qty") return g.code;
+      need(!!g.raw, `${spec.name}: a computed quantity passed to a formula of records`);
+      const unit = g.raw!.unit;
+      return `${fn((v: number) => lang.quantity(v, unit))}(${g.raw!.code})`;
+    });
+    const call = `${fn(boundFormula(spec))}(${codes.join(",")})`;
+    const returns = spec.returns;
+    if (returns.type === "quantity" && returns.unit) {
+      const ru = unitInfo(lang, returns.unit);
+      need(!!ru, `${spec.name}: unit of the result`);
+      const code = `(${fn(numberResult(spec))}(${call})+0)`;
+      return {
+        code: ru!.scale === 1 ? code : `(${code}*${konst(ru!.scale)})`,
+        ty: { kind: "qty", unit: returns.unit, base: ru!.base },
+      };
+    }
+    if (returns.type === "quantity" || returns.type === "number" || returns.type === "integer") {
+      return { code: `${fn(numberResult(spec))}(${call})`, ty: NUM };
+    }
+    return { code: call, ty: { kind: "val", type: returns.type } };
+  };
+
   const top = value(visit(node));
   return { body: top.code, ty: top.ty, inputs };
 }
@@ -398,19 +484,54 @@ function checkedFormula(spec: FormulaSpec): (...a: number[]) => number {
   };
 }
 
+const BOUND = new WeakMap<FormulaSpec, (...a: unknown[]) => unknown>();
+
+/**
+ * A catalogue formula with the language's own argument checks and conversions, its result
+ * left as the formula gives it (no quantity built); any refusal hands the column back to the
+ * row-wise path, so the error reads as the language's own, at its row.
+ */
+function boundFormula(spec: FormulaSpec): (...a: unknown[]) => unknown {
+  let f = BOUND.get(spec);
+  if (!f) {
+    const bound = bindFormula(spec, (out) => out);
+    f = (...a: unknown[]) => {
+      try {
+        return bound(...a);
+      } catch (e) {
+        throw new Unsupported(`${spec.name}: ${(e as Error).message}`);
+      }
+    };
+    BOUND.set(spec, f);
+  }
+  return f;
+}
+
+/** The check that a formula declared to give a number gave one. */
+function numberResult(spec: FormulaSpec): (x: unknown) => number {
+  return (x: unknown) => {
+    if (typeof x !== "number") {
+      throw new Unsupported(`${spec.name} gave a value that is not a number`);
+    }
+    return x;
+  };
+}
+
 type Loop = (
-  c: readonly Float64Array[],
+  c: readonly ArrayLike<unknown>[],
   k: readonly number[],
-  f: readonly ((...a: number[]) => number)[],
-  out: Float64Array,
+  f: readonly ((...a: never[]) => unknown)[],
+  v: readonly unknown[],
+  out: Float64Array | unknown[],
   n: number,
 ) => void;
 
 function buildLoop(body: string, inputs: Inputs, outScale: number): Loop {
-  const lines = ['"use strict";', "return function loop(c, k, f, out, n) {"];
+  const lines = ['"use strict";', "return function loop(c, k, f, v, out, n) {"];
   inputs.columns.forEach((_, i) => lines.push(`const c${i} = c[${i}];`));
   inputs.consts.forEach((_, i) => lines.push(`const k${i} = k[${i}];`));
   inputs.fns.forEach((_, i) => lines.push(`const f${i} = f[${i}];`));
+  inputs.values.forEach((_, i) => lines.push(`const v${i} = v[${i}];`));
   const scaled = outScale === 1 ? body : `${body}/kOut`;
   if (outScale !== 1) lines.push(`const kOut = k[${inputs.consts.length}];`);
   lines.push(`for (let i = 0; i < n; i++) out[i] = ${scaled};`, "};");
@@ -466,18 +587,20 @@ export function planColumn(
   }
   const consts = outScale === 1 ? gen.inputs.consts : [...gen.inputs.consts, outScale];
   const loop = buildLoop(gen.body, gen.inputs, outScale);
+  const values = gen.ty.kind === "val";
   return {
     compiled: true,
     run(columns, rows) {
       if (rows === 0) return { column: rowWise(columns, rows), path: "row-wise" };
-      const arrays = gen.inputs.columns.map((j) => columns[j].data as Float64Array);
-      const out = new Float64Array(rows);
+      const arrays = gen.inputs.columns.map((j) => columns[j].data);
+      const out = values ? new Array<unknown>(rows) : new Float64Array(rows);
       try {
-        loop(arrays, consts, gen.inputs.fns, out, rows);
+        loop(arrays, consts, gen.inputs.fns, gen.inputs.values, out, rows);
       } catch (e) {
         if (!(e instanceof Unsupported)) throw e;
         return { column: rowWise(columns, rows), path: "row-wise" };
       }
+      if (values) return { column: toColumn(name, out as unknown[], lang), path: "compiled" };
       const column = outUnit
         ? new Column(name, "quantity", outUnit, out)
         : new Column(name, "number", "", out);
