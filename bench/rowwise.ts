@@ -14,7 +14,17 @@ import { seeded } from "../lib/seeded.ts";
 import { evaluateRowWise, planColumn } from "../notebook/engine/_columns.ts";
 import type { Goal } from "./goal.ts";
 
-const ACUITY = ["6/6", "6/9", "6/12", "6/18", "6/24", "20/20", "20/40", "0.3 logMAR", "0.8"];
+const ACUITY = [
+  "6/6",
+  "6/9",
+  "6/12",
+  "6/18",
+  "6/24",
+  "20/20",
+  "20/40",
+  "0.3 logMAR",
+  "0.8 decimal",
+];
 const PRISM = ["1 BU", "2 BI", "0.5 BD", "3 BO", "R 2 base 30", "L 1.5 base 200"];
 
 /** Invented columns of `n` rows: acuity as text, prisms and refractions as typed values. */

@@ -14,25 +14,58 @@ const folder = new URL("./", import.meta.resolve("mathjs"));
 
 type Create = (factories: FactoryFunctionMap, config?: ConfigOptions) => MathJsInstance;
 
-const [createModule, ...modules] = await Promise.all([
-  import(new URL("core/create.js", folder).href),
-  ...[...new Set(MATHJS_FACTORIES.map(([file]) => file))].map((file) =>
-    import(new URL(file, folder).href).then((m) => [file, m] as const)
-  ),
-]);
+// One module after another: Deno's loader takes many concurrent dynamic imports of one
+// package far more slowly than the same imports in turn.
+const createModule = await import(new URL("core/create.js", folder).href);
+const byFile = new Map<string, Record<string, unknown>>();
+for (const [file] of MATHJS_FACTORIES) {
+  if (!byFile.has(file)) byFile.set(file, await import(new URL(file, folder).href));
+}
 
-const byFile = new Map<string, Record<string, unknown>>(
-  modules as (readonly [string, Record<string, unknown>])[],
-);
+/** A factory of the library: a function of its dependencies, with its name and their names. */
+interface Factory {
+  (deps: Record<string, unknown>): unknown;
+  isFactory: true;
+  fn: string;
+  dependencies: string[];
+  meta?: unknown;
+}
+
+/**
+ * Dependencies these factories only call (read from the library's source): they are handed
+ * over as forwarders, so the quantity type does not build matrix multiplication and
+ * inversion (through `pow`) before a formula needs them.
+ */
+const CALLED_LATER: Readonly<Record<string, readonly string[]>> = {
+  createUnitClass: ["pow", "fix", "round", "equal"],
+  createPow: ["identity", "multiply", "inv", "matrix"],
+};
+
+/** `f` with the dependencies `later` forwarded to the instance on first call. */
+function deferring(f: Factory, later: readonly string[]): Factory {
+  const kept = f.dependencies.filter((d) => !later.includes(d.replace(/^\?/, "")));
+  const wrapped = ((deps: Record<string, unknown>) => {
+    const math = deps.math as Record<string, (...a: unknown[]) => unknown>;
+    const forwards = Object.fromEntries(
+      later.map((name) => [name, (...a: unknown[]) => math[name](...a)]),
+    );
+    return f({ ...deps, ...forwards });
+  }) as Factory;
+  wrapped.isFactory = true;
+  wrapped.fn = f.fn;
+  wrapped.dependencies = [...kept, "math"].sort();
+  if (f.meta) wrapped.meta = f.meta;
+  return wrapped;
+}
 
 /** The chosen factories by export name (`createAdd`, …). */
 const factories = Object.fromEntries(
   MATHJS_FACTORIES.map(([file, name]) => {
-    const f = byFile.get(file)?.[name];
+    const f = byFile.get(file)?.[name] as Factory | undefined;
     if (typeof f !== "function") {
       throw new Error(`the expression library has no ${name} in ${file} (reinstall or regenerate)`);
     }
-    return [name, f];
+    return [name, CALLED_LATER[name] ? deferring(f, CALLED_LATER[name]) : f];
   }),
 ) as unknown as FactoryFunctionMap;
 

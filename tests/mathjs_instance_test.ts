@@ -32,6 +32,13 @@ Deno.test("results agree with the expression library in full (general-purpose re
   const cases = [
     "2 + 3 * 4",
     "2 ^ 10",
+    "[1, 2; 3, 4] ^ 3",
+    "[1, 2; 3, 4] ^ -1",
+    "(2 mm) ^ 2",
+    "sqrt(4 m^2)",
+    "round(2.56789 mm, 2, mm)",
+    "fix(2.7 mm, mm)",
+    "1 mm == 0.1 cm",
     "7 mod 3",
     "sqrt(2) * cbrt(27)",
     "log(100, 10) + log10(1000) + log2(8) + exp(1)",

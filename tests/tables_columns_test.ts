@@ -172,7 +172,16 @@ Deno.test("the engine compiles power-vector columns and reports the path", () =>
 
 // Text and typed-record columns: checked once at plan time, rows evaluated on plain values;
 // the same column as the row-wise path, and the same error at the same row.
-const ACUITY_TEXT = ["6/6", "6/9", "20/40", "0.3 logMAR", "1.0", "85 letters", "6/12", "20/20"];
+const ACUITY_TEXT = [
+  "6/6",
+  "6/9",
+  "20/40",
+  "0.3 logMAR",
+  "1.0 decimal",
+  "85 letters",
+  "6/12",
+  "20/20",
+];
 const PRISM_TEXT = ["1.5 BU", "2 BI", "R 2 base 30", "0.5 BD", "3 BO"];
 const RX_TEXT = ["-2.25 / -0.75 x 170", "+1.00 DS", "-4.00 / -1.25 x 90", "plano / -0.50 x 45"];
 const typed = (() => {

@@ -21,7 +21,6 @@
  */
 
 import { parse as parseCsv } from "csv-parse/sync";
-import { parse as parseCsvStream } from "csv-parse";
 import { Column, makeTable, type TableValue } from "../../cells/table.ts";
 import { getValueType, listValueTypes } from "../../cells/types.ts";
 import type { Language } from "../../cells/language.ts";
@@ -685,6 +684,8 @@ export async function* csvBatches(
   path: string,
   batchSize = 4096,
 ): AsyncGenerator<CsvRecord[]> {
+  // The streaming parser (and the Node streams under it) loads only when a file streams.
+  const { parse: parseCsvStream } = await import("csv-parse");
   const parser = parseCsvStream(CSV_OPTIONS);
   const pump = (async () => {
     try {
