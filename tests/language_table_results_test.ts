@@ -4,6 +4,7 @@
 import assert from "node:assert/strict";
 import { Notebook } from "../notebook/engine/engine.ts";
 import { tableInfo } from "../cells/table.ts";
+import { parseNotebook } from "../notebook/format/parse.ts";
 import { renderNotebookHtml } from "../notebook/export/html.ts";
 
 const VISITS = "~~~lentil table v1\nsubject | eye | sph [D] | cyl [D] | axis [deg]\n" +
@@ -83,4 +84,14 @@ Deno.test("a column a returned table lacks, and a computed column on a value tha
     /table paired has no column "sphh1".*columns: subject, eye, sph1/,
   );
   assert.match(nb.result("k.y")!.error!.message, /k is \+2\.00 D, not a table/);
+});
+
+Deno.test("reconcile: removing a computed column of a returned table leaves no stale column", () => {
+  const text = (extra: string) =>
+    VISITS + '~~~lentil\npaired = pairRows(v1, v2, "subject", "eye")\n' +
+    `paired.d = sph2 - sph1\n${extra}~~~\n`;
+  const a = Notebook.fromText(text("paired.e = sph2 + sph1\n"), "r.lentil.md");
+  assert.ok(tableInfo(a.value("paired"))!.columns.some((c) => c.name === "e"));
+  const b = Notebook.reconcile(a, parseNotebook(text(""), "r.lentil.md")).notebook;
+  assert.deepEqual(tableInfo(b.value("paired"))!.columns.map((c) => c.name).slice(-1), ["d"]);
 });

@@ -316,14 +316,19 @@ export class Notebook {
     const place = withPlace
       ? [n.cell?.line, n.cell?.exprCol, n.block?.line, n.block?.col, n.raw?.file]
       : [];
+    const computed = () =>
+      [...this.#nodes.values()]
+        .filter((m) => m.kind === "column" && m.table === n.name).map((m) => m.id).sort();
     const table = n.kind === "table"
       ? {
         options: Object.entries(n.block?.options ?? {}).map(([k, o]) => [k, o.value]),
         columns: n.raw?.columns.map((c) => [c.name, c.spec]),
         rows: n.raw?.rows.map((r) => r.cells),
-        computed: [...this.#nodes.values()]
-          .filter((m) => m.kind === "column" && m.table === n.name).map((m) => m.id).sort(),
+        computed: computed(),
       }
+      // A cell whose table result takes computed columns is re-made when they change.
+      : n.kind === "cell"
+      ? { computed: computed() }
       : undefined;
     return JSON.stringify([
       n.kind,
