@@ -15,8 +15,15 @@ import { columnToArray, quantityParts, toNumberIn } from "./quantity.ts";
 
 /** A formula call whose arguments do not fit its declaration. */
 export class FormulaArgumentError extends TypeError {
-  /** @param formula formula name; @param message what was wrong. */
-  constructor(readonly formula: string, message: string) {
+  /**
+   * @param formula formula name; @param message what was wrong; @param argument which
+   * argument (its index from 0) or which option (its name), when one is to blame.
+   */
+  constructor(
+    readonly formula: string,
+    message: string,
+    readonly argument?: number | string,
+  ) {
     super(`${formula}: ${message}`);
     this.name = "FormulaArgumentError";
   }
@@ -140,8 +147,14 @@ function optionExample(options: readonly OptionSpec[]): string {
  * Check and convert one argument as `p` declares it; `label` names it in messages
  * ("from", "option step").
  */
-function convertArg(spec: FormulaSpec, p: ParamSpec, x: unknown, label = p.name): unknown {
-  const fail = (why: string) => new FormulaArgumentError(spec.name, `${label}: ${why}`);
+function convertArg(
+  spec: FormulaSpec,
+  p: ParamSpec,
+  x: unknown,
+  at: number | string,
+  label = p.name,
+): unknown {
+  const fail = (why: string) => new FormulaArgumentError(spec.name, `${label}: ${why}`, at);
   if (isPlainRecord(x) && p.type !== "any") {
     throw fail(
       spec.options?.length
@@ -159,6 +172,7 @@ function convertArg(spec: FormulaSpec, p: ParamSpec, x: unknown, label = p.name)
         throw new FormulaArgumentError(
           spec.name,
           `${label} (${p.doc}) needs a unit, e.g. ${formatNumber(x, 6)} ${p.unit}`,
+          at,
         );
       }
       let n: number;
@@ -257,12 +271,13 @@ function convertOptions(spec: FormulaSpec, given: Record<string, unknown> | unde
       `no option "${key}"${near ? ` (did you mean ${near}?)` : ""}; the options are ${
         names.join(", ")
       }`,
+      key,
     );
   }
   return options.map((o) => {
     const x = given?.[o.name];
     if (x === undefined) return o.default;
-    return convertArg(spec, { ...o, optional: true }, x, `option ${o.name}`);
+    return convertArg(spec, { ...o, optional: true }, x, o.name, `option ${o.name}`);
   });
 }
 
@@ -307,6 +322,7 @@ export function bindFormula(
             `record at the end, e.g. ${spec.name}(…, ${optionExample(spec.options!)}) ` +
             `(options: ${spec.options!.map((o) => o.name).join(", ")})`
           : `${takes}, got ${args.length}`,
+        n,
       );
     }
     const converted: unknown[] = [];
@@ -318,7 +334,7 @@ export function bindFormula(
           throw new FormulaArgumentError(spec.name, `missing argument ${p.name} (${p.doc})`);
         }
         converted.push(p.default);
-      } else converted.push(convertArg(spec, p, x));
+      } else converted.push(convertArg(spec, p, x, i));
     }
     if (hasOptions) converted.push(...convertOptions(spec, given));
     let out: unknown;

@@ -6,6 +6,7 @@ import { getLanguage } from "../cells/language.ts";
 import { Column, makeTable } from "../cells/table.ts";
 import { defineFormula } from "../cells/catalogue.ts";
 import { referenceData, referenceMarkdown } from "../notebook/reference.ts";
+import { Notebook } from "../notebook/engine/engine.ts";
 
 const lang = getLanguage();
 // Trial lenses and logMAR readings of a young eye (invented): best acuity −0.10 from
@@ -122,4 +123,16 @@ Deno.test("every formula's settings go by name; by position they are refused", (
   }
   const withOptions = [...lang.catalogue.formulas.values()].filter((f) => f.options?.length);
   assert.ok(withOptions.length >= 20, `${withOptions.length} formulas with options`);
+});
+
+Deno.test("an option error points at the option", () => {
+  const nb = Notebook.fromText(
+    "~~~lentil table trials\nlens [D] | va\n+0.25 | 0.00\n0.00 | 0.00\n~~~\n" +
+      "~~~lentil\nep = endpoint(trials, {tolerence: 0.05})\n~~~\n",
+    "o.lentil.md",
+  );
+  const e = nb.result("ep")!.error!;
+  assert.equal(e.kind, "argument");
+  // "ep = endpoint(trials, {" is 23 characters: the misspelt name starts at column 24.
+  assert.equal(e.col, 24);
 });

@@ -17,6 +17,8 @@ Deno.test("a bare number for a parameter with a unit is an error that shows the 
     /^vertexPower: from \(vertex distance[^)]*\) needs a unit, e\.g\. 12 mm$/,
   );
   assert.equal(a.error!.line, 2);
+  // At the argument to fix: "x = vertexPower(-10 D, " is 23 characters.
+  assert.equal(a.error!.col, 24);
   // 1.2 would have been read as 1.2 mm: refused, never silently taken.
   assert.match(
     cell("vertexPower(-10 D, 1.2)").result.error!.message,

@@ -269,3 +269,48 @@ function measureOf(lang: Language, x: unknown): string {
   const q = lang.quantityParts(x);
   return q ? measureOfUnit(q.unit) : "a number";
 }
+
+/**
+ * Where argument `argument` (an index, or an option's name) of the first call of `formula`
+ * stands in `expression`, zero-based; undefined when it cannot be found.
+ *
+ * @example
+ * ```ts ignore
+ * argumentOffset(lang.parse("vertexPower(-10 D, 12)"), "vertexPower(-10 D, 12)", "vertexPower", 1); // 18
+ * ```
+ */
+export function argumentOffset(
+  node: MathNode,
+  expression: string,
+  formula: string,
+  argument: number | string,
+): number | undefined {
+  let call: MathNode[] | undefined;
+  node.traverse((m) => {
+    if (call || m.type !== "FunctionNode") return;
+    const fn = (m as unknown as { fn: { type: string; name?: string } }).fn;
+    if (fn.type === "SymbolNode" && fn.name === formula) {
+      call = (m as unknown as { args: MathNode[] }).args;
+    }
+  });
+  if (!call) return undefined;
+  const start = expression.search(new RegExp(`\\b${formula}\\s*\\(`));
+  if (start < 0) return undefined;
+  if (typeof argument === "string") {
+    const m = new RegExp(`[{,]\\s*["']?(${argument})["']?\\s*:`).exec(expression.slice(start));
+    return m ? start + m.index + m[0].indexOf(m[1]) : undefined;
+  }
+  const arg = call[argument];
+  if (!arg) return undefined;
+  const squeeze = (t: string) => t.replace(/\s+/g, "");
+  const target = squeeze(arg.toString());
+  for (let i = start + formula.length; i < expression.length; i++) {
+    if (/\s/.test(expression[i])) continue;
+    if (
+      squeeze(expression.slice(i)).startsWith(target) && /[(,]\s*$/.test(expression.slice(0, i))
+    ) {
+      return i;
+    }
+  }
+  return undefined;
+}

@@ -44,7 +44,7 @@ import {
 } from "../format/parse.ts";
 import { analyse, type Analysis, isStackOverflow, type TableShape } from "./_analyse.ts";
 import { DependencyGraph } from "./graph.ts";
-import { explainFailure } from "./_explain.ts";
+import { argumentOffset, explainFailure } from "./_explain.ts";
 import { planColumn } from "./_columns.ts";
 import {
   buildTable,
@@ -859,6 +859,13 @@ export class Notebook {
       e.name === "LentilInputError"
     ) {
       kind = "argument";
+      // Point at the argument to blame, when the call can be found in the formula.
+      const blame = e as { formula?: string; argument?: number | string };
+      const node = n.analysis?.node as MathNode | undefined;
+      if (node && n.cell && blame.formula && blame.argument !== undefined) {
+        const offset = argumentOffset(node, n.cell.expression, blame.formula, blame.argument);
+        if (offset !== undefined) at = { line: n.cell.line, col: n.cell.exprCol + offset };
+      }
     } else if (e.name === "PartError") {
       kind = "name";
     } else if (n.kind === "column" && undefinedSymbol) {
