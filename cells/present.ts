@@ -282,26 +282,25 @@ function groupParts(
       }
     }
   }
-  const rows = parts.flatMap((p, i) => {
-    const list = inner[i];
-    if (!list?.length) return [];
-    const byKey = new Map(list.map((q) => [q.key, q]));
-    return [[
-      p.label,
-      ...keys.map((k) => {
-        const q = byKey.get(k);
-        return q ? q.display ?? oneLine(q.value, options) : "";
-      }),
-    ]];
-  });
+  // A row for each of their parts, a column for each record: few columns, however many parts.
+  const byKey = members.map((p) =>
+    new Map((inner[parts.indexOf(p)] ?? []).map((q) => [q.key, q] as const))
+  );
+  const rows = keys.map((k) => [
+    labels.get(k)!,
+    ...byKey.map((m) => {
+      const q = m.get(k);
+      return q ? q.display ?? oneLine(q.value, options) : "";
+    }),
+  ]);
   const numericLike = (i: number) =>
-    rows.every((r) => r[i] === "" || /^[+-−]?\d/.test(r[i]) || r[i] === "not available");
+    rows.every((r) => r[i] === "" || /^[+\-−]?\d/.test(r[i]) || r[i] === "not available");
   const table: TableShown = {
     name: "",
     columns: [
       { name: "", unit: "", numeric: false, computed: false },
-      ...keys.map((k, i) => ({
-        name: labels.get(k)!,
+      ...members.map((p, i) => ({
+        name: p.label,
         unit: "",
         numeric: numericLike(i + 1),
         computed: false,

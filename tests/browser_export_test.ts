@@ -232,3 +232,69 @@ browserTest(
     });
   },
 );
+
+browserTest(
+  "starters in the browser: one cautions section, results as headline and parts, wide tables scroll and print whole",
+  async (context) => {
+    await withTemp(async (dir) => {
+      for (const name of ["dispense-check", "clinical-case", "refraction-study"]) {
+        const { out, notebook } = await exportTo(join(ROOT, "seeds", `${name}.lentil.md`), dir);
+        const { page, seen } = await open(context, out);
+        await page.setViewportSize({ width: 800, height: 1000 });
+        assert.deepEqual(seen.consoleErrors, [], name);
+        const facts = await page.evaluate(() => ({
+          cautions: document.querySelectorAll("section.lx-cautions").length,
+          asides: document.querySelectorAll("aside").length,
+          text: document.body.innerText,
+          // Every marker links to the section, and the section links back to it.
+          marks: [...document.querySelectorAll("a.lx-flag")].map((a) => ({
+            href: a.getAttribute("href"),
+            back: !!document.querySelector(`a[href="#${a.id}"]`),
+          })),
+          below: [...document.querySelectorAll("tr.lx-below")].map((tr) => ({
+            id: tr.getAttribute("data-below"),
+            headline: !!tr.previousElementSibling?.querySelector(".lx-headline"),
+            table: !!tr.querySelector("table"),
+          })),
+          scrollers: [...document.querySelectorAll(".lx-scroll")].map((s) => ({
+            tabindex: s.getAttribute("tabindex"),
+            role: s.getAttribute("role"),
+            label: s.getAttribute("aria-label") ?? "",
+          })),
+          overflow: document.documentElement.scrollWidth - document.documentElement.clientWidth,
+        }));
+        const report = buildReport(notebook);
+        assert.equal(facts.cautions, report.cautions.length ? 1 : 0, name);
+        assert.equal(facts.asides, 0, name);
+        assert.ok(!facts.text.includes("rows ×"), name);
+        for (const m of facts.marks) {
+          assert.equal(m.href, "#cautions", name);
+          assert.ok(m.back, `${name}: the cautions link back`);
+        }
+        // Each record result: its headline beside the cell and its parts as a table under it.
+        const withParts = report.cells.filter((c) =>
+          !c.error && c.kind === "cell" && (c.parts?.length || c.checks?.length)
+        );
+        for (const c of withParts) {
+          const b = facts.below.find((x) => x.id === c.id);
+          assert.ok(b?.headline && b.table, `${name}: ${c.id} reads as headline and parts`);
+        }
+        // Wide tables scroll inside the page, by keyboard too; the page itself never does.
+        for (const s of facts.scrollers) {
+          assert.equal(s.tabindex, "0");
+          assert.equal(s.role, "region");
+          assert.ok(s.label.length > 0);
+        }
+        assert.ok(facts.overflow <= 1, `${name}: ${facts.overflow}px page overflow on screen`);
+        await page.emulateMedia({ media: "print" });
+        const cut = await page.evaluate(() =>
+          [...document.querySelectorAll(".lx-scroll")].filter((s) =>
+            s.scrollWidth > s.clientWidth + 1
+          ).length
+        );
+        assert.equal(cut, 0, `${name}: a table is cut in print`);
+        await page.close();
+      }
+    });
+  },
+);

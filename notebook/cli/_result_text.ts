@@ -183,8 +183,10 @@ function checkText(checks: readonly CheckLine[], width: number): string[] {
  */
 export function tableText(t: TableShown, width: number): string[] {
   const heads = t.columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name));
+  // A column is at most 28 wide (its longer texts cut with …; the page and JSON hold them whole).
+  const cap = Math.min(width, 28);
   const widths = heads.map((h, i) =>
-    Math.min(Math.max(len(h), ...t.rows.map((r) => len(r[i] ?? ""))), width)
+    Math.min(Math.max(len(h), ...t.rows.map((r) => len(r[i] ?? ""))), i === 0 ? width : cap)
   );
   const cut = (s: string, w: number) => (len(s) > w ? [...s].slice(0, w - 1).join("") + "…" : s);
   const groups: number[][] = [];

@@ -13,7 +13,13 @@
  * @module
  */
 
-import { signed } from "../../cells/display.ts";
+import {
+  formatMeasure,
+  formatNumber,
+  kindOfUnit,
+  measureText,
+  signed,
+} from "../../cells/display.ts";
 
 /** The kind of measure on an axis. */
 export type AxisKind = "power" | "logmar" | "count" | "plain";
@@ -176,8 +182,11 @@ export function axisTitle(name: string, unit: string | undefined): string {
  */
 export function valueText(v: number, unit: string | undefined): string {
   const kind = axisKind(unit);
-  if (kind === "power") return `${signed(v)} D`;
-  if (kind === "logmar") return `${Math.abs(v) < 0.005 ? "0.00" : v.toFixed(2)} logMAR`;
-  const n = Math.abs(v) >= 100 ? v.toFixed(0) : Math.abs(v) >= 1 ? v.toFixed(2) : v.toFixed(3);
+  // One display rule per kind of measure (lib/number_text.ts), as results and messages use.
+  if (kind === "power") return formatMeasure(v, "measure");
+  if (kind === "logmar") return formatMeasure(v, "logMAR");
+  const rule = unit ? kindOfUnit(unit) : undefined;
+  if (rule) return measureText(v, rule, unit);
+  const n = formatNumber(v);
   return unit ? `${n} ${UNIT_TEXT[unit] ?? unit}` : n;
 }
