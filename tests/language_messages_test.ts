@@ -103,3 +103,10 @@ Deno.test("the library's refusals are put in words when no operation can be blam
     LIBRARY_WORDS,
   );
 });
+
+Deno.test("a logMAR tolerance written with the word is explained: logMAR values are numbers", () => {
+  const nb = Notebook.fromText("~~~lentil\ntol = 0.02 logMAR\n~~~\n", "w.lentil.md");
+  const e = nb.result("tol")!.error!;
+  assert.match(e.message, /"logMAR" is not a unit: logMAR values are plain numbers/);
+  assert.equal(e.col, "tol = 0.02 ".length + 1);
+});

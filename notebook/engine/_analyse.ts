@@ -102,6 +102,9 @@ function treeDepth(root: MathNode, limit: number): number {
   return max;
 }
 
+/** Words of the trade written after a number that are not units in formulas. */
+const PLAIN_NUMBER_WORDS: ReadonlySet<string> = new Set(["logMAR", "letters"]);
+
 function wordOffset(expression: string, word: string): number {
   const m = new RegExp(`(^|[^A-Za-z0-9_.])${word.replace(/[.$]/g, "\\$&")}(?![A-Za-z0-9_])`).exec(
     expression,
@@ -180,6 +183,13 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
       );
     }
     if (rowTable?.open) return void deps.add(ctx.rowTable!);
+    if (PLAIN_NUMBER_WORDS.has(name)) {
+      return fail(
+        `"${name}" is not a unit: ${name} values are plain numbers in formulas ` +
+          `(write 0.02, not 0.02 ${name}; text such as "0.3 ${name}" is read by acuity)`,
+        name,
+      );
+    }
     fail(`unknown name or unit "${name}"`, name);
   };
 
