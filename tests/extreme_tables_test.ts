@@ -99,3 +99,62 @@ Deno.test("file: tables: a symbolic link, a device and a folder are refused by r
     assert.match(device.notebook.result("t")?.error?.message ?? "", /not a regular file/);
   });
 });
+
+const usingSph = (file: string, skip = false) =>
+  `${F}lentil table t\nfile: ${file}\n${
+    skip ? "bad rows: skip\n" : ""
+  }${F}\n\n${F}lentil\nsm = mean(t.sph)\n${F}\n`;
+
+Deno.test("a CSV that cannot be read: cells using it show the table's own error, positioned", () => {
+  const big = "x".repeat(5000);
+  const cases: [string, string, RegExp, number][] = [
+    [
+      "unclosed quote",
+      'sph [D],cyl [D]\n1,2\n"3,4\n5,6\n7,8\n',
+      /opens on line 3 is never closed/,
+      3,
+    ],
+    ["empty", "", /is empty/, 1],
+    ["blank lines only", "\n\n  \n\n", /only blank lines/, 1],
+    ["wrong separator", "sph [D];cyl [D]\n1;2\n", /separated by ";"/, 1],
+    ["misplaced quote", 'sph [D],cyl [D]\n1,2\n3,x"y"\n', /field 2 of line 3/, 3],
+    ["huge bad field", `sph [D],cyl [D]\n1,2\n3,${big}\n`, /"x{40}…" \(5,000 characters\)/, 3],
+  ];
+  for (const [label, csv, why, line] of cases) {
+    const nb = Notebook.fromText(usingSph("a.csv"), "a.lentil.md", {
+      host: { readText: () => csv },
+    });
+    const t = nb.result("t")!.error!;
+    assert.match(t.message, why, label);
+    assert.equal(t.line, line, `${label}: at the line`);
+    assert.ok(t.message.length < 300, `${label}: shortened (${t.message.length})`);
+    assert.equal(t.message.split("xxxxxxxxxx").length <= 5, true, `${label}: once`);
+    const sm = nb.result("sm")!.error!;
+    assert.equal(sm.kind, "dependency", label);
+    assert.ok(!/has no column/.test(sm.message), `${label}: not "no column"`);
+    assert.ok(sm.message.includes(t.message), `${label}: the table's own error`);
+  }
+});
+
+Deno.test("bad rows: skip also skips rows with a misplaced quote, and counts them", () => {
+  const csv = 'sph [D],cyl [D]\n1,2\n3,x"y"\n5,"6"z\n7,8\n';
+  const nb = Notebook.fromText(usingSph("a.csv", true), "a.lentil.md", {
+    host: { readText: () => csv },
+  });
+  assert.equal(nb.result("t")?.error, undefined);
+  assert.equal(String(nb.value("sm")), "4 D", "rows 1 and 7 kept (mean 4)");
+  assert.ok(nb.diagnostics().some((d) => /2 bad rows/.test(d.message)));
+});
+
+Deno.test("stream: an unclosed quote is reported where it opens", async () => {
+  await inTemp(async (dir) => {
+    const rows = Array.from({ length: 50 }, (_, i) => `${i},1`);
+    rows.splice(20, 0, '"20,1');
+    await Deno.writeTextFile(join(dir, "a.csv"), "sph [D],cyl [D]\n" + rows.join("\n") + "\n");
+    const path = join(dir, "a.lentil.md");
+    await Deno.writeTextFile(path, usingSph("a.csv"));
+    const r = await streamNotebook(path, {});
+    assert.equal(r.ok, false);
+    assert.match(r.stopped!, /opens on line 22 is never closed/);
+  });
+});

@@ -71,7 +71,13 @@ export interface RawTable {
   /** Column declarations (header). */
   readonly columns: readonly ColumnDef[];
   /** Rows of text. */
-  readonly rows: readonly { cells: readonly string[]; line: number; cols: readonly number[] }[];
+  readonly rows: readonly {
+    cells: readonly string[];
+    line: number;
+    cols: readonly number[];
+    /** Why the CSV reader could not read this record (skipped with `bad rows: skip`). */
+    bad?: string;
+  }[];
   /** File that positions refer to. */
   readonly file: string;
   /** 1-based line of the header in that file. */
@@ -264,6 +270,14 @@ export class TableBuilder {
     if (this.problems.length < this.keepProblems) this.problems.push(p);
   }
 
+  /** Count a record the CSV reader could not read as a bad row, with why. */
+  addBad(line: number, message: string): void {
+    const ri = this.rowsSeen++;
+    this.#problem({ file: this.file, line, col: 1, row: ri, message });
+    this.badRows++;
+    if (this.#badRowNumbers.length < 20) this.#badRowNumbers.push(ri + 1);
+  }
+
   /** Add one row of text; returns false when the row is bad. */
   add(cells: readonly string[], line: number, cols?: readonly number[]): boolean {
     const ri = this.rowsSeen++;
@@ -292,7 +306,11 @@ export class TableBuilder {
         if (k.type === "quantity" || k.type === "number") {
           const x = readNumber(text);
           if (x === undefined) {
-            at(`column ${col.name}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`);
+            at(
+              `column ${col.name}: ${shortValue(text)} is not a number${
+                k.unit ? ` (in ${k.unit})` : ""
+              }`,
+            );
             this.#parsed[ci] = NaN;
             continue;
           }
@@ -503,7 +521,10 @@ export function buildTable(
     raw.headerLine,
   );
   const builder = new TableBuilder(raw.columns, kinds, raw.file, Infinity);
-  for (const r of raw.rows) builder.add(r.cells, r.line, r.cols);
+  for (const r of raw.rows) {
+    if (r.bad) builder.addBad(r.line, r.bad);
+    else builder.add(r.cells, r.line, r.cols);
+  }
   const where = extra.where ?? { file: raw.file, line: raw.headerLine, col: 1 };
   return finish(name, builder, problems, skipBad, where, extra);
 }
@@ -529,11 +550,16 @@ export function csvColumns(
   const columns: ColumnDef[] = header.map((h, i) => {
     const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[([^\]]*)\])?\s*$/.exec(h);
     if (!m) {
+      const sep = header.length === 1 ? [";", "\t", "|"].find((c) => h.includes(c)) : undefined;
       problems.push({
         file: path,
         line: 1,
         col: i + 1,
-        message: `header cell "${h}" should be a name, optionally with [unit] (letters, digits, _)`,
+        message: sep
+          ? `the header is one field "${h.slice(0, 60)}": the file seems separated by ${
+            sep === "\t" ? "tabs" : `"${sep}"`
+          }, and a table file is read as comma-separated values`
+          : `header cell "${h}" should be a name, optionally with [unit] (letters, digits, _)`,
       });
     }
     const name = m ? m[1] : h.trim() || `column${i + 1}`;
@@ -556,12 +582,154 @@ export function csvColumns(
   return { columns, problems };
 }
 
-function csvError(path: string, e: unknown): TableProblem {
+/** A value from a file, shortened for a message when it is long. */
+function shortValue(text: string): string {
+  const t = text.length > 60
+    ? `${text.slice(0, 40)}…" (${text.length.toLocaleString("en")} characters)`
+    : `${text}"`;
+  return `"${t}`;
+}
+
+/**
+ * The line on which the quoted field still open at the end of `text` opened, or undefined.
+ *
+ * @example
+ * ```ts
+ * import { unclosedQuoteLine } from "./_tables.ts";
+ * unclosedQuoteLine('a,b\n1,2\n"3,4\n5,6\n'); // 3
+ * ```
+ */
+export function unclosedQuoteLine(text: string): number | undefined {
+  let line = 1;
+  let open: number | undefined;
+  for (let i = 0; i < text.length; i++) {
+    const c = text[i];
+    if (c === "\n") line++;
+    else if (c === '"') open = open === undefined ? line : undefined;
+  }
+  return open;
+}
+
+/**
+ * A csv-parse error in words: where (a never-closed quote where it opens, when `opensAt`
+ * is known), which field (counted from 1), and a long value shortened, once.
+ */
+function csvError(path: string, e: unknown, opensAt?: number): TableProblem {
   const err = e as Error & { lines?: number; code?: string };
-  const why = err.code === "CSV_QUOTE_NOT_CLOSED"
-    ? "a quoted field is never closed (the file ends inside quotes)"
-    : err.message.replace(/^Invalid Record Length: |^Quote Not Closed: /, "");
-  return { file: path, line: err.lines ?? 1, col: 1, message: `CSV cannot be read: ${why}` };
+  let line = err.lines ?? 1;
+  let why: string;
+  const opening = /field (\d+) at line (\d+), value is "([\s\S]*)"$/.exec(err.message);
+  const closing = /got "([\s\S]*?)" at line (\d+)/.exec(err.message);
+  if (err.code === "CSV_QUOTE_NOT_CLOSED") {
+    line = opensAt ?? line;
+    why = opensAt !== undefined
+      ? `a quoted field that opens on line ${opensAt} is never closed (the file ends inside quotes)`
+      : "a quoted field is never closed (the file ends inside quotes)";
+  } else if (err.code === "INVALID_OPENING_QUOTE" && opening) {
+    line = Number(opening[2]);
+    why = `a quote inside field ${Number(opening[1]) + 1} of line ${line} (after ${
+      shortValue(opening[3])
+    }); quote the whole field and write a quote inside it twice ("")`;
+  } else if (err.code === "CSV_INVALID_CLOSING_QUOTE" && closing) {
+    line = Number(closing[2]);
+    why = `a quoted field on line ${line} is followed by ${
+      shortValue(closing[1])
+    } before the next comma; quote the whole field and write a quote inside it twice ("")`;
+  } else {
+    why = err.message
+      .replace(/^Invalid Record Length: |^Quote Not Closed: /, "")
+      .replace(/field (\d+)/g, (_, n) => `field ${Number(n) + 1}`)
+      .replace(/"([^"]{61,})"/g, (_, v) => shortValue(v));
+  }
+  return { file: path, line, col: 1, message: `CSV cannot be read: ${why}` };
+}
+
+/** csv-parse options for a table: with `bad rows: skip`, a record it cannot read is skipped. */
+function csvOptions(
+  skipBad: boolean,
+  skipped: { line: number; message: string; code?: string }[],
+  path: string,
+): typeof CSV_OPTIONS {
+  if (!skipBad) return CSV_OPTIONS;
+  return {
+    ...CSV_OPTIONS,
+    skip_records_with_error: true,
+    on_skip: (e: (Error & { lines?: number; code?: string }) | undefined) => {
+      if (!e) return;
+      const p = csvError(path, e);
+      skipped.push({ line: p.line, message: p.message, code: e.code });
+    },
+  } as typeof CSV_OPTIONS;
+}
+
+type ParsedRecord = { record: string[]; info: { lines: number } };
+
+/**
+ * Parse a whole CSV text, skipping each record that cannot be read (`bad rows: skip`): the
+ * reader starts again on the line after it, so a misplaced quote costs one row, not the
+ * rest of the file. A quote never closed still fails (everything after it is inside it).
+ */
+function parseSkipping(
+  text: string,
+  path: string,
+  skipped: { line: number; message: string; code?: string }[],
+): ParsedRecord[] {
+  const out: ParsedRecord[] = [];
+  let base = 0; // lines before the part being read
+  let offset = 0;
+  for (let attempt = 0; attempt <= 1000; attempt++) {
+    const rest = text.slice(offset);
+    try {
+      const part = parseCsv(rest, CSV_OPTIONS) as unknown as ParsedRecord[];
+      for (const r of part) out.push({ record: r.record, info: { lines: r.info.lines + base } });
+      return out;
+    } catch (e) {
+      const err = e as Error & { code?: string; lines?: number };
+      if (err.code === "CSV_QUOTE_NOT_CLOSED" || attempt === 1000) {
+        const opens = unclosedQuoteLine(rest);
+        throw Object.assign(err, {
+          lines: (err.lines ?? 1) + base,
+          opensAt: opens === undefined ? undefined : opens + base,
+        });
+      }
+      const p = csvError(path, err);
+      const at = p.line; // within `rest`
+      skipped.push({
+        line: at + base,
+        message: p.message.replace(/line (\d+)/g, (_, n) => `line ${Number(n) + base}`),
+        code: err.code,
+      });
+      // The records before the bad one are read again up to it; reading restarts after it.
+      try {
+        const good = parseCsv(
+          rest.slice(0, lineStart(rest, at)),
+          CSV_OPTIONS,
+        ) as unknown as ParsedRecord[];
+        for (const r of good) out.push({ record: r.record, info: { lines: r.info.lines + base } });
+      } catch {
+        // A part before the bad record that is itself unreadable goes with it.
+      }
+      offset += lineStart(rest, at + 1);
+      base += at;
+      if (offset >= text.length) return out;
+    }
+  }
+  return out;
+}
+
+/** Offset of the start of 1-based line `no` in `text` (its length when there is none). */
+function lineStart(text: string, no: number): number {
+  let at = 0;
+  for (let i = 1; i < no; i++) {
+    const nl = text.indexOf("\n", at);
+    if (nl === -1) return text.length;
+    at = nl + 1;
+  }
+  return at;
+}
+
+function skipsBad(block: TableBlock): boolean {
+  return (block.options["bad rows"]?.value ?? "stop").toLowerCase() === "skip";
 }
 
 /** The `file:` option of a block checked, or a problem. */
@@ -634,32 +802,36 @@ export function readRawTable(
     return { problem: unreadable(block, notebookFile, path!, e) };
   }
   let records: { record: string[]; info: { lines: number } }[];
+  const skipped: { line: number; message: string; code?: string }[] = [];
   try {
-    records = parseCsv(text, CSV_OPTIONS) as unknown as {
-      record: string[];
-      info: { lines: number };
-    }[];
+    records = skipsBad(block)
+      ? parseSkipping(text, path!, skipped)
+      : parseCsv(text, CSV_OPTIONS) as unknown as ParsedRecord[];
   } catch (e) {
-    return { problem: csvError(path!, e) };
+    const opensAt = (e as { opensAt?: number }).opensAt ?? unclosedQuoteLine(text);
+    return { problem: csvError(path!, e, opensAt) };
   }
-  if (!records.length) {
-    return {
-      problem: {
-        file: path!,
-        line: 1,
-        col: 1,
-        message: "CSV file is empty (expected a header line)",
-      },
-    };
-  }
+  if (!records.length) return { problem: emptyCsv(path!, text) };
   const { columns, problems } = csvColumns(records[0].record, block, notebookFile, path!);
   if (problems.length) return { problem: problems[0], problems };
-  const rows = records.slice(1).map((r) => ({
+  const rows: RawTable["rows"][number][] = records.slice(1).map((r) => ({
     cells: r.record,
     line: r.info.lines,
     cols: r.record.map((_, i) => i + 1),
   }));
+  if (skipped.length) {
+    for (const s of skipped) rows.push({ cells: [], line: s.line, cols: [], bad: s.message });
+    rows.sort((a, b) => a.line - b.line);
+  }
   return { raw: { columns, rows, file: path!, headerLine: 1 } };
+}
+
+/** The problem of a CSV file with no header line: empty, blank lines only, or unreadable. */
+function emptyCsv(path: string, text?: string): TableProblem {
+  const message = text !== undefined && text.length > 0
+    ? "CSV file has only blank lines (expected a header line)"
+    : "CSV file is empty (expected a header line)";
+  return { file: path, line: 1, col: 1, message };
 }
 
 /** One CSV record with the line it ends on. */
@@ -668,6 +840,8 @@ export interface CsvRecord {
   readonly cells: string[];
   /** 1-based line where the record ends. */
   readonly line: number;
+  /** Why the record could not be read (skipped with `bad rows: skip`). */
+  readonly bad?: string;
 }
 
 /**
@@ -683,14 +857,25 @@ export async function* csvBatches(
   source: AsyncIterable<Uint8Array>,
   path: string,
   batchSize = 4096,
+  skipBad = false,
 ): AsyncGenerator<CsvRecord[]> {
   // The streaming parser (and the Node streams under it) loads only when a file streams.
   const { parse: parseCsvStream } = await import("csv-parse");
-  const parser = parseCsvStream(CSV_OPTIONS);
+  const skipped: { line: number; message: string; code?: string }[] = [];
+  const parser = parseCsvStream(csvOptions(skipBad, skipped, path));
+  // Lines and quotes are followed as the bytes pass, so a quote never closed is reported
+  // on the line where it opened.
+  let line = 1;
+  let opened: number | undefined;
   const pump = (async () => {
     try {
       for await (const chunk of source) {
         if (parser.destroyed) break;
+        for (let i = 0; i < chunk.length; i++) {
+          const b = chunk[i];
+          if (b === 0x0a) line++;
+          else if (b === 0x22) opened = opened === undefined ? line : undefined;
+        }
         if (!parser.write(chunk)) {
           await new Promise<void>((r) => {
             if (parser.destroyed) return r();
@@ -712,14 +897,27 @@ export async function* csvBatches(
   let batch: CsvRecord[] = [];
   try {
     for await (const r of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) {
+      while (skipped.length) {
+        const s = skipped.shift()!;
+        if (s.code === "CSV_QUOTE_NOT_CLOSED") {
+          throw Object.assign(new Error(""), s, { lines: s.line });
+        }
+        batch.push({ cells: [], line: s.line, bad: s.message });
+      }
       batch.push({ cells: r.record, line: r.info.lines });
       if (batch.length >= batchSize) {
         yield batch;
         batch = [];
       }
     }
+    for (const s of skipped) {
+      if (s.code === "CSV_QUOTE_NOT_CLOSED") {
+        throw Object.assign(new Error(""), s, { lines: s.line });
+      }
+      batch.push({ cells: [], line: s.line, bad: s.message });
+    }
   } catch (e) {
-    throw new CsvReadError(csvError(path, e));
+    throw new CsvReadError(csvError(path, e, opened));
   } finally {
     if (!parser.writableEnded) parser.destroy();
     await pump;
@@ -763,7 +961,14 @@ export async function openCsvTable(
   }
 > {
   const path = block.options.file!.value;
-  const it = csvBatches(source, path, batchSize)[Symbol.asyncIterator]();
+  let lastBytes = 0;
+  const counted = (async function* () {
+    for await (const chunk of source) {
+      lastBytes += chunk.length;
+      yield chunk;
+    }
+  })();
+  const it = csvBatches(counted, path, batchSize, skipsBad(block))[Symbol.asyncIterator]();
   let first: CsvRecord[] = [];
   try {
     const r = await it.next();
@@ -772,16 +977,7 @@ export async function openCsvTable(
     if (e instanceof CsvReadError) return { problem: e.problem };
     throw e;
   }
-  if (!first.length) {
-    return {
-      problem: {
-        file: path,
-        line: 1,
-        col: 1,
-        message: "CSV file is empty (expected a header line)",
-      },
-    };
-  }
+  if (!first.length) return { problem: emptyCsv(path, lastBytes > 0 ? " " : "") };
   const header = csvColumns(first[0].cells, block, notebookFile, path);
   const rows = first.slice(1);
   const { kinds, problems } = resolveKinds(
@@ -793,7 +989,12 @@ export async function openCsvTable(
   );
   const builder = new TableBuilder(header.columns, kinds, path);
   const all = [...header.problems, ...problems];
-  if (!all.length) { for (const r of rows) builder.add(r.cells, r.line); }
+  if (!all.length) {
+    for (const r of rows) {
+      if (r.bad) builder.addBad(r.line, r.bad);
+      else builder.add(r.cells, r.line);
+    }
+  }
   return { start: { columns: header.columns, builder, problems: all }, rest: it, path };
 }
 
@@ -828,7 +1029,10 @@ export async function readCsvTableStreamed(
   }
   try {
     for (let r = await rest.next(); !r.done; r = await rest.next()) {
-      for (const rec of r.value) start.builder.add(rec.cells, rec.line);
+      for (const rec of r.value) {
+        if (rec.bad) start.builder.addBad(rec.line, rec.bad);
+        else start.builder.add(rec.cells, rec.line);
+      }
     }
   } catch (e) {
     if (e instanceof CsvReadError) return { columns: start.columns, problem: e.problem };

@@ -537,6 +537,9 @@ export class Notebook {
       shapes.set(n.name, {
         data: new Set(n.raw?.columns.map((c) => c.name) ?? []),
         computed: new Set(),
+        // A table that could not be read has no columns to check names against: a formula
+        // using it depends on it, and so shows the table's own error, not "no column".
+        ...(n.defError && n.defError.kind !== "duplicate" ? { open: true } : {}),
       });
     }
     // A cell with computed columns is a table a formula returns: its columns are known

@@ -377,7 +377,10 @@ export class LiveSession {
     // The engine's own reading of a table's text, over the CSV as the page holds it.
     const file = block.options.file?.value;
     if (file && !this.#csv.has(file)) return undefined;
-    return readRawTable(block, this.#path, { readText: (rel) => this.#csv.get(rel)!.text }).raw;
+    const raw = readRawTable(block, this.#path, { readText: (rel) => this.#csv.get(rel)!.text })
+      .raw;
+    // Rows the reader skipped are not in the grid: editing it would drop them on save.
+    return raw?.rows.some((r) => r.bad) ? undefined : raw;
   }
 
   #buildView(): PageView {

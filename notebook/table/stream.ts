@@ -562,7 +562,10 @@ export async function streamNotebook(
     if (!stopAtBad()) {
       if (builder.pending >= chunkRows) processChunk();
       for (let r = await rest.next(); !r.done; r = await rest.next()) {
-        for (const rec of r.value as CsvRecord[]) builder.add(rec.cells, rec.line);
+        for (const rec of r.value as CsvRecord[]) {
+          if (rec.bad) builder.addBad(rec.line, rec.bad);
+          else builder.add(rec.cells, rec.line);
+        }
         if (stopAtBad()) break;
         if (builder.pending >= chunkRows) processChunk();
       }
