@@ -111,7 +111,7 @@ Deno.test("a CSV that cannot be read: cells using it show the table's own error,
     [
       "unclosed quote",
       'sph [D],cyl [D]\n1,2\n"3,4\n5,6\n7,8\n',
-      /opens on line 3 is never closed/,
+      /never closed: it opens on line 3/,
       3,
     ],
     ["empty", "", /is empty/, 1],
@@ -155,6 +155,6 @@ Deno.test("stream: an unclosed quote is reported where it opens", async () => {
     await Deno.writeTextFile(path, usingSph("a.csv"));
     const r = await streamNotebook(path, {});
     assert.equal(r.ok, false);
-    assert.match(r.stopped!, /opens on line 22 is never closed/);
+    assert.match(r.stopped!, /never closed: it opens on line 22/);
   });
 });

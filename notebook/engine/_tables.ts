@@ -623,7 +623,7 @@ function csvError(path: string, e: unknown, opensAt?: number): TableProblem {
   if (err.code === "CSV_QUOTE_NOT_CLOSED") {
     line = opensAt ?? line;
     why = opensAt !== undefined
-      ? `a quoted field that opens on line ${opensAt} is never closed (the file ends inside quotes)`
+      ? `a quoted field is never closed: it opens on line ${opensAt} and the file ends inside quotes`
       : "a quoted field is never closed (the file ends inside quotes)";
   } else if (err.code === "INVALID_OPENING_QUOTE" && opening) {
     line = Number(opening[2]);
