@@ -57,5 +57,8 @@ Deno.test("a computed column passing a bare number is refused row by row with th
     "~~~lentil table t\nF [D] | d\n-10 | 12\n~~~\n~~~lentil\nt.cl = vertexPower(F, d)\n~~~\n",
     "c.lentil.md",
   );
-  assert.match(nb.result("t.cl")!.error!.message, /needs a unit, e\.g\. 12 mm/);
+  assert.match(
+    nb.result("t.cl")!.error!.message,
+    /needs a unit, e\.g\. 12 mm; column d of table t has no unit: declare it in the header, d \[mm\]/,
+  );
 });

@@ -271,6 +271,30 @@ function measureOf(lang: Language, x: unknown): string {
 }
 
 /**
+ * The node of argument `index` of the first call of `formula` in `node`, if any.
+ *
+ * @example
+ * ```ts ignore
+ * argumentNode(lang.parse("vertexPower(F, d)"), "vertexPower", 1)?.toString(); // "d"
+ * ```
+ */
+export function argumentNode(
+  node: MathNode,
+  formula: string,
+  index: number,
+): MathNode | undefined {
+  let call: MathNode[] | undefined;
+  node.traverse((m) => {
+    if (call || m.type !== "FunctionNode") return;
+    const fn = (m as unknown as { fn: { type: string; name?: string } }).fn;
+    if (fn.type === "SymbolNode" && fn.name === formula) {
+      call = (m as unknown as { args: MathNode[] }).args;
+    }
+  });
+  return call?.[index];
+}
+
+/**
  * Where argument `argument` (an index, or an option's name) of the first call of `formula`
  * stands in `expression`, zero-based; undefined when it cannot be found.
  *

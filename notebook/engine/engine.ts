@@ -44,7 +44,7 @@ import {
 } from "../format/parse.ts";
 import { analyse, type Analysis, isStackOverflow, type TableShape } from "./_analyse.ts";
 import { DependencyGraph } from "./graph.ts";
-import { argumentOffset, explainFailure } from "./_explain.ts";
+import { argumentNode, argumentOffset, explainFailure } from "./_explain.ts";
 import { planColumn } from "./_columns.ts";
 import {
   buildTable,
@@ -868,6 +868,19 @@ export class Notebook {
       if (node && n.cell && blame.formula && blame.argument !== undefined) {
         const offset = argumentOffset(node, n.cell.expression, blame.formula, blame.argument);
         if (offset !== undefined) at = { line: n.cell.line, col: n.cell.exprCol + offset };
+        // A column without a unit given where a quantity is needed: the fix is in the header.
+        const arg = typeof blame.argument === "number"
+          ? argumentNode(node, blame.formula, blame.argument)
+          : undefined;
+        const unit = / needs a unit, e\.g\. \S+ (\S+)$/.exec(message)?.[1];
+        if (n.kind === "column" && arg?.type === "SymbolNode" && unit) {
+          const name = (arg as unknown as { name: string }).name;
+          const col = tableInfo(this.#scope.get(n.table!))?.columns.find((c) => c.name === name);
+          if (col && !col.unit) {
+            message += `; column ${name} of table ${n.table} has no unit: ` +
+              `declare it in the header, ${name} [${unit}]`;
+          }
+        }
       }
     } else if (e.name === "PartError") {
       kind = "name";
