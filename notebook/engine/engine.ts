@@ -17,45 +17,22 @@
  * @module
  */
 
-import type { MathNode } from "mathjs";
-import {
-  getLanguage,
-  type Language,
-  LENTIL_UNITS,
-  plainMathMessage,
-  shownValue,
-} from "../../cells/language.ts";
-import {
-  addColumn,
-  type Column,
-  makeTable,
-  tableInfo,
-  type TableValue,
-} from "../../cells/table.ts";
+import { getLanguage, type Language } from "../../cells/language.ts";
 import { DEFAULT_DISPLAY, type DisplayOptions } from "../../cells/types.ts";
-import { listSources } from "../../shared/sources.ts";
 import type { Diagnostic } from "../format/diagnostic.ts";
-import {
-  type CellDef,
-  isLiteral,
-  type NotebookDoc,
-  parseNotebook,
-  type TableBlock,
-} from "../format/parse.ts";
-import { analyse, type Analysis, isStackOverflow, type TableShape } from "./_analyse.ts";
+import { isLiteral, type NotebookDoc, parseNotebook } from "../format/parse.ts";
+import type { ColumnDef } from "../format/parse.ts";
 import { DependencyGraph } from "./graph.ts";
-import { argumentNode, argumentOffset, explainFailure } from "./_explain.ts";
-import { planColumn } from "./_columns.ts";
+import { defineNodes, tableShapes } from "./_define.ts";
+import { evaluateNode } from "./_evaluate.ts";
+import { analyseNode } from "./_prepare.ts";
+import { cellNames, type EngineState, nodeSignature, ownsName } from "./_state.ts";
 import {
-  buildTable,
   type BuiltTable,
-  type RawTable,
   readCsvTableStreamed,
-  readRawTable,
   type TableHost,
   type TableProblem,
 } from "./_tables.ts";
-import type { ColumnDef } from "../format/parse.ts";
 
 /** Why a node has no value. */
 export type ErrorKind =
@@ -168,64 +145,13 @@ export interface PreparedTable {
   readonly problem?: TableProblem;
 }
 
-interface NodeDef {
-  readonly id: string;
-  readonly kind: "cell" | "table" | "column";
-  readonly name: string;
-  readonly table?: string;
-  cell?: CellDef;
-  readonly block?: TableBlock;
-  analysis?: Analysis;
-  compiled?: { evaluate(scope: unknown): unknown };
-  ownSources: readonly string[];
-  ownCaution: boolean;
-  /** Error in the definition itself (duplicate, reserved name, table data). */
-  defError?: CellError;
-  /** Error found by analysing the expression (syntax, unknown name). */
-  exprError?: CellError;
-  raw?: RawTable;
-  built?: { columns: readonly Column[]; excluded: number; file?: string };
-  /** How a computed column was last evaluated. */
-  columnPath?: { path: "compiled" | "row-wise"; reason?: string };
-}
-
-interface NodeState {
-  value?: unknown;
-  error?: CellError;
-  sources: readonly string[];
-  caution: boolean;
-}
-
-/** Cycles up to this many cells are written out in full at every member. */
-const CYCLE_IN_FULL = 12;
-
-const SOURCE_ORDER = new Map(listSources().map((s, i) => [s.id, i]));
-
-function sortSources(ids: Iterable<string>): string[] {
-  return [...new Set(ids)].sort((a, b) =>
-    (SOURCE_ORDER.get(a) ?? 1e9) - (SOURCE_ORDER.get(b) ?? 1e9)
-  );
-}
-
 /** A notebook ready to evaluate and to change reactively. */
 export class Notebook {
   /** The parsed document. */
   readonly doc: NotebookDoc;
   /** Display options from the front matter. */
   readonly display: DisplayOptions;
-  readonly #lang: Language;
-  readonly #host: TableHost;
-  readonly #preloaded?: ReadonlyMap<string, PreparedTable>;
-  readonly #given?: ReadonlyMap<string, unknown>;
-  readonly #encoding: ReadonlyMap<number, Diagnostic>;
-  readonly #nodes = new Map<string, NodeDef>();
-  readonly #state = new Map<string, NodeState>();
-  readonly #scope = new Map<string, unknown>();
-  readonly #staticDiagnostics: Diagnostic[] = [];
-  #graph!: DependencyGraph;
-  #cycleOf = new Map<string, readonly string[]>();
-  readonly #overBudget?: NotebookOptions["overBudget"];
-  readonly #onEvaluate?: NotebookOptions["onEvaluate"];
+  readonly #s: EngineState;
 
   /**
    * Parse and prepare a notebook from text, and evaluate it.
@@ -292,77 +218,56 @@ export class Notebook {
   ): { notebook: Notebook; recomputed: string[] } {
     const next = new Notebook(doc, options);
     const changed: string[] = [];
-    for (const [id, n] of next.#nodes) {
-      const old = previous.#nodes.get(id);
-      const state = previous.#state.get(id);
+    const [p, s] = [previous.#s, next.#s];
+    for (const [id, n] of s.nodes) {
+      const old = p.nodes.get(id);
+      const state = p.state.get(id);
       if (
         !old || !state ||
-        previous.#signature(old, !!state.error) !== next.#signature(n, !!state.error)
+        nodeSignature(p, old, !!state.error) !== nodeSignature(s, n, !!state.error)
       ) {
         changed.push(id);
         continue;
       }
-      next.#state.set(id, state);
+      s.state.set(id, state);
       n.columnPath = old.columnPath;
-      if (n.kind !== "column" && ownsName(n) && !state.error) next.#scope.set(n.name, state.value);
+      if (n.kind !== "column" && ownsName(n) && !state.error) s.scope.set(n.name, state.value);
     }
-    const recomputed = next.#graph.downstream(changed);
-    for (const id of recomputed) next.#evaluate(id);
+    const recomputed = s.graph.downstream(changed);
+    for (const id of recomputed) evaluateNode(s, id);
     return { notebook: next, recomputed };
-  }
-
-  /** What a node's value depends on besides its dependencies' values (and its place, when it shows an error). */
-  #signature(n: NodeDef, withPlace: boolean): string {
-    const place = withPlace
-      ? [n.cell?.line, n.cell?.exprCol, n.block?.line, n.block?.col, n.raw?.file]
-      : [];
-    const computed = () =>
-      [...this.#nodes.values()]
-        .filter((m) => m.kind === "column" && m.table === n.name).map((m) => m.id).sort();
-    const table = n.kind === "table"
-      ? {
-        options: Object.entries(n.block?.options ?? {}).map(([k, o]) => [k, o.value]),
-        columns: n.raw?.columns.map((c) => [c.name, c.spec]),
-        rows: n.raw?.rows.map((r) => r.cells),
-        computed: computed(),
-      }
-      // A cell whose table result takes computed columns is re-made when they change.
-      : n.kind === "cell"
-      ? { computed: computed() }
-      : undefined;
-    return JSON.stringify([
-      n.kind,
-      n.cell?.expression,
-      n.defError?.message,
-      n.exprError?.message,
-      [...(n.analysis?.deps ?? [])].sort(),
-      this.#cycleOf.get(n.id),
-      table,
-      place,
-    ]);
   }
 
   /** Prepare a parsed notebook; call {@linkcode evaluateAll} to evaluate. */
   constructor(doc: NotebookDoc, options: NotebookOptions = {}) {
     this.doc = doc;
-    this.#lang = options.language ?? getLanguage();
-    this.#preloaded = options.tables;
-    this.#given = options.given;
-    this.#overBudget = options.overBudget;
-    this.#onEvaluate = options.onEvaluate;
-    this.#encoding = new Map((options.encoding ?? []).map((d) => [d.line, d]));
-    this.#staticDiagnostics.push(...(options.encoding ?? []));
-    this.#host = options.host ?? {
-      readText: () => {
-        throw new Error("no folder to read table files from");
-      },
-    };
     this.display = {
       ...DEFAULT_DISPLAY,
       ...(doc.front.powerStep ? { powerStep: doc.front.powerStep } : {}),
     };
-    for (const [k, v] of Object.entries(this.#lang.constants)) this.#scope.set(k, v);
-    this.#define();
+    const lang = options.language ?? getLanguage();
+    this.#s = {
+      doc,
+      lang,
+      display: this.display,
+      host: options.host ?? {
+        readText: () => {
+          throw new Error("no folder to read table files from");
+        },
+      },
+      preloaded: options.tables,
+      given: options.given,
+      encoding: new Map((options.encoding ?? []).map((d) => [d.line, d])),
+      overBudget: options.overBudget,
+      onEvaluate: options.onEvaluate,
+      nodes: new Map(),
+      state: new Map(),
+      scope: new Map(Object.entries(lang.constants)),
+      staticDiagnostics: [...(options.encoding ?? [])],
+      graph: new DependencyGraph(new Map()),
+      cycleOf: new Map(),
+    };
+    defineNodes(this.#s);
     this.#analyseAll();
   }
 
@@ -371,277 +276,30 @@ export class Notebook {
    * @ignore
    */
   get language(): Language {
-    return this.#lang;
-  }
-
-  #define(): void {
-    const file = this.doc.file;
-    const at = (kind: ErrorKind, message: string, line: number, col: number): CellError => ({
-      kind,
-      message,
-      file,
-      line,
-      col,
-    });
-    const reservedMessage = (name: string, what: string) =>
-      `"${name}" is a unit, function or constant of the language; choose another ${what}`;
-    const taken = new Set<string>();
-    const reserved = (name: string) =>
-      LENTIL_UNITS.includes(name) || this.#lang.isFunction(name) ||
-      this.#lang.catalogue.constants.has(name) || this.#lang.isBuiltinSymbol(name);
-    for (const block of this.doc.tables) {
-      const id = taken.has(block.name) ? `${block.name}@${block.line}` : block.name;
-      taken.add(block.name);
-      const node: NodeDef = {
-        id,
-        kind: "table",
-        name: block.name,
-        block,
-        ownSources: [],
-        ownCaution: false,
-      };
-      if (id !== block.name) {
-        node.defError = at("duplicate", `duplicate name "${block.name}"`, block.line, block.col);
-      } else if (this.#badBytes(block.line, tableEnd(block))) {
-        node.defError = this.#badBytes(block.line, tableEnd(block));
-      } else if (reserved(block.name)) {
-        node.defError = at(
-          "name",
-          reservedMessage(block.name, "table name"),
-          block.line,
-          block.col,
-        );
-      }
-      this.#loadTable(node);
-      this.#nodes.set(id, node);
-    }
-    for (const cell of this.doc.cells) {
-      const full = cell.table ? `${cell.table}.${cell.name}` : cell.name;
-      const dup = taken.has(full);
-      const id = dup ? `${full}@${cell.line}` : full;
-      taken.add(full);
-      const node: NodeDef = {
-        id,
-        kind: cell.table ? "column" : "cell",
-        name: cell.name,
-        table: cell.table,
-        cell,
-        ownSources: [],
-        ownCaution: false,
-      };
-      if (dup) {
-        node.defError = at("duplicate", `duplicate name "${full}"`, cell.line, cell.col);
-      } else if (this.#badBytes(cell.line, cell.line)) {
-        node.defError = this.#badBytes(cell.line, cell.line);
-      } else if (!cell.table && reserved(cell.name)) {
-        node.defError = at("name", reservedMessage(cell.name, "name"), cell.line, cell.col);
-      } else if (
-        cell.table && !this.doc.tables.some((t) => t.name === cell.table) &&
-        !this.doc.cells.some((c) => !c.table && c.name === cell.table)
-      ) {
-        node.defError = at(
-          "name",
-          `no table named "${cell.table}" for computed column ${full}`,
-          cell.line,
-          cell.col,
-        );
-      }
-      this.#nodes.set(id, node);
-    }
-  }
-
-  /** The encoding error on the first line from `from` to `to` whose bytes are not UTF-8. */
-  #badBytes(from: number, to: number): CellError | undefined {
-    for (const [line, d] of this.#encoding) {
-      if (line >= from && line <= to) {
-        return { kind: "syntax", message: d.message, file: d.file, line: d.line, col: d.col };
-      }
-    }
-    return undefined;
-  }
-
-  #loadTable(node: NodeDef): void {
-    const block = node.block!;
-    const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase();
-    if (!["stop", "skip"].includes(skip)) {
-      const o = block.options["bad rows"]!;
-      this.#staticDiagnostics.push({
-        file: this.doc.file,
-        line: o.line,
-        col: o.col,
-        message: `bad rows: expected "stop" (the default) or "skip", got "${o.value}"`,
-        severity: "error",
-      });
-    }
-    let problems: TableProblem[] = [];
-    let built: BuiltTable | undefined;
-    const pre = node.id === block.name ? this.#preloaded?.get(block.name) : undefined;
-    if (pre) {
-      node.raw = { columns: pre.columns, rows: [], file: block.options.file!.value, headerLine: 1 };
-      if (pre.problem) problems = [pre.problem];
-      else built = pre.built;
-    } else {
-      const r = readRawTable(block, this.doc.file, this.#host);
-      node.raw = r.raw;
-      if (r.problem) problems = r.problems ?? [r.problem];
-      else {
-        built = buildTable(block.name, r.raw!, this.#lang, skip === "skip", {
-          file: block.options.file?.value,
-          where: { file: this.doc.file, line: block.line, col: block.col },
-        });
-      }
-    }
-    if (problems.length) {
-      const problem = problems[0];
-      node.defError ??= {
-        kind: "data",
-        message: problem.message,
-        file: problem.file,
-        line: problem.line,
-        col: problem.col,
-      };
-      for (const p of problems) this.#staticDiagnostics.push({ ...p, severity: "error" });
-      return;
-    }
-    const report = (
-      p: { file: string; line: number; col: number; message: string },
-      severity: "error" | "warning",
-    ) => this.#staticDiagnostics.push({ ...positioned(p), severity });
-    for (const p of built!.problems) report(p, built!.value ? "warning" : "error");
-    for (const p of built!.notes) report(p, "warning");
-    if (!built!.value) {
-      const first = built!.problems[0];
-      const more = built!.problems.length > 1
-        ? ` (and ${built!.problems.length - 1} more problem${
-          built!.problems.length === 2 ? "" : "s"
-        })`
-        : "";
-      const row = first.row !== undefined ? `row ${first.row + 1}: ` : "";
-      node.defError ??= {
-        kind: "data",
-        message: `table ${block.name}: ${row}${first.message}${more}`,
-        file: first.file,
-        line: first.line,
-        col: first.col,
-      };
-      return;
-    }
-    const info = tableInfo(built!.value)!;
-    node.built = { columns: info.columns, excluded: built!.excluded, file: info.file };
-  }
-
-  #shapes(): Map<string, TableShape> {
-    const shapes = new Map<string, TableShape>();
-    for (const n of this.#nodes.values()) {
-      if (n.kind !== "table" || !ownsName(n)) continue;
-      shapes.set(n.name, {
-        data: new Set(n.raw?.columns.map((c) => c.name) ?? []),
-        computed: new Set(),
-        // A table that could not be read has no columns to check names against: a formula
-        // using it depends on it, and so shows the table's own error, not "no column".
-        ...(n.defError && n.defError.kind !== "duplicate" ? { open: true } : {}),
-      });
-    }
-    // A cell with computed columns is a table a formula returns: its columns are known
-    // when it is evaluated.
-    for (const n of this.#nodes.values()) {
-      if (n.kind !== "column" || shapes.has(n.table!)) continue;
-      const cell = this.#nodes.get(n.table!);
-      if (cell?.kind === "cell" && ownsName(cell)) {
-        shapes.set(n.table!, { data: new Set(), computed: new Set(), open: true });
-      }
-    }
-    for (const n of this.#nodes.values()) {
-      if (n.kind === "column" && n.id === `${n.table}.${n.name}` && shapes.has(n.table!)) {
-        (shapes.get(n.table!)!.computed as Set<string>).add(n.name);
-      }
-    }
-    return shapes;
+    return this.#s.lang;
   }
 
   #analyseAll(): void {
-    const shapes = this.#shapes();
-    const cells = new Set<string>();
-    for (const n of this.#nodes.values()) {
-      if (n.kind === "cell" && ownsName(n)) cells.add(n.name);
-    }
-    for (const n of this.#nodes.values()) this.#analyseNode(n, shapes, cells);
+    const s = this.#s;
+    const shapes = tableShapes(s);
+    const cells = cellNames(s);
+    for (const n of s.nodes.values()) analyseNode(s, n, shapes, cells);
     this.#rebuildGraph();
   }
 
-  #analyseNode(n: NodeDef, shapes: Map<string, TableShape>, cells: Set<string>): void {
-    n.exprError = undefined;
-    if (!n.cell || n.defError) return;
-    const cell = n.cell;
-    const a = analyse(cell.expression, {
-      lang: this.#lang,
-      cells,
-      tables: shapes,
-      rowTable: n.table,
-    });
-    // A table that could not be read has no columns to see: its computed columns show the
-    // table's error (as a dependency), not "unknown name" for every column they use.
-    const table = n.table ? this.#nodes.get(n.table) : undefined;
-    const tableFailed = table?.kind === "table" && !!table.defError;
-    if (n.table && (shapes.has(n.table) || tableFailed)) {
-      const deps = new Set(a.deps);
-      deps.add(n.table);
-      n.analysis = { ...a, deps };
-    } else n.analysis = a;
-    n.compiled = undefined;
-    if (a.problem && !(tableFailed && a.problem.kind === "name")) {
-      n.exprError = {
-        kind: a.problem.kind,
-        message: a.problem.message,
-        file: this.doc.file,
-        line: cell.line,
-        col: cell.exprCol + a.problem.offset,
-      };
-    } else if (a.node) {
-      try {
-        n.compiled = this.#lang.compile(a.node as MathNode);
-      } catch (e) {
-        // A formula the language cannot prepare is this cell's error, never the notebook's.
-        n.exprError = {
-          kind: "syntax",
-          message: isStackOverflow(e)
-            ? "the formula nests too deeply to evaluate; split it into cells"
-            : `cannot prepare the formula: ${
-              plainMathMessage((e as Error).message).replace(
-                /^Function (\w+) missing in provided namespace "math"$/,
-                'function "$1" is not available in Lentil formulas',
-              )
-            }`,
-          file: this.doc.file,
-          line: cell.line,
-          col: cell.exprCol,
-        };
-      }
-    }
-    const srcs: string[] = [];
-    let caution = false;
-    for (const f of a.formulas) {
-      const spec = this.#lang.catalogue.formulas.get(f)!;
-      srcs.push(...spec.sources);
-      caution ||= !!spec.caution;
-    }
-    for (const c of a.constants) srcs.push(this.#lang.catalogue.constants.get(c)!.source);
-    n.ownSources = sortSources(srcs);
-    n.ownCaution = caution;
-  }
-
   #rebuildGraph(): void {
+    const s = this.#s;
     const deps = new Map<string, string[]>();
-    for (const n of this.#nodes.values()) deps.set(n.id, [...(n.analysis?.deps ?? [])]);
-    this.#graph = new DependencyGraph(deps);
-    this.#cycleOf = new Map();
-    for (const cyc of this.#graph.cycles) for (const id of cyc) this.#cycleOf.set(id, cyc);
+    for (const n of s.nodes.values()) deps.set(n.id, [...(n.analysis?.deps ?? [])]);
+    s.graph = new DependencyGraph(deps);
+    s.cycleOf = new Map();
+    for (const cyc of s.graph.cycles) for (const id of cyc) s.cycleOf.set(id, cyc);
   }
 
   /** Evaluate every node; returns the ids evaluated, in order. */
   evaluateAll(): string[] {
-    const order = this.#graph.order;
-    for (const id of order) this.#evaluate(id);
+    const order = this.#s.graph.order;
+    for (const id of order) evaluateNode(this.#s, id);
     return [...order];
   }
 
@@ -658,174 +316,19 @@ export class Notebook {
    * @throws {Error} when no cell has that id.
    */
   update(id: string, expression: string): string[] {
-    const n = this.#nodes.get(id);
+    const s = this.#s;
+    const n = s.nodes.get(id);
     if (!n?.cell) throw new Error(`no cell named "${id}" to change`);
     const before = [...(n.analysis?.deps ?? [])].sort().join("\n");
     n.cell = { ...n.cell, expression, input: !n.table && isLiteral(expression) };
-    const cells = new Set<string>();
-    for (const m of this.#nodes.values()) {
-      if (m.kind === "cell" && ownsName(m)) cells.add(m.name);
-    }
-    this.#analyseNode(n, this.#shapes(), cells);
+    analyseNode(s, n, tableShapes(s), cellNames(s));
     const after = [...(n.analysis?.deps ?? [])].sort().join("\n");
-    const wasCycle = this.#cycleOf.has(id);
+    const wasCycle = s.cycleOf.has(id);
     if (before !== after || wasCycle) this.#rebuildGraph();
-    const touched = new Set([id, ...(wasCycle ? this.#cycleOfIds() : [])]);
-    const dirty = this.#graph.downstream(touched);
-    for (const d of dirty) this.#evaluate(d);
+    const touched = new Set([id, ...(wasCycle ? s.cycleOf.keys() : [])]);
+    const dirty = s.graph.downstream(touched);
+    for (const d of dirty) evaluateNode(s, d);
     return dirty;
-  }
-
-  #cycleOfIds(): string[] {
-    return [...this.#cycleOf.keys()];
-  }
-
-  #evaluate(id: string): void {
-    const n = this.#nodes.get(id)!;
-    const file = this.doc.file;
-    const where = n.cell
-      ? { line: n.cell.line, col: n.cell.exprCol }
-      : { line: n.block!.line, col: n.block!.col };
-    const deps = n.analysis?.deps ?? new Set<string>();
-    let sources: string[] = [...n.ownSources];
-    let caution = n.ownCaution;
-    for (const d of deps) {
-      const s = this.#state.get(d);
-      if (s) {
-        sources = sources.concat(s.sources);
-        caution ||= s.caution;
-      }
-    }
-    const set = (st: Omit<NodeState, "sources" | "caution">) => {
-      const state = { ...st, sources: sortSources(sources), caution };
-      this.#state.set(id, state);
-      if (n.kind !== "column" && ownsName(n)) {
-        if (state.error) this.#scope.delete(n.name);
-        else this.#scope.set(n.name, state.value);
-      }
-    };
-    const cyc = this.#cycleOf.get(id);
-    if (cyc) {
-      return set({
-        error: { kind: "cycle", message: this.#cycleMessage(id, cyc), file, ...where },
-      });
-    }
-    const staticError = n.defError ?? n.exprError;
-    if (staticError) return set({ error: staticError });
-    for (const d of deps) {
-      const s = this.#state.get(d);
-      if (s?.error) {
-        const root = s.error.kind === "dependency" && s.error.cause
-          ? s.error.cause
-          : { id: d, error: s.error };
-        return set({
-          error: {
-            kind: "dependency",
-            message:
-              `depends on ${d}, which has an error: ${root.error.message} (${root.id} at ${root.error.file}:${root.error.line}:${root.error.col})`,
-            file,
-            ...where,
-            cause: root,
-          },
-        });
-      }
-    }
-    const over = this.#overBudget?.get(id);
-    if (over && n.cell && over.expression === n.cell.expression) {
-      return set({ error: { kind: "evaluation", message: over.message, file, ...where } });
-    }
-    this.#onEvaluate?.(id, n.cell?.expression);
-    try {
-      if (n.kind !== "table" && this.#given?.has(id)) {
-        const value = this.#given.get(id);
-        if (value instanceof Error) throw value;
-        if (n.kind === "column") {
-          addColumn(this.#scope.get(n.table!) as TableValue, value as Column);
-        }
-        return set({ value });
-      }
-      if (n.kind === "table") {
-        const b = n.built!;
-        const o = n.block?.options;
-        set({
-          value: makeTable(n.name, b.columns, {
-            excluded: b.excluded,
-            file: b.file,
-            subject: o?.subject?.value,
-            eye: o?.eye?.value,
-          }),
-        });
-      } else if (n.kind === "column") {
-        const table = this.#scope.get(n.table!) as TableValue;
-        if (!tableInfo(table)) {
-          return set({
-            error: {
-              kind: "name",
-              message: `${n.table} is ${
-                shownValue(table)
-              }, not a table: computed columns belong to tables`,
-              file,
-              ...where,
-            },
-          });
-        }
-        const column = this.#evaluateColumn(n, table);
-        addColumn(table, column);
-        set({ value: column });
-      } else {
-        const value = n.compiled!.evaluate(this.#scope);
-        const q = typeof value === "number" ? { value } : this.#lang.quantityParts(value);
-        if ((value as { isComplex?: boolean } | null)?.isComplex) {
-          return set({
-            error: {
-              kind: "evaluation",
-              message: "the result is not a real number (the square root of a negative value?)",
-              file,
-              ...where,
-            },
-          });
-        }
-        if (q && !Number.isFinite(q.value)) {
-          return set({
-            error: {
-              kind: "evaluation",
-              message: `the result is ${
-                Number.isNaN(q.value) ? "not a number" : "infinite"
-              } (a division by zero, or a value out of range?)`,
-              file,
-              ...where,
-            },
-          });
-        }
-        // A table a formula returns takes the cell's name (a copy, so computed columns
-        // added to it never change the table it came from).
-        const info = tableInfo(value);
-        if (info) {
-          return set({
-            value: makeTable(n.name, info.columns, { excluded: info.excluded, file: info.file }),
-          });
-        }
-        set({ value });
-      }
-    } catch (e) {
-      set({ error: this.#explain(e as Error, n, where) });
-    }
-  }
-
-  #evaluateColumn(n: NodeDef, table: TableValue): Column {
-    const info = tableInfo(table)!;
-    const cols = info.columns.filter((c) => c.name !== n.name);
-    const plan = planColumn(
-      n.name,
-      n.analysis!.node as MathNode,
-      n.compiled!,
-      cols,
-      this.#scope,
-      this.#lang,
-    );
-    const { column, path } = plan.run(cols, info.rowCount);
-    n.columnPath = { path, reason: plan.reason };
-    return column;
   }
 
   /**
@@ -840,94 +343,7 @@ export class Notebook {
    * ```
    */
   columnPath(id: string): { path: "compiled" | "row-wise"; reason?: string } | undefined {
-    return this.#nodes.get(id)?.columnPath;
-  }
-
-  #explain(e: Error, n: NodeDef, where: { line: number; col: number }): CellError {
-    const file = this.doc.file;
-    let message = plainMathMessage(e.message);
-    let kind: ErrorKind = "evaluation";
-    let at = where;
-    const undefinedSymbol = /^(?:row \d+: )?Undefined symbol (\S+)/.exec(e.message);
-    if (isStackOverflow(e)) {
-      message =
-        "the formula nests too deeply to evaluate (the values it builds are too deep); split it into cells";
-    } else if (
-      e.name === "LentilRangeError" || e instanceof RangeError ||
-      /outside the accepted range/.test(message)
-    ) {
-      kind = "range";
-    } else if (
-      e.name === "FormulaArgumentError" || e.name === "LentilParseError" ||
-      e.name === "LentilInputError"
-    ) {
-      kind = "argument";
-      // Point at the argument to blame, when the call can be found in the formula.
-      const blame = e as { formula?: string; argument?: number | string };
-      const node = n.analysis?.node as MathNode | undefined;
-      if (node && n.cell && blame.formula && blame.argument !== undefined) {
-        const offset = argumentOffset(node, n.cell.expression, blame.formula, blame.argument);
-        if (offset !== undefined) at = { line: n.cell.line, col: n.cell.exprCol + offset };
-        // A column without a unit given where a quantity is needed: the fix is in the header.
-        const arg = typeof blame.argument === "number"
-          ? argumentNode(node, blame.formula, blame.argument)
-          : undefined;
-        const unit = / needs a unit, e\.g\. \S+ (\S+)$/.exec(message)?.[1];
-        if (n.kind === "column" && arg?.type === "SymbolNode" && unit) {
-          const name = (arg as unknown as { name: string }).name;
-          const col = tableInfo(this.#scope.get(n.table!))?.columns.find((c) => c.name === name);
-          if (col && !col.unit) {
-            message += `; column ${name} of table ${n.table} has no unit: ` +
-              `declare it in the header, ${name} [${unit}]`;
-          }
-        }
-      }
-    } else if (e.name === "PartError") {
-      kind = "name";
-    } else if (n.kind === "column" && undefinedSymbol) {
-      kind = "name";
-      const info = tableInfo(this.#scope.get(n.table!));
-      message = `table ${n.table} has no column "${undefinedSymbol[1]}" and no cell has that name` +
-        (info ? ` (columns: ${info.columns.map((c) => c.name).join(", ")})` : "");
-    } else {
-      // The expression library refused an operation: find which, and say it in our words.
-      const node = n.analysis?.node as MathNode | undefined;
-      const found = node && n.kind === "cell"
-        ? explainFailure(node, this.#scope, this.#lang, this.display, n.cell?.expression ?? "")
-        : undefined;
-      if (found) {
-        message = found.message;
-        if (found.unit) kind = "unit";
-        if (found.offset !== undefined && n.cell) {
-          at = { line: n.cell.line, col: n.cell.exprCol + found.offset };
-        }
-      } else if (/Units do not match|Unexpected type of argument.*Unit/.test(e.message)) {
-        kind = "unit";
-        message = `units do not match in ${n.cell?.expression ?? "the formula"}`;
-      }
-    }
-    return { kind, message, file, ...at };
-  }
-
-  /**
-   * A cycle's message: the whole path with every member's line for a short cycle; for a
-   * long one the path is written once, at its first member, and every other member names
-   * it (so the output grows with the cycle's length, not its square).
-   */
-  #cycleMessage(id: string, cyc: readonly string[]): string {
-    if (cyc.length <= CYCLE_IN_FULL || id === cyc[0]) {
-      const path = [...cyc, cyc[0]].join(" → ");
-      const lines = cyc.map((m) => `${m} at line ${this.#lineOf(m)}`).join(", ");
-      return `cycle: ${path} (${lines})`;
-    }
-    return `cycle: ${id} is one of the ${cyc.length} cells of the cycle through ${cyc[0]} (line ${
-      this.#lineOf(cyc[0])
-    }), where its whole path is shown`;
-  }
-
-  #lineOf(id: string): number {
-    const n = this.#nodes.get(id);
-    return n?.cell?.line ?? n?.block?.line ?? 0;
+    return this.#s.nodes.get(id)?.columnPath;
   }
 
   /**
@@ -935,14 +351,14 @@ export class Notebook {
    * known from the formulas alone, before (or without) evaluation.
    */
   get callsCautionFormulas(): boolean {
-    return [...this.#nodes.values()].some((n) => n.ownCaution);
+    return [...this.#s.nodes.values()].some((n) => n.ownCaution);
   }
 
   /** The result of one node by id, or undefined. */
   result(id: string): CellResult | undefined {
-    const n = this.#nodes.get(id);
+    const n = this.#s.nodes.get(id);
     if (!n) return undefined;
-    const s = this.#state.get(id) ?? { sources: [], caution: false };
+    const s = this.#s.state.get(id) ?? { sources: [], caution: false };
     return {
       id,
       name: n.name,
@@ -963,14 +379,14 @@ export class Notebook {
 
   /** Every node's result, in document order (tables at their block). */
   results(): CellResult[] {
-    return [...this.#nodes.values()]
+    return [...this.#s.nodes.values()]
       .sort((a, b) => (a.cell?.line ?? a.block!.line) - (b.cell?.line ?? b.block!.line))
       .map((n) => this.result(n.id)!);
   }
 
   /** The current value of a node (undefined on error). */
   value(id: string): unknown {
-    const s = this.#state.get(id);
+    const s = this.#s.state.get(id);
     return s?.error ? undefined : s?.value;
   }
 
@@ -988,7 +404,7 @@ export class Notebook {
       out.push(d);
     };
     for (const d of this.doc.diagnostics) push(d);
-    for (const d of this.#staticDiagnostics) push(d);
+    for (const d of this.#s.staticDiagnostics) push(d);
     for (const r of this.results()) {
       const e = r.error;
       if (!e || e.kind === "dependency") continue;
@@ -1007,26 +423,6 @@ export class Notebook {
    * @ignore
    */
   get graph(): DependencyGraph {
-    return this.#graph;
+    return this.#s.graph;
   }
-}
-
-/**
- * True when a cell or table node is the one that answers to its name in formulas: not a
- * duplicate, and not named like a unit, function or constant (those keep their meaning, so
- * `x = 1 mm` still reads millimetres when a cell is wrongly named `mm`).
- */
-function tableEnd(block: TableBlock): number {
-  let end = block.headerLine;
-  for (const r of block.rows) if (r.line > end) end = r.line;
-  return end;
-}
-
-/** The position and message of a table problem, without its row. */
-function positioned(p: { file: string; line: number; col: number; message: string }) {
-  return { file: p.file, line: p.line, col: p.col, message: p.message };
-}
-
-function ownsName(n: NodeDef): boolean {
-  return n.id === n.name && n.defError?.kind !== "name";
 }
