@@ -81,6 +81,8 @@ table.live-grid input:focus { outline: 2px solid var(--accent); background: var(
 table.live-grid tr.live-bad td { background: var(--bad-bg); }
 table.live-grid td.live-tools { border: none; }
 .live-locked { color: var(--warn); font-size: .88rem; }
+td.lx-value .live-below { max-width: min(40rem, 62vw); font-weight: 400; }
+td.lx-value .live-below:empty { display: none; }
 .fresh { animation: live-fresh .8s ease-out; }
 @keyframes live-fresh { from { background: var(--warn-bg); } to { background: transparent; } }
 `;
