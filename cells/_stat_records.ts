@@ -35,7 +35,20 @@ interface StatShape {
 }
 
 /** Keys of spreads: never negative, shown without a sign. */
-const SPREAD_KEYS = new Set(["sd", "sdM", "sdJ0", "sdJ45", "semiMajor", "semiMinor"]);
+const SPREAD_KEYS = new Set([
+  "sd",
+  "sdM",
+  "sdJ0",
+  "sdJ45",
+  "semiMajor",
+  "semiMinor",
+  "se",
+  "sw",
+  "swFrom",
+  "swTo",
+  "repeatability",
+  "upper95",
+]);
 
 /** Labels in words of the parts of statistics records, by key. */
 const PART_LABELS: Record<string, string> = {
@@ -207,7 +220,7 @@ function shortLine(r: Record<string, unknown>, options: DisplayOptions): string 
 export function plainFigure(key: string, v: unknown): string | undefined {
   if (typeof v !== "number" || !Number.isFinite(v)) return undefined;
   if (key === "p") return v < 0.001 ? "< 0.001" : v.toFixed(3);
-  if (/^(r|fellowEye|designEffect|icc|t$)/.test(key)) return v.toFixed(2);
+  if (/^(r$|fellowEye|designEffect|icc|t$)/.test(key)) return v.toFixed(2);
   if (/^slope/.test(key)) return v.toFixed(3);
   return undefined;
 }

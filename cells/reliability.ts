@@ -215,13 +215,15 @@ export const RELIABILITY_FORMULAS: readonly FormulaSpec[] = [
           f.upper.toFixed(2)
         })`;
       }
+      const line = () =>
+        forms.map((f) => `${f.form.replace(",k", `,${who.length}`)} ${f.value.toFixed(2)}`)
+          .join(", ") +
+        `; ${subjects.length} subjects × ${who.length} raters`;
       return statRecord(record, {
         labels,
         partDisplay: (k) => shown[k],
-        display: () =>
-          forms.map((f) => `${f.form.replace(",k", `,${who.length}`)} ${f.value.toFixed(2)}`)
-            .join(", ") +
-          `; ${subjects.length} subjects × ${who.length} raters`,
+        display: line,
+        headline: line,
       });
     },
   }),

@@ -322,3 +322,29 @@ export function fellowEyeCorrelation(p: EyePairing, values: Numbers): { r: numbe
   }
   return { r: sxx > 0 && syy > 0 ? sxy / Math.sqrt(sxx * syy) : NaN, pairs: m };
 }
+
+/**
+ * The right and left eye's values of each person with both eyes measured, for a scatter
+ * of fellow eyes. Source: murdoch-1998.
+ *
+ * @example
+ * ```ts
+ * import { eyePairing, fellowEyePairs } from "./eyes.ts";
+ * fellowEyePairs(eyePairing(["a", "a"], ["R", "L"]), [1, 2]); // { right: [1], left: [2] }
+ * ```
+ */
+export function fellowEyePairs(
+  p: EyePairing,
+  values: Numbers,
+): { right: number[]; left: number[] } {
+  const right: number[] = [];
+  const left: number[] = [];
+  for (const person of p.persons) {
+    if (person.right < 0 || person.left < 0) continue;
+    const [x, y] = [values[person.right], values[person.left]];
+    if (Number.isNaN(x) || Number.isNaN(y)) continue;
+    right.push(x);
+    left.push(y);
+  }
+  return { right, left };
+}

@@ -251,3 +251,54 @@ export function intraclassForms(
     },
   ];
 }
+
+/** Each subject's mean and SD of repeated measures, for a plot of SD against mean. */
+export interface SubjectSpread {
+  /** Subject key. */
+  readonly subject: string;
+  /** Measurements counted. */
+  readonly n: number;
+  /** Mean of the subject's measurements. */
+  readonly mean: number;
+  /** SD of the subject's measurements (n − 1). */
+  readonly sd: number;
+}
+
+/**
+ * Each subject's mean and SD of repeated measures (subjects with fewer than two
+ * measurements left out), and the pooled within-subject SD: plotted against each other
+ * they show whether the error grows with the magnitude.
+ * Source: bland-altman-1996.
+ *
+ * @example
+ * ```ts
+ * import { subjectSpreads } from "./reliability.ts";
+ * subjectSpreads([1, 3, 2, 2], ["a", "a", "b", "b"]).spreads[0].sd.toFixed(3); // "1.414"
+ * ```
+ * @throws {LentilInputError} when no subject has two measurements.
+ */
+export function subjectSpreads(
+  values: Numbers,
+  subject: ArrayLike<string>,
+): { spreads: SubjectSpread[]; sw: number } {
+  const groups = new Map<string, number[]>();
+  for (let i = 0; i < values.length; i++) {
+    if (Number.isNaN(values[i]) || subject[i] === "") continue;
+    groups.set(subject[i], [...(groups.get(subject[i]) ?? []), values[i]]);
+  }
+  const spreads: SubjectSpread[] = [];
+  let ss = 0;
+  let df = 0;
+  for (const [k, g] of groups) {
+    if (g.length < 2) continue;
+    const mean = g.reduce((s, x) => s + x, 0) / g.length;
+    const dev = g.reduce((s, x) => s + (x - mean) ** 2, 0);
+    ss += dev;
+    df += g.length - 1;
+    spreads.push({ subject: k, n: g.length, mean, sd: Math.sqrt(dev / (g.length - 1)) });
+  }
+  if (!spreads.length) {
+    throw new LentilInputError("no subject has two measurements: nothing to plot");
+  }
+  return { spreads, sw: Math.sqrt(ss / df) };
+}

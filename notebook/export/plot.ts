@@ -377,6 +377,21 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
     option: (key) => opt(ctx, key),
     cell: (key) => cellJson(ctx, key),
     cellName: (key) => opt(ctx, key)?.split(".")[0],
+    column: (key, fallback) => {
+      const name = opt(ctx, key) ?? fallback;
+      const c = name ? info.columns.find((c) => c.name === name) : undefined;
+      if (!c) {
+        problem(
+          ctx,
+          name
+            ? `${key}: table ${tableName} has no column "${name}"`
+            : `needs \`${key}:\` naming a column`,
+          block.options[key],
+        );
+      }
+      return c;
+    },
+    pairing: { subject: info.subject, eye: info.eye },
     problem: (message, key) => problem(ctx, message, key ? block.options[key] : undefined),
     rowMarks: (part, o = {}): Layer => ({
       type: "marks",
@@ -400,7 +415,9 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
   if (drawing.note) caption = caption ? `${caption} ${drawing.note}` : drawing.note;
   const x: AxisSpec = { ...axisOf(ctx, "horizontal", xc), ...drawing.x };
   let y: AxisSpec = { ...axisOf(ctx, "vertical", yc), ...drawing.y };
-  if (!yc && !opt(ctx, "vertical-title")) y = { ...y, title: "number of rows" };
+  if (!yc && !opt(ctx, "vertical-title") && !drawing.y?.title) {
+    y = { ...y, title: "number of rows" };
+  }
   if (y.kind === "logmar" && betterUp) {
     y = {
       ...y,

@@ -46,6 +46,13 @@ export interface FigureInput {
    * is not given or the cell cannot be read (the problem is then reported).
    */
   cell(key: string): unknown;
+  /**
+   * The table column a key names (the key's value, else `fallback`, a column name), or
+   * undefined when neither names a column of the plotted table (the problem is reported).
+   */
+  column(key: string, fallback?: string): Column | undefined;
+  /** The plotted table's declared subject and eye columns, when its block names them. */
+  readonly pairing?: { readonly subject?: string; readonly eye?: string };
   /** The name the key gives, as written (for labels). */
   cellName(key: string): string | undefined;
   /** Report a problem with the block, at a key's line when given. */

@@ -5,7 +5,7 @@
  * @example
  * ```ts
  * import { FIGURES } from "./mod.ts";
- * FIGURES.map((f) => f.name); // ["curve", "scatter", "distribution", "agreement"]
+ * FIGURES.map((f) => f.name); // ["curve", "scatter", "distribution", "agreement", "repeatability", "fellow-eyes"]
  * ```
  *
  * @module
@@ -16,8 +16,17 @@ import { curve } from "./curve.ts";
 import { scatter } from "./scatter.ts";
 import { distribution } from "./distribution.ts";
 import { agreement } from "./agreement.ts";
+import { repeatability } from "./repeatability.ts";
+import { fellowEyes } from "./fellow_eyes.ts";
 
 export type { FigureDef, FigureDrawing, FigureInput } from "./figure.ts";
 
 /** The figures, in the order the docs list them. */
-export const FIGURES: readonly FigureDef[] = [curve, scatter, distribution, agreement];
+export const FIGURES: readonly FigureDef[] = [
+  curve,
+  scatter,
+  distribution,
+  agreement,
+  repeatability,
+  fellowEyes,
+];
