@@ -1,7 +1,7 @@
 /**
  * A table of results laid out as a paper's supplement prints it: one row per measure,
- * columns measure | n | persons | mean ± SD | 95% CI | median | range | both eyes, the unit
- * written once beside the measure's name. The result is a table value, so it shows on the
+ * columns measure | n | persons | meanSD (mean ± SD) | ci95 (95% CI) | median | range |
+ * eyes (what was done with both eyes), the unit written once beside the measure's name. The result is a table value, so it shows on the
  * page like any table and writes as CSV.
  *
  * @example
@@ -10,7 +10,7 @@
  * import { tableInfo } from "./table.ts";
  * const lang = getLanguage();
  * const t = lang.compile(lang.parse("studyTable([1, 2, 3, 4])")).evaluate({});
- * tableInfo(t)?.columns.map((c) => c.name).slice(0, 4); // ["measure", "n", "persons", "mean ± SD"]
+ * tableInfo(t)?.columns.map((c) => c.name).slice(0, 4); // ["measure", "n", "persons", "meanSD"]
  * ```
  *
  * @module
@@ -40,7 +40,7 @@ export const STUDY_TABLE_FORMULAS: readonly FormulaSpec[] = [
     name: "studyTable",
     group: "study statistics",
     summary:
-      "A supplement-ready table, one row per measure: measure (unit) | n | persons | mean ± SD | 95% CI | median | range | both eyes; the CI counts persons when a subject key and an eye column are found (options as for meanCI).",
+      "A supplement-ready table, one row per measure: measure (unit) | n | persons | meanSD (mean ± SD) | ci95 (95% CI) | median | range | eyes; the CI counts persons when a subject key and an eye column are found (options as for meanCI).",
     params: [
       COL("first", "the first measure, a numeric column"),
       ...["second", "third", "fourth", "fifth", "sixth", "seventh", "eighth"].map((w) =>
@@ -58,11 +58,11 @@ export const STUDY_TABLE_FORMULAS: readonly FormulaSpec[] = [
         measure: [],
         n: [],
         persons: [],
-        "mean ± SD": [],
-        "95% CI": [],
+        meanSD: [],
+        ci95: [],
         median: [],
         range: [],
-        "both eyes": [],
+        eyes: [],
       };
       for (const c of cols) {
         const unit = unitOf(c);
@@ -76,11 +76,11 @@ export const STUDY_TABLE_FORMULAS: readonly FormulaSpec[] = [
         out.measure.push(unit ? `${c.name} (${unit})` : c.name);
         out.n.push(String(m.n));
         out.persons.push(m.subjects !== undefined ? String(m.subjects) : "");
-        out["mean ± SD"].push(`${figure(s.mean, unit)} ± ${figure(s.sd, unit, true)}`);
-        out["95% CI"].push(`${figure(m.from, unit)} to ${figure(m.to, unit)}`);
+        out.meanSD.push(`${figure(s.mean, unit)} ± ${figure(s.sd, unit, true)}`);
+        out.ci95.push(`${figure(m.from, unit)} to ${figure(m.to, unit)}`);
         out.median.push(figure(s.median, unit));
         out.range.push(`${figure(s.lowest, unit)} to ${figure(s.highest, unit)}`);
-        out["both eyes"].push(m.warning ? `${m.note}; warning: ${m.warning}` : m.note);
+        out.eyes.push(m.warning ? `${m.note}; warning: ${m.warning}` : m.note);
       }
       return makeTable(
         "studyTable",

@@ -73,8 +73,10 @@ browserTest(
       assert.deepEqual(seen.requests, [`file://${out}`]);
       const plots = await plotFacts(page);
       assert.deepEqual(plots.map((p) => p.id).sort(), [
+        "plot-fellow",
         "plot-focus",
         "plot-methods",
+        "plot-retest",
         "plot-spread_j0",
         "plot-vectors",
       ]);

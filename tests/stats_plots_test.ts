@@ -63,7 +63,7 @@ Deno.test("fellow-eye scatter and repeatability plot from the table's declared k
   // Murdoch et al. 1998 (fellow eyes); Bland & Altman 1996 (within-subject SD)
   const f = plot(["figure: fellow-eyes", "table: t", "horizontal: x"]);
   assert.deepEqual(f.problems, []);
-  assert.match(f.svg, /data-part="persons"/);
+  assert.match(f.svg, /data-part="rows"/);
   assert.match(f.caption ?? "", /r = 0\.\d\d over 4 persons with both eyes/);
   assert.match(f.svg, /left eye: x \(D\)/);
   const r = plot(["figure: repeatability", "table: t", "horizontal: x"]);

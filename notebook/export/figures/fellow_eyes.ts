@@ -53,7 +53,7 @@ export const fellowEyes: FigureDef = {
           colour: FIGURE.axis,
           dash: "4 4",
         },
-        { type: "marks", part: "persons", xs: pairs.right, ys: pairs.left, size: 4, opacity: 0.6 },
+        { type: "marks", part: "rows", xs: pairs.right, ys: pairs.left, size: 4, opacity: 0.6 },
       ],
       x: { title: `right eye: ${c.name}${unit}` },
       y: { title: `left eye: ${c.name}${unit}`, kind: axisKind(c.unit) },

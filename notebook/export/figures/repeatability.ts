@@ -38,7 +38,7 @@ export const repeatability: FigureDef = {
       layers: [
         {
           type: "marks",
-          part: "subjects",
+          part: "rows",
           xs: r.spreads.map((s) => s.mean),
           ys: r.spreads.map((s) => s.sd),
           size: 4,
