@@ -313,3 +313,25 @@ Deno.test("every computed column of the starters equals the row-wise path", asyn
   }
   assert.ok(checked >= 5, `${checked} columns checked`);
 });
+
+Deno.test("formulas with options and bare numbers give the language's own results and errors", () => {
+  // common practice, no source: the compiled path is never more lenient than the language
+  const cols = [
+    new Column("pupil", "quantity", "mm", Float64Array.from({ length: 50 }, (_, i) => 2 + i / 10)),
+    new Column("defocus", "quantity", "D", Float64Array.from({ length: 50 }, (_, i) => i / 20)),
+    new Column("n", "number", "", Float64Array.from({ length: 50 }, (_, i) => i / 10)),
+  ];
+  for (
+    const expr of [
+      "blurDisc(pupil, defocus)",
+      "combinedBlur(pupil, defocus)",
+      "combinedBlur(pupil, defocus, {wavelength: 600 nm})",
+      "retinalBlur(pupil, defocus)",
+      "vertexPower(n, 12 mm)",
+      "vertexPower(defocus, n)",
+    ]
+  ) {
+    const { plan, expected, got } = sameAsRowWise(expr, cols, 50);
+    assert.deepEqual(got, expected, `${expr} (${plan.compiled ? "compiled" : plan.reason})`);
+  }
+});

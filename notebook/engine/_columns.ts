@@ -376,8 +376,9 @@ function generate(
 
   const formula = (spec: FormulaSpec, args: MathNode[]): Gen => {
     const scalar = (t: string) => t === "quantity" || t === "number" || t === "integer";
+    const optionRecord = args.length > 0 && args[args.length - 1].type === "ObjectNode";
     if (
-      spec.variadic || spec.options?.length || !spec.params.every((p) => scalar(p.type)) ||
+      spec.variadic || optionRecord || !spec.params.every((p) => scalar(p.type)) ||
       !scalar(spec.returns.type)
     ) {
       return typedFormula(spec, args);
@@ -407,6 +408,10 @@ function generate(
       codes.push(pu!.scale === 1 ? g.code : `(${g.code}/${konst(pu!.scale)})`);
     });
     for (const o of spec.options ?? []) codes.push(konst(o.default as number));
+    // No option record: the options take their defaults, as the language passes them.
+    for (const o of spec.options ?? []) {
+      codes.push(typeof o.default === "number" ? konst(o.default) : held(o.default));
+    }
     const f = fn(checkedFormula(spec));
     const call = `${f}(${codes.join(",")})`;
     if (spec.returns.type === "quantity" && spec.returns.unit) {
