@@ -219,3 +219,62 @@ export function browserTest(
     },
   });
 }
+
+/** One accessibility finding of axe-core on a page. */
+export interface AxeFinding {
+  /** The axe-core rule (e.g. `color-contrast`). */
+  readonly id: string;
+  /** minor, moderate, serious or critical. */
+  readonly impact: string;
+  /** What the rule asks for. */
+  readonly help: string;
+  /** Selectors of the first few offending nodes. */
+  readonly nodes: readonly string[];
+}
+
+/**
+ * The serious and critical WCAG 2 A and AA findings of axe-core (an accessibility engine
+ * from the npm registry) on the page as it stands. Its source is evaluated in the page, so a
+ * content security policy that forbids inline scripts does not stop it.
+ *
+ * @example
+ * ```ts ignore
+ * import { axeFindings } from "./_browser.ts";
+ * assert.deepEqual(await axeFindings(page), []);
+ * ```
+ */
+export async function axeFindings(page: Page): Promise<AxeFinding[]> {
+  const { default: axe } = await import("axe-core");
+  await page.evaluate(axe.source);
+  return await page.evaluate(async () => {
+    const run = (globalThis as unknown as {
+      axe: {
+        run(
+          context: unknown,
+          options: unknown,
+        ): Promise<
+          {
+            violations: {
+              id: string;
+              impact?: string | null;
+              help: string;
+              nodes: { target: unknown[] }[];
+            }[];
+          }
+        >;
+      };
+    }).axe.run;
+    const r = await run(document, {
+      runOnly: { type: "tag", values: ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"] },
+      resultTypes: ["violations"],
+    });
+    return r.violations
+      .filter((v) => v.impact === "serious" || v.impact === "critical")
+      .map((v) => ({
+        id: v.id,
+        impact: v.impact ?? "",
+        help: v.help,
+        nodes: v.nodes.slice(0, 5).map((n) => n.target.map(String).join(" ")),
+      }));
+  });
+}

@@ -239,3 +239,40 @@ browserTest("live page: a file edited behind the page loses no data", async (ctx
     assert.deepEqual(seen.pageErrors, []);
   });
 });
+
+browserTest(
+  "live page: an edit keeps what it did not change; a plot is redrawn only for its data; End session",
+  async (ctx) => {
+    await withServer(async (server) => {
+      const page = await ctx.newPage();
+      const seen = watchPage(page);
+      await open(page, server);
+      // Probes on nodes that no edit below should replace.
+      await page.evaluate(() => {
+        for (const sel of ["figure.lx-plot svg", "#table-trials", "#cell-other", ".lx-prose"]) {
+          document.querySelector(sel)!.setAttribute("data-probe", "kept");
+        }
+      });
+      const cornea0 = await valueOf(page, "cornea");
+      await setExpr(page, "spectacle", "-7.00 D");
+      await page.waitForFunction(
+        (v) => document.querySelector("#cell-cornea output")?.textContent !== v,
+        cornea0,
+      );
+      assert.equal(await page.locator("[data-probe=kept]").count(), 4, "nothing else redrawn");
+      // A row of the plotted table changes: the plot is drawn again, the grid kept.
+      await gridCell(page, "trials", 0, 1).fill("0.40");
+      await gridCell(page, "trials", 0, 1).press("Enter");
+      await page.waitForFunction(() => !document.querySelector("figure.lx-plot svg[data-probe]"));
+      assert.equal(await page.locator("#table-trials[data-probe=kept]").count(), 1);
+      // The page ends the session: the server stops and the page says so.
+      await page.locator("#lentil-end").click();
+      await page.waitForSelector("body[data-ended]");
+      assert.match(await page.locator("#lentil-status").innerText(), /session ended/);
+      assert.equal(server.endedFromPage, true);
+      await server.finished;
+      assert.deepEqual(seen.consoleErrors, []);
+      assert.deepEqual(seen.pageErrors, []);
+    });
+  },
+);

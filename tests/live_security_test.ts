@@ -1,7 +1,7 @@
 import assert from "node:assert/strict";
 import { join } from "node:path";
 import { startLiveServer } from "../notebook/live/server.ts";
-import { checkRequest, newToken } from "../notebook/live/_guard.ts";
+import { checkRequest, newKey } from "../notebook/live/_guard.ts";
 import { bareName, insideFolder } from "../notebook/live/_paths.ts";
 
 const FIXTURES = new URL("./fixtures/live/", import.meta.url);
@@ -43,19 +43,28 @@ async function rawRequest(port: number, head: string): Promise<string> {
   }
 }
 
-Deno.test("tokens are long and fresh", () => {
-  const a = newToken();
+Deno.test("keys are long and fresh", () => {
+  const a = newKey();
   assert.equal(a.length, 43);
-  assert.notEqual(a, newToken());
+  assert.notEqual(a, newKey());
   assert.match(a, /^[A-Za-z0-9_-]+$/);
 });
 
-Deno.test("the guard refuses foreign hosts, origins, cross-site fetches and bad tokens", () => {
-  const cfg = { port: 4000, token: "tok" };
-  const req = (headers: Record<string, string>, url = "http://127.0.0.1:4000/api/state?t=tok") =>
-    checkRequest(new Request(url, { headers }), cfg);
+Deno.test("the guard refuses foreign hosts, origins, cross-site fetches and bad keys", () => {
+  const cfg = { port: 4000, key: "tok" };
+  const req = (headers: Record<string, string>, url = "http://127.0.0.1:4000/tok/api/state") => {
+    const r = checkRequest(new Request(url, { headers }), cfg);
+    return "status" in r ? r : undefined;
+  };
   assert.equal(req({ host: "127.0.0.1:4000" }), undefined);
   assert.equal(req({ host: "localhost:4000" }), undefined);
+  assert.deepEqual(
+    checkRequest(
+      new Request("http://127.0.0.1:4000/tok/api/state", { headers: { host: "127.0.0.1:4000" } }),
+      cfg,
+    ),
+    { path: "/api/state" },
+  );
   assert.equal(req({ host: "127.0.0.1:4001" })?.status, 403);
   assert.equal(req({ host: "rebind.example:4000" })?.status, 403);
   assert.equal(req({})?.status, 403);
@@ -63,10 +72,15 @@ Deno.test("the guard refuses foreign hosts, origins, cross-site fetches and bad 
   assert.equal(req({ host: "127.0.0.1:4000", origin: "null" })?.status, 403);
   assert.equal(req({ host: "127.0.0.1:4000", "sec-fetch-site": "cross-site" })?.status, 403);
   assert.equal(
-    req({ host: "127.0.0.1:4000" }, "http://127.0.0.1:4000/api/state?t=tok2")?.status,
+    req({ host: "127.0.0.1:4000" }, "http://127.0.0.1:4000/tok2/api/state")?.status,
     403,
   );
   assert.equal(req({ host: "127.0.0.1:4000" }, "http://127.0.0.1:4000/api/state")?.status, 403);
+  assert.equal(
+    req({ host: "127.0.0.1:4000" }, "http://127.0.0.1:4000/api/state?t=tok")?.status,
+    403,
+    "the key in a query is not the key in the path",
+  );
 });
 
 Deno.test("file names: no way out of the notebook's folder", async () => {
@@ -97,10 +111,11 @@ Deno.test("file names: no way out of the notebook's folder", async () => {
 });
 
 Deno.test({
-  name: "the server refuses wrong tokens, foreign Origin and Host, and path traversal",
+  name: "the server refuses wrong keys, foreign Origin and Host, and path traversal",
   async fn(t) {
     const { dir, inner, path, server } = await fixtureServer();
-    const { origin, token, port } = server;
+    const { origin, key, port } = server;
+    const at = (p: string) => `/${key}${p}`;
     const original = await Deno.readTextFile(path);
     const get = (p: string, headers: Record<string, string> = {}) =>
       fetch(origin + p, { headers }).then(async (r) => ({
@@ -115,50 +130,63 @@ Deno.test({
       }).then(async (r) => ({ status: r.status, body: await r.text() }));
     try {
       assert.equal(new URL(server.url).hostname, "127.0.0.1");
-      await t.step("with the token: allowed", async () => {
-        assert.equal((await get(`/?t=${token}`)).status, 200);
-        const state = await get("/api/state", { "x-lentil-token": token });
+      await t.step("under the key: allowed", async () => {
+        assert.equal(server.url, `${origin}/${key}/`);
+        const page = await get(at("/"));
+        assert.equal(page.status, 200);
+        assert.ok(!page.body.includes(key), "the page's markup does not repeat the key");
+        const state = await get(at("/api/state"));
         assert.equal(state.status, 200);
         assert.ok(JSON.parse(state.body).view.cells.cornea);
-      });
-      await t.step("without or with a wrong token: refused", async () => {
-        for (const p of ["/", "/client.js", "/api/state", "/api/disk"]) {
-          assert.equal((await get(p)).status, 403, p);
-          assert.equal((await get(`${p}?t=${token.slice(0, -1)}x`)).status, 403, p);
+        const script = await fetch(origin + at("/client/main.js"));
+        assert.equal(script.status, 200);
+        assert.match(script.headers.get("content-type") ?? "", /javascript/);
+        await script.body?.cancel();
+        for (const p of ["/client/evil.js", "/client/../_guard.ts", "/client/main.ts"]) {
+          assert.equal((await get(at(p))).status, 404, p);
         }
-        const r = await post("/api/cell", { id: "spectacle", expression: "+9 D" }, {
-          "x-lentil-token": "guess",
-        });
+        const bare = await fetch(`${origin}/${key}`, { redirect: "manual" });
+        assert.equal(bare.status, 308);
+        assert.equal(bare.headers.get("location"), `/${key}/`);
+      });
+      await t.step("without or with a wrong key: refused", async () => {
+        for (const p of ["/", "/client/main.js", "/style.css", "/api/state", "/api/disk"]) {
+          assert.equal((await get(p)).status, 403, p);
+          assert.equal((await get(`/${key.slice(0, -1)}x${p}`)).status, 403, p);
+          assert.equal((await get(`${p}?t=${key}`)).status, 403, p);
+          assert.equal((await get(p, { "x-lentil-token": key })).status, 403, p);
+        }
+        const r = await post(`/guess/api/cell`, { id: "spectacle", expression: "+9 D" });
         assert.equal(r.status, 403);
         assert.equal((await post("/api/save", {})).status, 403);
         assert.equal(await Deno.readTextFile(path), original);
       });
       await t.step("a foreign Origin: refused, nothing changes", async () => {
-        const h = { "x-lentil-token": token, origin: "http://evil.example" };
-        assert.equal((await get("/api/state", h)).status, 403);
-        const r = await post("/api/cell", { id: "spectacle", expression: "+9 D" }, h);
+        const h = { origin: "http://evil.example" };
+        assert.equal((await get(at("/api/state"), h)).status, 403);
+        const r = await post(at("/api/cell"), { id: "spectacle", expression: "+9 D" }, h);
         assert.equal(r.status, 403);
         assert.equal(server.session.text, original);
-        const ok = await get("/api/state", { "x-lentil-token": token, origin });
+        const ok = await get(at("/api/state"), { origin });
         assert.equal(ok.status, 200, "our own origin is fine");
       });
       await t.step("a foreign Host header: refused", async () => {
         for (const host of [`evil.example:${port}`, `127.0.0.1:${port + 1}`, "127.0.0.1"]) {
           const res = await rawRequest(
             port,
-            `GET /api/state?t=${token} HTTP/1.1\r\nHost: ${host}\r\nConnection: close\r\n\r\n`,
+            `GET /${key}/api/state HTTP/1.1\r\nHost: ${host}\r\nConnection: close\r\n\r\n`,
           );
           assert.match(res, /^HTTP\/1\.1 403/, host);
           assert.ok(!res.includes("cornea"), host);
         }
         const ok = await rawRequest(
           port,
-          `GET /api/state?t=${token} HTTP/1.1\r\nHost: 127.0.0.1:${port}\r\nConnection: close\r\n\r\n`,
+          `GET /${key}/api/state HTTP/1.1\r\nHost: 127.0.0.1:${port}\r\nConnection: close\r\n\r\n`,
         );
         assert.match(ok, /^HTTP\/1\.1 200/);
       });
       await t.step("path traversal in file parameters: refused, nothing leaks", async () => {
-        const h = { "x-lentil-token": token };
+        const h = {};
         for (
           const f of [
             "../secret.txt",
@@ -171,14 +199,14 @@ Deno.test({
             "counter.lentil.md",
           ]
         ) {
-          const r = await get(`/api/source?file=${f}`, h);
+          const r = await get(at(`/api/source?file=${f}`), h);
           assert.ok(r.status === 403 || r.status === 400, `${f}: ${r.status}`);
           assert.ok(!r.body.includes("not for the page"), f);
           assert.ok(!r.body.includes("root:"), f);
         }
-        assert.equal((await get("/api/source?file=visits.csv", h)).status, 200);
+        assert.equal((await get(at("/api/source?file=visits.csv"), h)).status, 200);
         for (const name of ["../escaped.lentil.md", `${dir}/abs.lentil.md`, "sub/x.lentil.md"]) {
-          const r = await post("/api/keep-both", { name }, h);
+          const r = await post(at("/api/keep-both"), { name }, h);
           assert.ok(r.status === 403 || r.status === 400, `${name}: ${r.status}`);
         }
         assert.deepEqual(
@@ -188,7 +216,7 @@ Deno.test({
         );
         const raw = await rawRequest(
           port,
-          `GET /../secret.txt?t=${token} HTTP/1.1\r\nHost: 127.0.0.1:${port}\r\nConnection: close\r\n\r\n`,
+          `GET /${key}/../secret.txt HTTP/1.1\r\nHost: 127.0.0.1:${port}\r\nConnection: close\r\n\r\n`,
         );
         assert.ok(!raw.includes("not for the page"));
         assert.ok(
@@ -196,18 +224,18 @@ Deno.test({
         );
       });
       await t.step("bodies are validated", async () => {
-        const h = { "x-lentil-token": token };
-        assert.equal((await post("/api/cell", { id: "vd" }, h)).status, 400);
-        assert.equal((await post("/api/cell", { id: "vd", expression: 1 }, h)).status, 400);
+        const h = {};
+        assert.equal((await post(at("/api/cell"), { id: "vd" }, h)).status, 400);
+        assert.equal((await post(at("/api/cell"), { id: "vd", expression: 1 }, h)).status, 400);
         assert.equal(
-          (await post("/api/cell", { id: "vd", expression: "1 mm", extra: 1 }, h)).status,
+          (await post(at("/api/cell"), { id: "vd", expression: "1 mm", extra: 1 }, h)).status,
           400,
         );
         assert.equal(
-          (await post("/api/cell", { id: "vd", expression: "1 mm\n```" }, h)).status,
+          (await post(at("/api/cell"), { id: "vd", expression: "1 mm\n```" }, h)).status,
           400,
         );
-        const text = await fetch(origin + "/api/save", {
+        const text = await fetch(origin + at("/api/save"), {
           method: "POST",
           headers: { ...h, "content-type": "text/plain" },
           body: "{}",

@@ -9,8 +9,8 @@ import { EXPORT_CSS } from "../export/style.ts";
 import { esc } from "./_markup.ts";
 
 /**
- * The page shell: a bar with the file's state and commands, and the notebook below. The
- * token rides on the script and style addresses, since every request must carry it.
+ * The page shell: a bar with the file's state and commands, and the notebook below. Its
+ * script and style are addressed relative to the page, whose address holds the session's key.
  *
  * @example
  * ```ts
@@ -18,17 +18,16 @@ import { esc } from "./_markup.ts";
  * pageHtml("Case <1>").includes("Case &lt;1&gt;"); // true
  * ```
  */
-export function pageHtml(title: string, token = ""): string {
-  const q = token ? `?t=${encodeURIComponent(token)}` : "";
+export function pageHtml(title: string): string {
   return `<!doctype html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <link rel="icon" href="data:,">
-<title>${esc(title)} · live</title>
-<link rel="stylesheet" href="style.css${q}" id="lentil-style">
-<script src="client.js${q}" defer id="lentil-script"></script>
+<title>${esc(title)} · Lentil, editing</title>
+<link rel="stylesheet" href="style.css" id="lentil-style">
+<script type="module" src="client/main.js" id="lentil-script"></script>
 </head>
 <body>
 <header class="live-bar">
@@ -39,6 +38,7 @@ export function pageHtml(title: string, token = ""): string {
     <button type="button" id="lentil-undo" title="Step back (Ctrl+Z)">Undo</button>
     <button type="button" id="lentil-redo" title="Step forward (Ctrl+Shift+Z)">Redo</button>
     <button type="button" id="lentil-save" title="Write the file (Ctrl+S)">Save</button>
+    <button type="button" id="lentil-end" title="Stop serving this notebook; what is not saved is not written">End session</button>
   </span>
 </header>
 <div id="lentil-banner" class="live-banner" role="alert" hidden></div>
@@ -83,8 +83,6 @@ table.live-grid td.live-tools { border: none; }
 .live-locked { color: var(--warn); font-size: .88rem; }
 td.lx-value .live-below { max-width: min(40rem, 62vw); font-weight: 400; }
 td.lx-value .live-below:empty { display: none; }
-.fresh { animation: live-fresh .8s ease-out; }
-@keyframes live-fresh { from { background: var(--warn-bg); } to { background: transparent; } }
 `;
 
 /** The page's style: the export's stylesheet, so the page reads as the export does, and the editing additions. */

@@ -1,15 +1,16 @@
 /**
- * The live server: one notebook, one page, on 127.0.0.1 only, on a free port, behind an
- * unguessable token. Every request is checked for our own Host, no foreign Origin and the
- * token; JSON bodies are validated with zod; requests are handled one at a time so edits
- * never interleave.
+ * The live server: one notebook, one page, on 127.0.0.1 only, on a free port, under an
+ * address that holds an unguessable key: `http://127.0.0.1:PORT/KEY/`. Every request is
+ * checked for our own Host, no foreign Origin and the key as the first part of its path; JSON
+ * bodies are validated with zod; requests are handled one at a time so edits never
+ * interleave.
  *
- * HTTP API (token as `?t=TOKEN` or header `X-Lentil-Token`; POST bodies are JSON):
+ * HTTP API (every path below `/KEY`; POST bodies are JSON):
  *
  * | method | path | body | answer |
  * | --- | --- | --- | --- |
  * | GET | `/` | | the page |
- * | GET | `/client.js`, `/style.css` | | the page's script and style |
+ * | GET | `/client/NAME.js`, `/style.css` | | the page's script modules and style |
  * | GET | `/api/state` | | `{view, status}` |
  * | GET | `/api/disk` | | `{changed: [file…]}`: files changed on disk since read |
  * | GET | `/api/source?file=NAME` | | text of a CSV file a table reads |
@@ -21,12 +22,13 @@
  * | POST | `/api/save` | `{}` | `{ok: true, written}` or 409 `{ok: false, conflict}` |
  * | POST | `/api/reload` | `{}` | `{ok, patch}` (the page's edits stay on the undo stack) |
  * | POST | `/api/keep-both` | `{name?}` | `{file, written, patch}` |
+ * | POST | `/api/end` | `{}` | `{ok: true, unsaved}`, then the server stops |
  *
  * @example
  * ```ts ignore
  * import { startLiveServer } from "./server.ts";
  * const server = await startLiveServer("case.lentil.md");
- * console.log(server.url); // http://127.0.0.1:PORT/?t=TOKEN
+ * console.log(server.url); // http://127.0.0.1:PORT/KEY/
  * await server.shutdown();
  * ```
  *
@@ -34,9 +36,9 @@
  */
 
 import { z } from "zod";
-import { checkRequest, newToken, ownOrigins } from "./_guard.ts";
+import { checkRequest, newKey, ownOrigins } from "./_guard.ts";
 import { UnsafePathError } from "./_paths.ts";
-import { CLIENT_JS } from "./_client.ts";
+import { clientFiles } from "./_assets.ts";
 import { pageHtml, STYLE_CSS } from "./_page.ts";
 import { EditRefused, type EditResult, LiveSession } from "./session.ts";
 import { SaveError } from "./save.ts";
@@ -45,14 +47,16 @@ import type { Renderers } from "./_views.ts";
 
 /** A running live server. */
 export interface LiveServer {
-  /** The page's address, token included. */
+  /** The page's address, which holds the key. */
   readonly url: string;
   /** `http://127.0.0.1:PORT`. */
   readonly origin: string;
   /** The port. */
   readonly port: number;
-  /** The token. */
-  readonly token: string;
+  /** The session's key (the first part of every path). */
+  readonly key: string;
+  /** Whether the page ended the session (its End button). */
+  readonly endedFromPage: boolean;
   /** The editing session. */
   readonly session: LiveSession;
   /** Stop serving. */
@@ -106,9 +110,9 @@ function json(data: unknown, status = 200): Response {
 
 class BadRequest extends Error {}
 
-/** The method and path of a request, for a line in the terminal. */
+/** The method and path of a request below the key (never the key), for the terminal. */
 function key(req: Request): string {
-  return `${req.method} ${new URL(req.url).pathname}`;
+  return `${req.method} ${new URL(req.url).pathname.replace(/^\/[^/]*/, "") || "/"}`;
 }
 
 /** An error as one line of printable text. */
@@ -179,7 +183,7 @@ async function readJson<T>(req: Request, schema: z.ZodType<T>): Promise<T> {
  * ```ts ignore
  * import { startLiveServer } from "./server.ts";
  * const s = await startLiveServer("case.lentil.md");
- * const r = await fetch(`${s.origin}/api/state`, { headers: { "x-lentil-token": s.token } });
+ * const r = await fetch(`${s.url}api/state`);
  * await r.json();
  * await s.shutdown();
  * ```
@@ -194,7 +198,10 @@ export async function startLiveServer(
     renderers: options.renderers,
     budget: options.budget === false ? undefined : options.budget ?? {},
   });
-  const token = newToken();
+  const sessionKey = newKey();
+  const client = await clientFiles();
+  let endedFromPage = false;
+  let stop = () => {};
   let port = 0;
   let queue: Promise<unknown> = Promise.resolve();
   const serial = <T>(fn: () => Promise<T>): Promise<T> => {
@@ -212,14 +219,12 @@ export async function startLiveServer(
   };
   const edit = async (op: () => EditResult) => json(await session.guarded(op));
 
-  const route = async (req: Request): Promise<Response> => {
+  const route = async (req: Request, path: string): Promise<Response> => {
     const url = new URL(req.url);
-    const key = `${req.method} ${url.pathname}`;
+    const key = `${req.method} ${path}`;
     switch (key) {
       case "GET /":
-        return respond(pageHtml(session.view.title, token), "text/html; charset=utf-8");
-      case "GET /client.js":
-        return respond(CLIENT_JS, "text/javascript; charset=utf-8");
+        return respond(pageHtml(session.view.title), "text/html; charset=utf-8");
       case "GET /style.css":
         return respond(STYLE_CSS, "text/css; charset=utf-8");
       case "GET /api/state":
@@ -265,17 +270,34 @@ export async function startLiveServer(
         const b = await readJson(req, KeepBoth);
         return json(await session.keepBoth(b.name));
       }
-      default:
+      case "POST /api/end": {
+        await readJson(req, Empty);
+        endedFromPage = true;
+        const unsaved = session.status().dirty;
+        setTimeout(stop, 20);
+        return json({ ok: true, unsaved });
+      }
+      default: {
+        const m = /^GET \/client\/([a-z]+\.js)$/.exec(key);
+        const file = m ? client.get(m[1]) : undefined;
+        if (file !== undefined) return respond(file, "text/javascript; charset=utf-8");
         return json({ error: "not found" }, 404);
+      }
     }
   };
 
   const handler = (req: Request): Promise<Response> | Response => {
-    const refused = checkRequest(req, { port, token });
-    if (refused) return json({ error: refused.reason }, refused.status);
+    const checked = checkRequest(req, { port, key: sessionKey });
+    if ("status" in checked) return json({ error: checked.reason }, checked.status);
+    if (new URL(req.url).pathname === `/${sessionKey}`) {
+      return new Response(null, {
+        status: 308,
+        headers: { ...SECURITY_HEADERS, location: `/${sessionKey}/` },
+      });
+    }
     // Reading the page's state never waits for an edit being computed; saving waits only
     // for another save; edits and everything else run one at a time.
-    const path = new URL(req.url).pathname;
+    const path = checked.path;
     const queue = req.method === "GET" && path !== "/api/source"
       ? (fn: () => Promise<Response>) => fn()
       : path === "/api/save"
@@ -283,7 +305,7 @@ export async function startLiveServer(
       : serial;
     return queue(async () => {
       try {
-        return await route(req);
+        return await route(req, path);
       } catch (e) {
         if (e instanceof TooLarge) return json({ error: e.message }, 413);
         if (e instanceof BadRequest || e instanceof EditRefused) {
@@ -306,12 +328,16 @@ export async function startLiveServer(
     onListen: () => {},
   }, handler);
   port = server.addr.port;
+  stop = () => void server.shutdown();
   const origin = ownOrigins(port)[0];
   return {
-    url: `${origin}/?t=${token}`,
+    url: `${origin}/${sessionKey}/`,
     origin,
     port,
-    token,
+    key: sessionKey,
+    get endedFromPage() {
+      return endedFromPage;
+    },
     session,
     shutdown: async () => {
       session.close();

@@ -77,8 +77,11 @@ export interface Patch {
   readonly cells: readonly CellView[];
   /** Cells that no longer exist. */
   readonly removed: readonly string[];
-  /** Tables whose view changed. */
-  readonly tables: readonly TableView[];
+  /**
+   * Tables whose view changed: the whole view, or only the computed columns that changed
+   * and the row problems, when the rows and the shape are as before.
+   */
+  readonly tables: readonly (TableView | TableUpdate)[];
   /** Plots whose view changed. */
   readonly plots: readonly PlotView[];
   /** Numbered sources, cautions and parse problems (always sent; small). */
@@ -91,6 +94,41 @@ export interface Patch {
   readonly problems: PageView["problems"];
   /** Status after the operation. */
   readonly status: SessionStatus;
+}
+
+/** A table whose data rows and shape are unchanged: its changed computed columns. */
+export interface TableUpdate {
+  /** Table name. */
+  readonly name: string;
+  /** Always true: only what is listed changed. */
+  readonly update: true;
+  /** The computed columns whose values changed. */
+  readonly computed: TableView["computed"];
+  /** Row problems, all of them. */
+  readonly problems: TableView["problems"];
+}
+
+/** The part of a table's view that changes only with its rows or shape. */
+function tableShape(t: TableView): string {
+  return JSON.stringify([
+    t.file,
+    t.editable,
+    t.locked,
+    t.columns,
+    t.rows,
+    t.computed.map((c) => c.name),
+    t.error,
+  ]);
+}
+
+/** What to send for a table whose view changed. */
+function tableChange(before: TableView | undefined, after: TableView): TableView | TableUpdate {
+  if (!before || tableShape(before) !== tableShape(after)) return after;
+  const computed = after.computed.filter((c, i) =>
+    before.computed[i].values !== c.values &&
+    JSON.stringify(before.computed[i].values) !== JSON.stringify(c.values)
+  );
+  return { name: after.name, update: true, computed, problems: after.problems };
 }
 
 /** The outcome of an edit. */
@@ -175,6 +213,10 @@ export class LiveSession {
   #nb!: Notebook;
   #view!: PageView;
   readonly #csv = new Map<string, CsvEntry>();
+  readonly #csvRead = new Map<
+    string,
+    { text: string; options: string; raw: TableText | undefined }
+  >();
   readonly #undo: TextState[] = [];
   readonly #redo: TextState[] = [];
   readonly #renderers: Renderers;
@@ -377,10 +419,21 @@ export class LiveSession {
     // The engine's own reading of a table's text, over the CSV as the page holds it.
     const file = block.options.file?.value;
     if (file && !this.#csv.has(file)) return undefined;
-    const raw = readRawTable(block, this.#path, { readText: (rel) => this.#csv.get(rel)!.text })
-      .raw;
-    // Rows the reader skipped are not in the grid: editing it would drop them on save.
-    return raw?.rows.some((r) => r.bad) ? undefined : raw;
+    const read = () => {
+      const raw = readRawTable(block, this.#path, { readText: (rel) => this.#csv.get(rel)!.text })
+        .raw;
+      // Rows the reader skipped are not in the grid: editing it would drop them on save.
+      return raw?.rows.some((r) => r.bad) ? undefined : raw;
+    };
+    if (!file) return read();
+    // A CSV's text is read again only when it or the block's options changed.
+    const text = this.#csv.get(file)!.text;
+    const options = JSON.stringify(Object.entries(block.options).map(([k, o]) => [k, o.value]));
+    const hit = this.#csvRead.get(block.name);
+    if (hit && hit.text === text && hit.options === options) return hit.raw;
+    const raw = read();
+    this.#csvRead.set(block.name, { text, options, raw });
+    return raw;
   }
 
   #buildView(): PageView {
@@ -430,7 +483,8 @@ export class LiveSession {
     return {
       cells: Object.values(after.cells).filter((c) => differs(before.cells[c.id], c)),
       removed: Object.keys(before.cells).filter((id) => !after.cells[id]),
-      tables: Object.values(after.tables).filter((t) => differs(before.tables[t.name], t)),
+      tables: Object.values(after.tables).filter((t) => differs(before.tables[t.name], t))
+        .map((t) => tableChange(before.tables[t.name], t)),
       plots: Object.values(after.plots).filter((p) => differs(before.plots[p.key], p)),
       ...common,
     };

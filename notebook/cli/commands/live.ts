@@ -1,7 +1,8 @@
 /**
  * `lentil live FILE [--port N]`: edit a notebook in a local web page. Serves on 127.0.0.1
- * only, on a free port unless `--port` names one, behind an unguessable token in the
- * printed address; runs until Ctrl-C.
+ * only, on a free port unless `--port` names one, under an address that holds an
+ * unguessable key (`http://127.0.0.1:PORT/KEY/`); runs until the page's End session button
+ * or an interrupt (Ctrl+C) ends the session.
  *
  * Permissions: the `lentil` task grants read and write (the notebook's folder is all this
  * command touches: the file, the CSV files its tables name, their `.bak` backups and
@@ -23,10 +24,11 @@ export const liveCommand: Command = {
   name: "live",
   summary: "edit a notebook in a local web page, with results updated as you type",
   usage: "FILE [--port N]",
-  help: "Serves FILE as an editable page on 127.0.0.1 and prints its address (with a token that\n" +
-    "only this run knows). Inputs, formulas and table rows are edited in place; every result\n" +
-    "that depends on an edit is recomputed at once. Save writes FILE back, changing only what\n" +
-    "was edited, and keeps the previous version as FILE.bak. Stop with Ctrl-C.",
+  help: "Serves FILE as an editable page on 127.0.0.1 and prints its address, which holds a key\n" +
+    "that only this session knows. Inputs, formulas and table rows are edited in place; every\n" +
+    "result that depends on an edit is recomputed at once. Save writes FILE back, changing only\n" +
+    "what was edited, and keeps the previous version as FILE.bak. The page's End session\n" +
+    "button ends the session; so does an interrupt here (Ctrl+C).",
   options: {
     port: { type: "string", doc: "port on 127.0.0.1 (default: a free one)", value: "N" },
   },
@@ -60,8 +62,10 @@ export const liveCommand: Command = {
     }
     // Nothing below spawns, loads native code, reads the environment or the system.
     for (const name of ["run", "ffi", "env", "sys"] as const) Deno.permissions.revokeSync({ name });
-    io.out(`editing ${basename(file)} at ${server.url}`);
-    io.out("stop with Ctrl-C");
+    io.out(`Lentil is serving ${basename(file)} for editing in your browser:`);
+    io.out(`  ${server.url}`);
+    io.out("The address holds this session's key: keep it to yourself.");
+    io.out("End the session with the page's End session button, or interrupt here (Ctrl+C).");
     const stop = () => void server.shutdown();
     Deno.addSignalListener("SIGINT", stop);
     try {
@@ -69,9 +73,10 @@ export const liveCommand: Command = {
     } finally {
       Deno.removeSignalListener("SIGINT", stop);
     }
+    const how = server.endedFromPage ? "from the page" : "by the interrupt";
     if (server.session.status().dirty) {
-      io.err("stopped with unsaved changes (they were not written)");
-    }
+      io.err(`session ended ${how}, with unsaved changes (they were not written)`);
+    } else io.out(`session ended ${how}`);
     return 0;
   },
 };
