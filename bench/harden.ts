@@ -23,11 +23,11 @@ export async function measure(): Promise<{ goals: Goal[]; lines: string[] }> {
     `${F}lentil table t\nx\n${rows}\n${F}\n\n${F}lentil\nt.y = x\nz = 1\n${F}\n`,
   );
   const server = await startLiveServer(path, { budget: { timeMs: 4000 } });
-  const headers = { "x-lentil-token": server.token, "content-type": "application/json" };
+  const headers = { "content-type": "application/json" };
   const lines: string[] = [];
   try {
     const t0 = performance.now();
-    const stuck = fetch(`${server.origin}/api/cell`, {
+    const stuck = fetch(`${server.url}api/cell`, {
       method: "POST",
       headers,
       body: JSON.stringify({ id: "t.y", expression: "x + sum(1:100000)" }),
@@ -36,12 +36,12 @@ export async function measure(): Promise<{ goals: Goal[]; lines: string[] }> {
     const times: number[] = [];
     for (let i = 0; i < 20; i++) {
       const s = performance.now();
-      const r = await fetch(`${server.origin}/api/state`, { headers });
+      const r = await fetch(`${server.url}api/state`, { headers });
       await r.json();
       times.push(performance.now() - s);
       await new Promise((r) => setTimeout(r, 50));
     }
-    const save = await fetch(`${server.origin}/api/save`, { method: "POST", headers, body: "{}" });
+    const save = await fetch(`${server.url}api/save`, { method: "POST", headers, body: "{}" });
     const saved = (await save.json()).ok === true;
     const r = await stuck;
     const slowest = Math.max(...times);

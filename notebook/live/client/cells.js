@@ -69,7 +69,11 @@ export function renderCell(c) {
   const tdFormula = el("td", "lx-formula");
   tdFormula.append(input, el("span", "lx-note"));
   const tdValue = el("td", "lx-value");
-  tdValue.append(el("output", "live-value"), el("div", "live-below"), el("div", "lx-error live-error"));
+  tdValue.append(
+    el("output", "live-value"),
+    el("div", "live-below"),
+    el("div", "lx-error live-error"),
+  );
   const tdTools = el("td", "live-tools");
   tdTools.append(remove);
   row.append(tdName, tdFormula, tdValue, tdTools);

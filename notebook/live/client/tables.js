@@ -130,7 +130,9 @@ export function renderTable(t) {
     head.append(el("th", "", c.name + (c.spec ? " [" + c.spec + "]" : "")));
   }
   for (const c of t.computed) {
-    head.append(el("th", "live-computed lx-computed", c.name + (c.unit ? " [" + c.unit + "]" : "")));
+    head.append(
+      el("th", "live-computed lx-computed", c.name + (c.unit ? " [" + c.unit + "]" : "")),
+    );
   }
   const thead = el("thead");
   thead.append(head);
