@@ -106,145 +106,196 @@ export function sqlExpression(
   lang: Language,
   value: SqlValue,
 ): SqlExpression {
-  const byName = new Map(shapes.map((s) => [s.name, s]));
-  const angle = unitScale(lang, "rad")!;
-  const need = (ok: boolean, why: string) => {
-    if (!ok) throw new NotInSql(why);
+  const w = new SqlWriter(shapes, scope, lang, value);
+  const top = w.val(w.visit(node));
+  if (top.ty.kind !== "qty") return { sql: top.sql, unit: "" };
+  const parts = lang.quantityParts(lang.quantity(1, top.ty.unit))!;
+  const outUnit = parts.unit;
+  if (!outUnit) return { sql: top.sql, unit: "" };
+  const info = unitScale(lang, outUnit);
+  need(!!info, `unit ${outUnit} of the result`);
+  return {
+    sql: info!.scale === 1 ? top.sql : `(${top.sql} / ${w.num(info!.scale)})`,
+    unit: outUnit,
   };
-  const num = (x: number): string => {
-    need(Number.isFinite(x), "a number that is not finite");
-    return value(x);
-  };
-  const scaled = (sql: string, scale: number) => scale === 1 ? sql : `(${sql} * ${num(scale)})`;
+}
 
-  const visit = (n: MathNode): Gen => {
+function need(ok: boolean, why: string): void {
+  if (!ok) throw new NotInSql(why);
+}
+
+/** Writes one formula's SQL: one method per node kind, operator and function family. */
+class SqlWriter {
+  readonly #byName: ReadonlyMap<string, ColumnShape>;
+  readonly #angle: { scale: number; base: string };
+
+  constructor(
+    shapes: readonly ColumnShape[],
+    readonly scope: ReadonlyMap<string, unknown>,
+    readonly lang: Language,
+    readonly value: SqlValue,
+  ) {
+    this.#byName = new Map(shapes.map((s) => [s.name, s]));
+    this.#angle = unitScale(lang, "rad")!;
+  }
+
+  num(x: number): string {
+    need(Number.isFinite(x), "a number that is not finite");
+    return this.value(x);
+  }
+
+  scaled(sql: string, scale: number): string {
+    return scale === 1 ? sql : `(${sql} * ${this.num(scale)})`;
+  }
+
+  val(g: Gen): Gen {
+    need(g.ty.kind !== "unit", "a unit on its own");
+    return g;
+  }
+
+  visit(n: MathNode): Gen {
     const any = n as unknown as Record<string, unknown>;
     switch (n.type) {
       case "ConstantNode":
         need(typeof any.value === "number", "a constant that is not a number");
-        return { sql: num(any.value as number), ty: NUM };
+        return { sql: this.num(any.value as number), ty: NUM };
       case "ParenthesisNode":
-        return visit(any.content as MathNode);
+        return this.visit(any.content as MathNode);
       case "SymbolNode":
-        return symbol(any.name as string);
+        return this.symbol(any.name as string);
       case "OperatorNode":
-        return operator(any.fn as string, any.args as MathNode[]);
+        return this.operator(any.fn as string, any.args as MathNode[]);
       case "FunctionNode": {
         const f = any.fn as MathNode;
         need(f.type === "SymbolNode", "a call of something that is not a name");
-        return call((f as unknown as { name: string }).name, any.args as MathNode[]);
+        return this.call((f as unknown as { name: string }).name, any.args as MathNode[]);
       }
       default:
         throw new NotInSql(`${n.type} is outside the SQL subset`);
     }
-  };
+  }
 
-  const symbol = (name: string): Gen => {
-    const s = byName.get(name);
-    if (s) {
-      need(s.numeric, `column ${name} holds ${s.type} values`);
-      if (s.type === "quantity" && s.unit) {
-        const u = unitScale(lang, s.unit);
-        need(!!u, `unit ${s.unit} of column ${name}`);
-        return {
-          sql: scaled(quoteName(name), u!.scale),
-          ty: { kind: "qty", unit: s.unit, base: u!.base },
-        };
-      }
-      return { sql: quoteName(name), ty: NUM };
+  symbol(name: string): Gen {
+    const s = this.#byName.get(name);
+    if (s) return this.column(name, s);
+    if (this.scope.has(name)) return this.cell(name, this.scope.get(name));
+    const lang = this.lang;
+    if (name in BUILTIN && lang.isBuiltinSymbol(name)) {
+      return { sql: this.num(BUILTIN[name]), ty: NUM };
     }
-    if (scope.has(name)) {
-      const v = scope.get(name);
-      if (typeof v === "number") return { sql: num(v), ty: NUM };
-      need(isUnitValue(v), `${name} is not a number or a quantity`);
-      const u = v as UnitParts;
-      const unit = u.formatUnits();
-      const info = unitScale(lang, unit);
-      need(!!info && typeof u.value === "number", `unit of ${name}`);
-      return { sql: num(u.value as number), ty: { kind: "qty", unit, base: info!.base } };
-    }
-    if (name in BUILTIN && lang.isBuiltinSymbol(name)) return { sql: num(BUILTIN[name]), ty: NUM };
     const info = unitScale(lang, name);
     need(!!info, `name ${name}`);
     return { sql: "", ty: { kind: "unit", unit: name, base: info!.base, scale: info!.scale } };
-  };
+  }
 
-  const val = (g: Gen): Gen => {
-    need(g.ty.kind !== "unit", "a unit on its own");
-    return g;
-  };
+  column(name: string, s: ColumnShape): Gen {
+    need(s.numeric, `column ${name} holds ${s.type} values`);
+    if (s.type === "quantity" && s.unit) {
+      const u = unitScale(this.lang, s.unit);
+      need(!!u, `unit ${s.unit} of column ${name}`);
+      return {
+        sql: this.scaled(quoteName(name), u!.scale),
+        ty: { kind: "qty", unit: s.unit, base: u!.base },
+      };
+    }
+    return { sql: quoteName(name), ty: NUM };
+  }
 
-  const operator = (op: string, args: MathNode[]): Gen => {
+  cell(name: string, v: unknown): Gen {
+    if (typeof v === "number") return { sql: this.num(v), ty: NUM };
+    need(isUnitValue(v), `${name} is not a number or a quantity`);
+    const u = v as UnitParts;
+    const unit = u.formatUnits();
+    const info = unitScale(this.lang, unit);
+    need(!!info && typeof u.value === "number", `unit of ${name}`);
+    return { sql: this.num(u.value as number), ty: { kind: "qty", unit, base: info!.base } };
+  }
+
+  operator(op: string, args: MathNode[]): Gen {
     if (op === "unaryMinus" || op === "unaryPlus") {
-      const a = val(visit(args[0]));
+      const a = this.val(this.visit(args[0]));
       return op === "unaryMinus" ? { sql: `(-${a.sql})`, ty: a.ty } : a;
     }
     need(args.length === 2, `operator ${op}`);
-    const [l, r] = args.map(visit);
+    const [l, r] = args.map((a) => this.visit(a));
     switch (op) {
       case "add":
-      case "subtract": {
-        const a = val(l);
-        const b = val(r);
-        const sign = op === "add" ? "+" : "-";
-        if (a.ty.kind === "num" && b.ty.kind === "num") {
-          return { sql: `(${a.sql} ${sign} ${b.sql})`, ty: NUM };
-        }
-        need(
-          a.ty.kind === "qty" && b.ty.kind === "qty" && a.ty.base === b.ty.base,
-          "adding a number to a quantity, or quantities of different kinds",
-        );
-        return { sql: `(${a.sql} ${sign} ${b.sql})`, ty: a.ty };
-      }
-      case "multiply": {
-        if (l.ty.kind === "unit" || r.ty.kind === "unit") {
-          const [u, x] = l.ty.kind === "unit" ? [l, r] : [r, l];
-          need(x.ty.kind === "num" && u.ty.kind === "unit", "a unit times a quantity");
-          const ut = u.ty as Extract<Ty, { kind: "unit" }>;
-          return {
-            sql: scaled(x.sql, ut.scale),
-            ty: { kind: "qty", unit: ut.unit, base: ut.base },
-          };
-        }
-        need(l.ty.kind === "num" || r.ty.kind === "num", "a quantity times a quantity");
-        return { sql: `(${l.sql} * ${r.sql})`, ty: l.ty.kind === "num" ? r.ty : l.ty };
-      }
-      case "divide": {
-        const a = val(l);
-        const b = val(r);
-        if (b.ty.kind === "num") return { sql: `(${a.sql} / ${b.sql})`, ty: a.ty };
-        need(
-          a.ty.kind === "qty" && b.ty.kind === "qty" && a.ty.base === b.ty.base,
-          "dividing by a quantity of another kind",
-        );
-        return { sql: `(${a.sql} / ${b.sql})`, ty: NUM };
-      }
+      case "subtract":
+        return this.sum(op === "add" ? "+" : "-", l, r);
+      case "multiply":
+        return this.product(l, r);
+      case "divide":
+        return this.quotient(l, r);
       case "pow": {
-        const a = val(l);
-        const b = val(r);
+        const a = this.val(l);
+        const b = this.val(r);
         need(a.ty.kind === "num" && b.ty.kind === "num", "a power of a quantity");
         return { sql: `POWER(${a.sql}, ${b.sql})`, ty: NUM };
       }
       default:
         throw new NotInSql(`operator ${op} is outside the SQL subset`);
     }
-  };
+  }
+
+  sum(sign: "+" | "-", l: Gen, r: Gen): Gen {
+    const a = this.val(l);
+    const b = this.val(r);
+    if (a.ty.kind === "num" && b.ty.kind === "num") {
+      return { sql: `(${a.sql} ${sign} ${b.sql})`, ty: NUM };
+    }
+    need(
+      a.ty.kind === "qty" && b.ty.kind === "qty" && a.ty.base === b.ty.base,
+      "adding a number to a quantity, or quantities of different kinds",
+    );
+    return { sql: `(${a.sql} ${sign} ${b.sql})`, ty: a.ty };
+  }
+
+  product(l: Gen, r: Gen): Gen {
+    if (l.ty.kind === "unit" || r.ty.kind === "unit") {
+      const [u, x] = l.ty.kind === "unit" ? [l, r] : [r, l];
+      need(x.ty.kind === "num" && u.ty.kind === "unit", "a unit times a quantity");
+      const ut = u.ty as Extract<Ty, { kind: "unit" }>;
+      return {
+        sql: this.scaled(x.sql, ut.scale),
+        ty: { kind: "qty", unit: ut.unit, base: ut.base },
+      };
+    }
+    need(l.ty.kind === "num" || r.ty.kind === "num", "a quantity times a quantity");
+    return { sql: `(${l.sql} * ${r.sql})`, ty: l.ty.kind === "num" ? r.ty : l.ty };
+  }
+
+  quotient(l: Gen, r: Gen): Gen {
+    const a = this.val(l);
+    const b = this.val(r);
+    if (b.ty.kind === "num") return { sql: `(${a.sql} / ${b.sql})`, ty: a.ty };
+    need(
+      a.ty.kind === "qty" && b.ty.kind === "qty" && a.ty.base === b.ty.base,
+      "dividing by a quantity of another kind",
+    );
+    return { sql: `(${a.sql} / ${b.sql})`, ty: NUM };
+  }
 
   /** A value in `unit` (D, deg) from a quantity argument. */
-  const inUnit = (g: Gen, unit: string, what: string): string => {
-    const u = unitScale(lang, unit)!;
+  inUnit(g: Gen, unit: string, what: string): string {
+    const u = unitScale(this.lang, unit)!;
     need(g.ty.kind === "qty" && g.ty.base === u.base, `${what} must be in ${unit}`);
-    return u.scale === 1 ? g.sql : `(${g.sql} / ${num(u.scale)})`;
-  };
+    return u.scale === 1 ? g.sql : `(${g.sql} / ${this.num(u.scale)})`;
+  }
 
-  const call = (name: string, args: MathNode[]): Gen => {
-    need(!scope.has(name) && !byName.has(name), `${name} is a value, not a function`);
-    const gs = () => args.map((a) => val(visit(a)));
+  args(args: MathNode[]): Gen[] {
+    return args.map((a) => this.val(this.visit(a)));
+  }
+
+  call(name: string, args: MathNode[]): Gen {
+    need(
+      !this.scope.has(name) && !this.#byName.has(name),
+      `${name} is a value, not a function`,
+    );
     if (name in TRIG) {
       need(args.length === 1, `${name} with ${args.length} arguments`);
-      const [a] = gs();
+      const [a] = this.args(args);
       need(
-        a.ty.kind === "num" || (a.ty.kind === "qty" && a.ty.base === angle.base),
+        a.ty.kind === "num" || (a.ty.kind === "qty" && a.ty.base === this.#angle.base),
         `${name} of a quantity`,
       );
       return { sql: `${TRIG[name]}(${a.sql})`, ty: NUM };
@@ -252,53 +303,50 @@ export function sqlExpression(
     if (name === "atan2" || name === "sqrt" || name === "exp") {
       const arity = name === "atan2" ? 2 : 1;
       need(args.length === arity, `${name} with ${args.length} arguments`);
-      const a = gs();
+      const a = this.args(args);
       need(a.every((g) => g.ty.kind === "num"), `${name} of a quantity`);
       return { sql: `${name.toUpperCase()}(${a.map((g) => g.sql).join(", ")})`, ty: NUM };
     }
     if (name === "abs") {
       need(args.length === 1, "abs with more than one argument");
-      const [a] = gs();
+      const [a] = this.args(args);
       return { sql: `ABS(${a.sql})`, ty: a.ty };
     }
     if (name === "vectorM" || name === "vectorJ0" || name === "vectorJ45") {
-      need(
-        lang.catalogue.formulas.has(name) && args.length === 2,
-        `${name} with ${args.length} arguments`,
-      );
-      // Only over columns read and range-checked as refraction columns.
-      need(
-        args.every((a) =>
-          a.type === "SymbolNode" && byName.has((a as unknown as { name: string }).name)
-        ),
-        `${name} of values that are not table columns`,
-      );
-      const [a, b] = gs();
-      const dioptre = unitScale(lang, "D")!;
-      const d = (sql: string) => ({
-        sql: dioptre.scale === 1 ? sql : `(${sql} * ${num(dioptre.scale)})`,
-        ty: { kind: "qty", unit: "D", base: dioptre.base } as Ty,
-      });
-      if (name === "vectorM") {
-        return d(`(${inUnit(a, "D", "sph")} + ${inUnit(b, "D", "cyl")} / ${num(2)})`);
-      }
-      const trig = name === "vectorJ0" ? "COS" : "SIN";
-      const axis = inUnit(b, "deg", "axis");
-      return d(
-        `((-${inUnit(a, "D", "cyl")} / ${num(2)}) * ${trig}(${num(2)} * ${axis} * ${
-          num(Math.PI / 180)
-        }))`,
-      );
+      return this.powerVector(name, args);
     }
     throw new NotInSql(`function ${name} is outside the SQL subset`);
-  };
+  }
 
-  const top = val(visit(node));
-  if (top.ty.kind !== "qty") return { sql: top.sql, unit: "" };
-  const parts = lang.quantityParts(lang.quantity(1, top.ty.unit))!;
-  const outUnit = parts.unit;
-  if (!outUnit) return { sql: top.sql, unit: "" };
-  const info = unitScale(lang, outUnit);
-  need(!!info, `unit ${outUnit} of the result`);
-  return { sql: info!.scale === 1 ? top.sql : `(${top.sql} / ${num(info!.scale)})`, unit: outUnit };
+  /** `vectorM`, `vectorJ0` and `vectorJ45` over refraction columns, in D. */
+  powerVector(name: string, args: MathNode[]): Gen {
+    need(
+      this.lang.catalogue.formulas.has(name) && args.length === 2,
+      `${name} with ${args.length} arguments`,
+    );
+    // Only over columns read and range-checked as refraction columns.
+    need(
+      args.every((a) =>
+        a.type === "SymbolNode" && this.#byName.has((a as unknown as { name: string }).name)
+      ),
+      `${name} of values that are not table columns`,
+    );
+    const [a, b] = this.args(args);
+    const dioptre = unitScale(this.lang, "D")!;
+    const d = (sql: string) => ({
+      sql: dioptre.scale === 1 ? sql : `(${sql} * ${this.num(dioptre.scale)})`,
+      ty: { kind: "qty", unit: "D", base: dioptre.base } as Ty,
+    });
+    const num = (x: number) => this.num(x);
+    if (name === "vectorM") {
+      return d(`(${this.inUnit(a, "D", "sph")} + ${this.inUnit(b, "D", "cyl")} / ${num(2)})`);
+    }
+    const trig = name === "vectorJ0" ? "COS" : "SIN";
+    const axis = this.inUnit(b, "deg", "axis");
+    return d(
+      `((-${this.inUnit(a, "D", "cyl")} / ${num(2)}) * ${trig}(${num(2)} * ${axis} * ${
+        num(Math.PI / 180)
+      }))`,
+    );
+  }
 }
