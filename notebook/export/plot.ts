@@ -267,9 +267,51 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
   const ctx: Ctx = { block, nb, problems: [] };
   const name = block.name ?? `plot-${block.line}`;
   const heading = opt(ctx, "heading");
-  let caption = opt(ctx, "caption");
-  const none = (): RenderedPlot => ({ name, heading, caption, svg: "", problems: ctx.problems });
-  for (const [key, o] of Object.entries(block.options)) {
+  const none = (): RenderedPlot => ({
+    name,
+    heading,
+    caption: opt(ctx, "caption"),
+    svg: "",
+    problems: ctx.problems,
+  });
+  checkKeys(ctx);
+  const figure = figureOf(ctx);
+  if (!figure) return none();
+  const table = tableOf(ctx);
+  if (!table) return none();
+  const { info } = table;
+  if (!opt(ctx, "horizontal")) problem(ctx, "needs `horizontal:` naming a column");
+  if (figure.vertical && !opt(ctx, "vertical")) problem(ctx, "needs `vertical:` naming a column");
+  const xc = columnOf(ctx, info.columns, "horizontal", true);
+  const yc = figure.vertical ? columnOf(ctx, info.columns, "vertical", true) : undefined;
+  const gc = columnOf(ctx, info.columns, "colour-by", false);
+  const betterUp = yes(ctx, "better-up", true);
+  checkFigureKeys(ctx, figure);
+  if (ctx.problems.some((p) => p.severity === "error") || !xc) return none();
+
+  const rows = sampleRows(info.rowCount, xc, yc, gc);
+  const groups = colourGroups(gc, rows.groupValues);
+  const drawing = figure.draw(figureInput(ctx, table, { xc, yc, gc, betterUp }, rows, groups));
+  if (!drawing || ctx.problems.some((p) => p.severity === "error")) return none();
+  const { x, y } = axesOf(ctx, drawing, xc, yc, betterUp);
+  const svg = chartSvg({
+    label: heading ?? `${figure.name}: ${y.title} against ${x.title}`,
+    x,
+    y,
+    layers: drawing.layers,
+    legend: drawing.legend ?? groups.legend,
+    height: drawing.height,
+  });
+  const caption = captionOf(ctx, figure, drawing, rows.step, info.rowCount);
+  return { name, heading, caption, svg, problems: ctx.problems };
+}
+
+type TableFacts = NonNullable<ReturnType<typeof tableInfo>>;
+type Drawing = NonNullable<ReturnType<FigureDef["draw"]>>;
+
+/** A problem for each key a plot block does not know. */
+function checkKeys(ctx: Ctx): void {
+  for (const [key, o] of Object.entries(ctx.block.options)) {
     if (!(key in PLOT_OPTIONS)) {
       problem(
         ctx,
@@ -278,6 +320,10 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
       );
     }
   }
+}
+
+/** The figure named by `figure:`, or a problem. */
+function figureOf(ctx: Ctx): FigureDef | undefined {
   const figureName = opt(ctx, "figure");
   const figure: FigureDef | undefined = FIGURES.find((f) => f.name === figureName);
   if (!figure) {
@@ -286,16 +332,20 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
       figureName
         ? `figure "${figureName}" is not one of ${PLOT_FIGURES.join(", ")}`
         : `needs \`figure:\` (${PLOT_FIGURES.join(", ")})`,
-      block.options.figure,
+      ctx.block.options.figure,
     );
-    return none();
   }
+  return figure;
+}
+
+/** The table named by `table:` with its columns, or a problem. */
+function tableOf(ctx: Ctx): { tableName: string; info: TableFacts } | undefined {
   const tableName = opt(ctx, "table");
   if (!tableName) {
     problem(ctx, "needs `table:` naming the table to plot");
-    return none();
+    return undefined;
   }
-  const tr = nb.result(tableName);
+  const tr = ctx.nb.result(tableName);
   const info = tr && !tr.error ? tableInfo(tr.value) : undefined;
   if (!info) {
     problem(
@@ -303,39 +353,61 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
       tr?.error
         ? `table ${tableName} has an error: ${tr.error.message}`
         : `no table "${tableName}"`,
-      block.options.table,
+      ctx.block.options.table,
     );
-    return none();
+    return undefined;
   }
-  if (!opt(ctx, "horizontal")) problem(ctx, "needs `horizontal:` naming a column");
-  if (figure.vertical && !opt(ctx, "vertical")) problem(ctx, "needs `vertical:` naming a column");
-  const xc = columnOf(ctx, info.columns, "horizontal", true);
-  const yc = figure.vertical ? columnOf(ctx, info.columns, "vertical", true) : undefined;
-  const gc = columnOf(ctx, info.columns, "colour-by", false);
-  const betterUp = yes(ctx, "better-up", true);
+  return { tableName, info };
+}
+
+/** A problem for each key given to a figure it does not apply to. */
+function checkFigureKeys(ctx: Ctx, figure: FigureDef): void {
   for (const [key, figures] of KEY_FIGURES) {
-    if (block.options[key] && !figures.includes(figure.name)) {
+    if (ctx.block.options[key] && !figures.includes(figure.name)) {
       problem(
         ctx,
         `${key} applies to ${figures.join(", ")} figures, not ${figure.name}`,
-        block.options[key],
+        ctx.block.options[key],
       );
     }
   }
-  if (ctx.problems.some((p) => p.severity === "error") || !xc) return none();
+}
 
-  const step = Math.max(1, Math.ceil(info.rowCount / MAX_PLOT_POINTS));
-  const drawn = Math.ceil(info.rowCount / step);
+interface Rows {
+  readonly step: number;
+  readonly xs: Float64Array;
+  readonly ys: Float64Array;
+  readonly groupValues: unknown[];
+}
+
+/** The rows drawn: every one, or one in `step` past {@linkcode MAX_PLOT_POINTS}. */
+function sampleRows(
+  rowCount: number,
+  xc: Column,
+  yc: Column | undefined,
+  gc: Column | undefined,
+): Rows {
+  const step = Math.max(1, Math.ceil(rowCount / MAX_PLOT_POINTS));
+  const drawn = Math.ceil(rowCount / step);
   const xs = new Float64Array(drawn), ys = new Float64Array(yc ? drawn : 0);
   const groupValues: unknown[] = [];
-  for (let i = 0, j = 0; i < info.rowCount; i += step, j++) {
+  for (let i = 0, j = 0; i < rowCount; i += step, j++) {
     xs[j] = xc.data[i] as number;
     if (yc) ys[j] = yc.data[i] as number;
     if (gc) groupValues.push(gc.data[i]);
   }
-  let series: Uint16Array | undefined;
-  let colours: string[] | undefined;
-  let legend: Legend | undefined;
+  return { step, xs, ys, groupValues };
+}
+
+interface Groups {
+  readonly series?: Uint16Array;
+  readonly colours?: string[];
+  readonly legend?: Legend;
+  readonly seriesNames: string[];
+}
+
+/** Colours by `colour-by:`: a ramp for a numeric column, one series per value otherwise. */
+function colourGroups(gc: Column | undefined, groupValues: unknown[]): Groups {
   const seriesNames: string[] = [];
   if (gc?.numeric) {
     const vs = groupValues as number[];
@@ -346,28 +418,54 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
         hi = Math.max(hi, v);
       }
     }
-    colours = vs.map((v) => rampColour(v, lo, hi));
-    legend = {
-      type: "ramp",
-      title: axisTitle(gc.name, gc.unit),
-      low: valueText(lo, gc.unit),
-      high: valueText(hi, gc.unit),
+    return {
+      colours: vs.map((v) => rampColour(v, lo, hi)),
+      legend: {
+        type: "ramp",
+        title: axisTitle(gc.name, gc.unit),
+        low: valueText(lo, gc.unit),
+        high: valueText(hi, gc.unit),
+      },
+      seriesNames,
     };
-  } else if (gc) {
-    const index = new Map<string, number>();
-    series = new Uint16Array(groupValues.length);
-    groupValues.forEach((v, i) => {
-      const key = v === null || v === undefined ? "" : String(v);
-      let k = index.get(key);
-      if (k === undefined) {
-        index.set(key, k = index.size);
-        seriesNames.push(key || "(none)");
-      }
-      series![i] = k;
-    });
-    legend = { type: "series", title: axisTitle(gc.name, gc.unit), names: seriesNames };
   }
-  const input: FigureInput = {
+  if (!gc) return { seriesNames };
+  const index = new Map<string, number>();
+  const series = new Uint16Array(groupValues.length);
+  groupValues.forEach((v, i) => {
+    const key = v === null || v === undefined ? "" : String(v);
+    let k = index.get(key);
+    if (k === undefined) {
+      index.set(key, k = index.size);
+      seriesNames.push(key || "(none)");
+    }
+    series[i] = k;
+  });
+  return {
+    series,
+    legend: { type: "series", title: axisTitle(gc.name, gc.unit), names: seriesNames },
+    seriesNames,
+  };
+}
+
+interface Chosen {
+  readonly xc: Column;
+  readonly yc: Column | undefined;
+  readonly gc: Column | undefined;
+  readonly betterUp: boolean;
+}
+
+/** What a figure's `draw` reads: the chosen columns, the drawn rows and the block's keys. */
+function figureInput(
+  ctx: Ctx,
+  table: { tableName: string; info: TableFacts },
+  { xc, yc, gc, betterUp }: Chosen,
+  { xs, ys }: Rows,
+  { series, colours, seriesNames }: Groups,
+): FigureInput {
+  const { block } = ctx;
+  const { tableName, info } = table;
+  return {
     horizontal: xc,
     vertical: yc,
     colourBy: gc,
@@ -406,13 +504,33 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
     seriesNames,
     betterUp,
   };
-  const drawing = figure.draw(input);
-  if (!drawing || ctx.problems.some((p) => p.severity === "error")) return none();
+}
+
+/** The caption: the block's own, then a note on sampled rows, then the figure's note. */
+function captionOf(
+  ctx: Ctx,
+  figure: FigureDef,
+  drawing: Drawing,
+  step: number,
+  rowCount: number,
+): string | undefined {
+  let caption = opt(ctx, "caption");
   if (step > 1 && figure.name !== "distribution") {
-    const note = `One row in ${step} drawn, of ${info.rowCount.toLocaleString("en")}.`;
+    const note = `One row in ${step} drawn, of ${rowCount.toLocaleString("en")}.`;
     caption = caption ? `${caption} ${note}` : note;
   }
   if (drawing.note) caption = caption ? `${caption} ${drawing.note}` : drawing.note;
+  return caption;
+}
+
+/** Both axes: titles and ticks by column, the figure's overrides, logMAR better up. */
+function axesOf(
+  ctx: Ctx,
+  drawing: Drawing,
+  xc: Column,
+  yc: Column | undefined,
+  betterUp: boolean,
+): { x: AxisSpec; y: AxisSpec } {
   const x: AxisSpec = { ...axisOf(ctx, "horizontal", xc), ...drawing.x };
   let y: AxisSpec = { ...axisOf(ctx, "vertical", yc), ...drawing.y };
   if (!yc && !opt(ctx, "vertical-title") && !drawing.y?.title) {
@@ -425,13 +543,5 @@ export function renderPlot(block: PlotBlock, nb: Notebook): RenderedPlot {
       title: opt(ctx, "vertical-title") ?? `${y.title.replace(/\)$/, "")}, better up)`,
     };
   }
-  const svg = chartSvg({
-    label: heading ?? `${figure.name}: ${y.title} against ${x.title}`,
-    x,
-    y,
-    layers: drawing.layers,
-    legend: drawing.legend ?? legend,
-    height: drawing.height,
-  });
-  return { name, heading, caption, svg, problems: ctx.problems };
+  return { x, y };
 }
