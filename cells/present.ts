@@ -27,7 +27,7 @@
  */
 
 import { Column, type TableInfo, tableInfo } from "./table.ts";
-import { formulaMath, isExact, isUnsigned, quantityParts } from "./quantity.ts";
+import { formulaMath, isExact, isUnsigned, quantityParts, roundingNote } from "./quantity.ts";
 import {
   type CheckLine,
   DEFAULT_DISPLAY,
@@ -145,7 +145,8 @@ export function describeValue(
     const shown = q.unit === "D" && isUnsigned(x)
       ? `${fixed(Math.abs(q.value), 2)} D`
       : formatQuantity(q.value, q.unit, step);
-    return { display: shown, ...q };
+    const rounded = roundingNote(x);
+    return { display: rounded ? `${shown} (rounded: ${rounded})` : shown, ...q };
   }
   if (x instanceof Column) {
     return {

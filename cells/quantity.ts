@@ -228,6 +228,40 @@ function one(unit: string): Unit {
 
 const EXACT = Symbol("lentil.exact");
 const UNSIGNED = Symbol("lentil.unsigned");
+const ROUNDED = Symbol("lentil.rounded");
+
+/**
+ * Mark a quantity as rounded on request, with the step and rule in words, so its display
+ * says so (`-2.50 D (rounded: 0.25 D step, nearest)`); returns it. Arithmetic on it gives
+ * an unmarked quantity.
+ *
+ * @example
+ * ```ts
+ * import { markRounded, quantity, roundingNote } from "./quantity.ts";
+ * roundingNote(markRounded(quantity(-2.5, "D"), "0.25 D step, nearest")); // "0.25 D step, nearest"
+ * ```
+ */
+export function markRounded<T>(x: T, note: string): T {
+  if (x !== null && typeof x === "object") {
+    Object.defineProperty(x, ROUNDED, { value: note, enumerable: false });
+  }
+  return x;
+}
+
+/**
+ * The rounding a quantity was marked with by {@linkcode markRounded}, if any.
+ *
+ * @example
+ * ```ts
+ * import { quantity, roundingNote } from "./quantity.ts";
+ * roundingNote(quantity(1, "D")); // undefined
+ * ```
+ */
+export function roundingNote(x: unknown): string | undefined {
+  if (x === null || typeof x !== "object") return undefined;
+  const note = (x as Record<symbol, unknown>)[ROUNDED];
+  return typeof note === "string" ? note : undefined;
+}
 
 /**
  * Mark a quantity as a measure to be shown exactly (not in the power step); with

@@ -16,7 +16,7 @@
 
 import { defineFormula, type FormulaSpec, type OptionSpec, type ParamSpec } from "./catalogue.ts";
 import { defineValueType, type DisplayOptions } from "./types.ts";
-import { markExact, quantity, toNumberIn } from "./quantity.ts";
+import { markExact, markRounded, quantity, toNumberIn } from "./quantity.ts";
 import { defineRecordType, describeValue } from "./present.ts";
 import { combineLenses, lensDifference, overRefraction } from "../lib/combine.ts";
 import {
@@ -482,10 +482,14 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
       "One power (a spherical equivalent, a mean) rounded to the available step by the rule, when a figure to order is wanted; measures are otherwise shown exact.",
     params: [{ name: "power", type: "quantity", unit: "D", doc: "the power" }],
     options: [STEP, RULE],
-    returns: { type: "quantity", unit: "D", doc: "the power on the step" },
+    returns: { type: "quantity", unit: "D", doc: "the power on the step, shown with the rounding" },
     sources: ["common-practice"],
     example: 'roundPower(sphericalEquivalent(rx("-2.25 / -0.75 x 90")), {step: 0.25 D})',
-    fn: (p, step, rule) => roundPower(p as number, step as number, ruleOf(rule)),
+    fn: (p, step, rule) =>
+      markRounded(
+        quantity(roundPower(p as number, step as number, ruleOf(rule)), "D"),
+        roundingText(step as number, ruleOf(rule)),
+      ),
   }),
 ];
 

@@ -21,8 +21,8 @@ Deno.test("spherical equivalent and M read the same, exact", () => {
   assert.equal(shown(nb, "pm"), "-2.63 D");
   // Rounded on request to the 0.25 D step: nearest, halves toward plus, is −2.50 D; toward
   // minus −2.75 D (common practice, no source).
-  assert.equal(shown(nb, "ordered"), "-2.50 D");
-  assert.equal(shown(nb, "down"), "-2.75 D");
+  assert.equal(shown(nb, "ordered"), "-2.50 D (rounded: 0.25 D step, nearest)");
+  assert.equal(shown(nb, "down"), "-2.75 D (rounded: 0.25 D step, toward minus)");
 });
 
 Deno.test("a mean prescription is exact; rounding it is asked for and said", () => {
