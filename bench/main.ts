@@ -12,6 +12,7 @@ import * as live from "./live.ts";
 import * as rowwise from "./rowwise.ts";
 import * as start from "./start.ts";
 import * as tables from "./tables.ts";
+import * as duck from "./duck.ts";
 
 /** A bench module: measures, returns its goals and any lines of detail. */
 interface BenchModule {
@@ -26,6 +27,7 @@ const modules: [string, BenchModule][] = [
   ["rowwise", rowwise],
   ["start", start],
   ["tables", tables],
+  ["duck", duck],
 ];
 
 const goals: Goal[] = [];

@@ -21,7 +21,7 @@ import {
   type TableProblem,
 } from "../engine/_tables.ts";
 import { quoteName } from "../sql/_names.ts";
-import { momentsFromRow, planTableWork, statisticAggregates, type TableWork } from "../sql/work.ts";
+import { momentsFromRow, planTableWork, statisticTotals, type TableWork } from "../sql/work.ts";
 import type { NotebookDoc } from "../format/parse.ts";
 import type { DuckConnection } from "./_open.ts";
 
@@ -69,10 +69,17 @@ async function csvHeader(
   path: string,
   lang: Language,
 ): Promise<{ names: string[]; kinds: ColumnKind[] }> {
-  const file = await Deno.open(path);
-  const opened = await openCsvTable(block, notebookFile, file.readable, lang, 2048);
-  if ("problem" in opened) throw new DuckTableError(opened.problem);
-  await opened.rest.return?.();
+  // A few records give the header; columns without a unit or type are then inferred from as
+  // many first rows as the in-process reader looks at.
+  const open = async (batch?: number) => {
+    const file = await Deno.open(path);
+    const o = await openCsvTable(block, notebookFile, file.readable, lang, batch);
+    if ("problem" in o) throw new DuckTableError(o.problem);
+    await o.rest.return?.();
+    return o;
+  };
+  let opened = await open(64);
+  if (opened.start.columns.some((c) => c.spec === "")) opened = await open();
   if (opened.start.problems.length) throw new DuckTableError(opened.start.problems[0]);
   return {
     names: opened.start.columns.map((c) => c.name),
@@ -257,57 +264,45 @@ export async function workTableInDuck(
   const work = planTableWork(doc, block, inputs, lang, value);
   if (typeof work === "string") throw new DuckTableError(at(work), true);
 
-  // The file's rows: text trimmed, numbers read as the trade writes them, flags for bad cells.
+  // The file's rows: numbers read by DuckDB's own parser (a cell it cannot read rejects the
+  // row, with line and column), text trimmed, flags for cells Lentil refuses (not finite,
+  // outside a refraction range).
   const listed = names.map((n) => `'${quoteName(n).slice(1, -1)}'`).join(", ");
+  const types = names.map((n, i) =>
+    `'${quoteName(n).slice(1, -1)}': '${
+      kinds[i].type === "quantity" || kinds[i].type === "number" ? "DOUBLE" : "VARCHAR"
+    }'`
+  ).join(", ");
   const reader = parquet
     ? `(SELECT ${
       header.sources!.map((s, i) => `"${s.replaceAll('"', '""')}" AS ${quoteName(names[i])}`).join(
         ", ",
       )
     } FROM read_parquet($1))`
-    : `read_csv($1, header = false, skip = 1, names = [${listed}], delim = ',', quote = '"', escape = '"', all_varchar = true, ignore_errors = true, store_rejects = true, null_padding = false)`;
-  const select: string[] = [];
+    : `read_csv($1, header = false, skip = 1, names = [${listed}], types = {${types}}, delim = ',', quote = '"', escape = '"', ignore_errors = true, store_rejects = true, null_padding = false)`;
   const flags: string[] = [];
   const cellText: string[] = [];
+  const vals: string[] = [];
   names.forEach((n, i) => {
     const q = quoteName(n);
     const k = kinds[i];
     if (k.type === "quantity" || k.type === "number") {
-      const v = parquet ? `CAST(${q} AS DOUBLE)` : `TRY_CAST(NULLIF(TRIM(${q}), '') AS DOUBLE)`;
-      select.push(`${v} AS ${q}`);
-      const bad = parquet
-        ? `(isnan(${v}))`
-        : `(TRIM(${q}) <> '' AND (${v} IS NULL OR isnan(${v}) OR isinf(${v})))`;
+      const v = parquet ? `CAST(${q} AS DOUBLE)` : q;
+      vals.push(`${v} AS ${q}`);
       const rule = REFRACTION_COLUMNS[n.toLowerCase()];
       const range = rule && k.type === "quantity" && k.unit === rule.unit
-        ? ` OR (${v} < ${value(rule.range[0])} OR ${v} > ${value(rule.range[1])})`
+        ? ` OR ${v} < ${value(rule.range[0])} OR ${v} > ${value(rule.range[1])}`
         : "";
-      flags.push(`COALESCE((${bad}${range}), FALSE)`);
-      cellText.push(parquet ? `CAST(${q} AS VARCHAR)` : `TRIM(${q})`);
-    } else {
-      select.push(parquet ? `CAST(${q} AS VARCHAR) AS ${q}` : `TRIM(${q}) AS ${q}`);
-    }
+      flags.push(`COALESCE((NOT isfinite(${v})${range}), FALSE)`);
+      cellText.push(`CAST(${v} AS VARCHAR)`);
+    } else vals.push(parquet ? `CAST(${q} AS VARCHAR) AS ${q}` : `TRIM(${q}) AS ${q}`);
   });
-  // The rows from the file, with per-column flags for the error report.
   const numericIdx = kinds.map((k, i) => (k.type === "quantity" || k.type === "number") ? i : -1)
     .filter((i) => i >= 0);
   const rawFrom = `(SELECT * FROM ${reader}) AS raw`;
-  const rowSource = (() => {
-    // Re-derive values inside one SELECT over the raw rows so each row is read once.
-    const vals = names.map((n, i) => {
-      const q = quoteName(n);
-      const k = kinds[i];
-      if (k.type === "quantity" || k.type === "number") {
-        return parquet
-          ? `CAST(${q} AS DOUBLE) AS ${q}`
-          : `TRY_CAST(NULLIF(TRIM(${q}), '') AS DOUBLE) AS ${q}`;
-      }
-      return parquet ? `CAST(${q} AS VARCHAR) AS ${q}` : `TRIM(${q}) AS ${q}`;
-    });
-    return `(SELECT ${vals.join(", ")}, ${
-      flags.length ? flags.join(" OR ") : "false"
-    } AS bad_row FROM ${rawFrom}) AS checked`;
-  })();
+  const rowSource = `(SELECT ${vals.join(", ")}, ${
+    flags.length ? flags.join(" OR ") : "false"
+  } AS bad_row FROM ${rawFrom}) AS checked`;
 
   // The cylinder form of the first cylinder met (rows in the other form are transposed).
   const role = (r: string) =>
@@ -349,32 +344,54 @@ export async function workTableInDuck(
       cols.map((c) => `${c.sql} AS ${quoteName(c.name)}`).join(", ")
     } FROM ${from}) AS rows${s}`;
   }
+  // One scan: each distinct group of variables observed together is projected once, NULL on
+  // bad or incomplete rows, and summarised by aggregates that skip NULLs.
+  const groups = new Map<string, { prefix: string; vars: string[] }>();
+  const groupOf: string[][] = [];
+  work.statistics.forEach((st) => {
+    const sets = st.separate ? st.variables.map((v) => [v]) : [st.variables.slice()];
+    groupOf.push(sets.map((vars) => {
+      const key = vars.join("\u0000");
+      if (!groups.has(key)) groups.set(key, { prefix: `g${groups.size}_`, vars });
+      return groups.get(key)!.prefix;
+    }));
+  });
+  const projected: string[] = ["bad_row", ...(turnedCol ? ["turned_row"] : [])];
   const aggregates = [
     "COUNT(*) AS rows_read",
     "COUNT(*) FILTER (WHERE bad_row) AS bad_rows",
     turnedCol ? "COUNT(*) FILTER (WHERE turned_row AND NOT bad_row) AS turned" : "0 AS turned",
   ];
-  work.statistics.forEach((st, i) => {
-    const vars = st.variables.map((v) => `(${v})`);
-    if (st.separate) {
-      vars.forEach((v, k) =>
-        aggregates.push(...statisticAggregates([v], `s${i}_p${k}_`, "NOT bad_row"))
-      );
-    } else aggregates.push(...statisticAggregates(vars, `s${i}_`, "NOT bad_row"));
-  });
-  const main = `SELECT ${aggregates.join(", ")} FROM ${from}`;
+  for (const { prefix, vars } of groups.values()) {
+    const complete = vars.length === 1
+      ? "TRUE"
+      : vars.map((v) => `(${v}) IS NOT NULL`).join(" AND ");
+    const names = vars.map((_, k) => `${prefix}v${k}`);
+    vars.forEach((v, k) =>
+      projected.push(`CASE WHEN NOT bad_row AND ${complete} THEN (${v}) END AS ${names[k]}`)
+    );
+    aggregates.push(...statisticTotals(names, prefix));
+  }
+  const main = `SELECT ${aggregates.join(", ")} FROM (SELECT ${
+    projected.join(", ")
+  } FROM ${from}) AS observed`;
   const [row] = await run(db, main, params, rel);
   const rowsGood = Number(row.rows_read);
-  let rejects: { line: number; message: string }[] = [];
+  let rejects: { line: number; message: string; column?: string; type: string }[] = [];
   let rejected = 0;
   if (!parquet) {
     const rj = await run(
       db,
-      "SELECT line, error_message FROM reject_errors ORDER BY line LIMIT 1000",
+      "SELECT line, error_message, error_type, column_name FROM reject_errors ORDER BY line LIMIT 1000",
       [],
       rel,
     );
-    rejects = rj.map((r) => ({ line: Number(r.line), message: String(r.error_message) }));
+    rejects = rj.map((r) => ({
+      line: Number(r.line),
+      message: String(r.error_message),
+      type: String(r.error_type),
+      column: r.column_name === null ? undefined : String(r.column_name),
+    }));
     rejected = Number((await run(db, "SELECT COUNT(*) AS n FROM reject_errors", [], rel))[0].n);
   }
   const badChecked = Number(row.bad_rows);
@@ -388,12 +405,21 @@ export async function workTableInDuck(
   };
   for (const j of rejects.slice(0, 20)) {
     const m = /Expected Number of Columns: (\d+) Found: (\d+)/.exec(j.message);
+    const ci2 = j.column ? names.indexOf(j.column) : -1;
+    const cast = j.type === "CAST" && ci2 >= 0
+      ? /Could not convert string ["'](.*)["'] to/s.exec(j.message)
+      : null;
+    const unit = ci2 >= 0 ? (kinds[ci2] as { unit?: string }).unit : "";
     problems.push({
       file: rel,
       line: j.line,
-      col: 1,
+      col: ci2 >= 0 ? ci2 + 1 : 1,
       message: m
         ? `row has ${m[2]} field${m[2] === "1" ? "" : "s"}, the header has ${m[1]}`
+        : cast
+        ? `column ${names[ci2]}: "${cast[1].trim()}" is not a number${unit ? ` (in ${unit})` : ""}`
+        : j.type === "MISSING COLUMNS"
+        ? `row has fewer fields than the header has (${names.length})`
         : `the row cannot be read: ${j.message}`,
     });
   }
@@ -418,13 +444,11 @@ export async function workTableInDuck(
         const text = String(b[`t${j}`] ?? "");
         const x = Number(text);
         const rule = REFRACTION_COLUMNS[names[i].toLowerCase()];
-        const message =
-          text !== "" && /^[+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?$/i.test(text) && rule &&
-            Number.isFinite(x)
-            ? `column ${names[i]}: ${text} ${k.unit} is outside the accepted range ${
-              rule.range[0]
-            } to ${rule.range[1]} ${k.unit}`
-            : `column ${names[i]}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`;
+        const message = rule && Number.isFinite(x)
+          ? `column ${names[i]}: ${x} ${k.unit} is outside the accepted range ${rule.range[0]} to ${
+            rule.range[1]
+          } ${k.unit}`
+          : `column ${names[i]}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`;
         problems.push({
           file: rel,
           line: parquet ? r : lineOf(r),
@@ -457,13 +481,17 @@ export async function workTableInDuck(
       } of ${rowsRead} excluded`,
     );
   }
+  const good = Number(row.rows_read) - badChecked;
   const moments = new Map<string, ReturnType<typeof momentsFromRow>[]>();
   work.statistics.forEach((st, i) =>
     moments.set(
       st.cell,
-      st.separate
-        ? st.variables.map((_, k) => momentsFromRow(1, row, `s${i}_p${k}_`))
-        : [momentsFromRow(st.variables.length, row, `s${i}_`)],
+      groupOf[i].map((prefix) =>
+        momentsFromRow(st.separate ? 1 : st.variables.length, {
+          ...row,
+          [`${prefix}missing`]: good - Number(row[`${prefix}n`]),
+        }, prefix)
+      ),
     )
   );
   return {
@@ -491,7 +519,12 @@ async function run(
     );
     const at = new Map(used.map((n, i) => [n, i + 1]));
     const renumbered = sql.replace(/\$(\d+)/g, (_, n) => `$${at.get(Number(n))}`);
-    return await db.rows(renumbered, used.map((n) => params[n - 1]));
+    const t0 = performance.now();
+    const out = await db.rows(renumbered, used.map((n) => params[n - 1]));
+    if (Deno.env.get("LENTIL_DUCK_PROFILE")) {
+      console.error(((performance.now() - t0) / 1000).toFixed(2), renumbered.slice(0, 20000));
+    }
+    return out;
   } catch (e) {
     const m = (e as Error).message;
     if (/No files found|Cannot open file|No such file/i.test(m)) {

@@ -325,6 +325,26 @@ export function statisticAggregates(
   return parts;
 }
 
+/**
+ * Totals of variables already NULL on rows left out (aggregates skip NULLs): count, means,
+ * variances and covariances, named with `prefix` (the statistics in SQL need no smallest or
+ * largest value). The count of rows left out is found by the caller.
+ */
+export function statisticTotals(vars: readonly string[], prefix: string): string[] {
+  const parts = [`COUNT(${vars[0]}) AS ${prefix}n`];
+  vars.forEach((v, i) => {
+    parts.push(`AVG(${v}) AS ${prefix}mean_${i}`);
+    for (let j = i; j < vars.length; j++) {
+      parts.push(
+        i === j
+          ? `VAR_SAMP(${v}) AS ${prefix}cov_${i}_${j}`
+          : `COVAR_SAMP(${v}, ${vars[j]}) AS ${prefix}cov_${i}_${j}`,
+      );
+    }
+  });
+  return parts;
+}
+
 /** The aggregate query of a statistic over a row source: totals over complete rows. */
 export function statisticQuery(stat: SqlStatistic, from: string): string {
   const v = stat.variables.map((_, i) => `v${i}`);
