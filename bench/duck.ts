@@ -17,6 +17,7 @@ import { buildReport } from "../notebook/report.ts";
 import { openDuck } from "../notebook/duck/_open.ts";
 import type { Goal } from "./goal.ts";
 import { agreementRecord } from "../cells/stats.ts";
+import { readRxColumn } from "../cells/_rx_column.ts";
 
 const HEADER =
   "record [text],age [number],sph1 [D],cyl1 [D],axis1 [deg],sph2 [D],cyl2 [D],axis2 [deg]\n";
@@ -150,11 +151,62 @@ async function run(kind: string, dir: string): Promise<Record<string, number>> {
   return JSON.parse(text);
 }
 
+/** An `[rx]` text column of 1,000,000 rows to power vectors, through the column parser. */
+function rxColumn(): { goal: Goal; line: string } {
+  const n = 1_000_000;
+  const g = seeded(7);
+  const texts: string[] = new Array(n);
+  for (let i = 0; i < n; i++) {
+    const s = (Math.round((-8 + 12 * g()) * 4) / 4).toFixed(2);
+    const c = (-Math.round(12 * g()) / 4).toFixed(2);
+    texts[i] = `${s.startsWith("-") ? "" : "+"}${s} / ${c} x ${1 + Math.floor(180 * g())}`;
+  }
+  const RAD = Math.PI / 180;
+  let sink = 0;
+  const once = () => {
+    const r = readRxColumn(texts);
+    const m = new Float64Array(n);
+    const j0 = new Float64Array(n);
+    const j45 = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const half = r.cyl[i] / 2;
+      const a = 2 * r.axis[i] * RAD;
+      m[i] = r.sph[i] + half;
+      j0[i] = -half * Math.cos(a);
+      j45[i] = -half * Math.sin(a);
+    }
+    sink += m[n - 1] + j0[n - 1] + j45[n - 1];
+  };
+  once();
+  const times: number[] = [];
+  for (let k = 0; k < 3; k++) {
+    const t0 = performance.now();
+    once();
+    times.push((performance.now() - t0) / 1000);
+  }
+  times.sort((a, b) => a - b);
+  const rate = n / times[1];
+  if (sink === 0.123456) console.log(sink);
+  return {
+    goal: {
+      name: "rx-column-vectors",
+      value: Math.round(rate),
+      unit: "rows/s",
+      op: ">=",
+      target: 1e6,
+    },
+    line: `[rx] text column of 1,000,000 rows to M, J0, J45 through the column parser: ${
+      (times[1] * 1000).toFixed(0)
+    } ms (${Math.round(rate).toLocaleString("en")} rows/s)`,
+  };
+}
+
 /** Measure the goals. */
 export async function measure(): Promise<{ goals: Goal[]; lines: string[] }> {
   const dir = await Deno.makeTempDir({ prefix: "lentil-bench-duck-" });
-  const lines: string[] = [];
-  const goals: Goal[] = [];
+  const rx = rxColumn();
+  const lines: string[] = [rx.line];
+  const goals: Goal[] = [rx.goal];
   try {
     await Deno.writeTextFile(join(dir, "duckdb.lentil.md"), notebook("duckdb"));
     await Deno.writeTextFile(join(dir, "in-process.lentil.md"), notebook("in-process"));

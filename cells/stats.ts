@@ -25,7 +25,7 @@ import { markExact, quantity, quantityParts, toNumberIn } from "./quantity.ts";
 import { joinShared, qty, sampleStatsRecord, showStat, statRecord } from "./_stat_records.ts";
 import type { DisplayOptions } from "./types.ts";
 import { RxValue } from "./rx.ts";
-import { getValueType } from "./types.ts";
+import { readRxColumn } from "./_rx_column.ts";
 import { toPowerVector } from "../lib/power_vector.ts";
 import { CYLINDER_RANGE, SPHERE_RANGE } from "../lib/prescription.ts";
 import { LentilInputError } from "../lib/errors.ts";
@@ -96,29 +96,8 @@ export function refractionArrays(
       `column ${a.name} holds numbers; give sphere, cylinder and axis columns, or a column of prescriptions`,
     );
   }
-  const n = a.length;
-  const sph = new Float64Array(n).fill(NaN);
-  const cyl = new Float64Array(n).fill(NaN);
-  const axis = new Float64Array(n).fill(NaN);
-  const rxType = getValueType("rx");
-  a.data.forEach((v, i) => {
-    if (v === null || v === undefined || v === "") return;
-    if (typeof v === "string") {
-      if (!rxType?.fromText) {
-        throw new LentilInputError(`column ${a.name}: text is not a prescription`);
-      }
-      v = rxType.fromText(v);
-    }
-    const rx = (v as { rx?: unknown }).rx ?? v;
-    const r = rx as { sphere?: unknown; cylinder?: unknown; axis?: unknown };
-    if (typeof r.sphere !== "number" || typeof r.cylinder !== "number") {
-      throw new LentilInputError(`column ${a.name}, row ${i + 1}: not a prescription`);
-    }
-    sph[i] = r.sphere;
-    cyl[i] = r.cylinder;
-    axis[i] = typeof r.axis === "number" ? r.axis : 180;
-  });
-  return { sph, cyl, axis };
+  // Parsed once into arrays by the column parser (same results as the prescription parser).
+  return readRxColumn(a.data, a.name);
 }
 
 /** The unit of a quantity column, "" otherwise. */
