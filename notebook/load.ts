@@ -16,6 +16,7 @@ import { dirname } from "node:path";
 import { checkedTableFile, type TableFilePolicy } from "./engine/_table_file.ts";
 import { Notebook, type PreparedTable } from "./engine/engine.ts";
 import { parseNotebook } from "./format/parse.ts";
+import { countingStream, type ProgressListener } from "./progress.ts";
 import { decodeNotebookLenient } from "./format/read.ts";
 import type { Diagnostic } from "./format/diagnostic.ts";
 
@@ -26,6 +27,8 @@ export interface LoadOptions extends TableFilePolicy {
    * database, bringing back only what the notebook shows (needs `--allow-ffi`).
    */
   readonly database?: boolean;
+  /** Told how far each large table read has come (rows, part of the file). */
+  readonly onProgress?: ProgressListener;
 }
 
 /** A loaded notebook, or the reason it could not be read at all. */
@@ -98,7 +101,16 @@ export async function notebookFromBytes(
       // Loaded only when a notebook reads a table from a file.
       const duck = await import("./duck/load.ts");
       const blocks = await duck.duckTables(doc, path);
-      if (blocks.length) prepared = await duck.prepareInDuck(doc, path, blocks, options);
+      if (blocks.length) {
+        prepared = await duck.prepareInDuck(
+          doc,
+          path,
+          blocks,
+          options,
+          undefined,
+          options.onProgress,
+        );
+      }
     }
   }
   const notebook = await Notebook.load(decoded.text, path, {
@@ -107,7 +119,18 @@ export async function notebookFromBytes(
     host: {
       // Only regular files in the notebook's folder tree (no links, devices or pipes).
       readText: (rel) => Deno.readTextFileSync(checkedTableFile(dir, rel, options)),
-      open: (rel) => openStream(checkedTableFile(dir, rel, options)),
+      open: (rel) => {
+        const full = checkedTableFile(dir, rel, options);
+        const stream = openStream(full);
+        const listen = options.onProgress;
+        if (!listen) return stream;
+        const size = Deno.statSync(full).size;
+        return countingStream(
+          stream,
+          size,
+          (rows, fraction, done) => listen({ table: rel, file: rel, rows, fraction, done }),
+        );
+      },
     },
   });
   return { ok: true, notebook, bytes };

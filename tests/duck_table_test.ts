@@ -5,6 +5,9 @@ import { loadNotebook } from "../notebook/load.ts";
 import { buildReport } from "../notebook/report.ts";
 import { openDuck } from "../notebook/duck/_open.ts";
 import { quoteName, SqlNameError } from "../notebook/sql/_names.ts";
+import { type ProgressEvent, progressPrinter } from "../notebook/progress.ts";
+import { runCli } from "../notebook/cli/main.ts";
+import { captureIo } from "../notebook/cli/command.ts";
 
 /** A seeded generator (mulberry32, common practice, no source) for invented refractions. */
 function rng(seed: number): () => number {
@@ -242,4 +245,33 @@ Deno.test("DuckDB: a file: table that is a symbolic link is refused as by the in
   const e = buildReport(r.notebook).cells.find((c) => c.id === "eyes")!;
   assert.match(e.error!.message, /cannot read table file "eyes.csv": .*link/);
   assert.doesNotMatch(JSON.stringify(buildReport(r.notebook)), /root:/);
+});
+
+Deno.test("progress: both paths report rows and the part of the file; --quiet and --json print none", async () => {
+  const dir = await folder({
+    "eyes.csv": csv(30000),
+    "d.lentil.md": notebook("duckdb"),
+    "p.lentil.md": notebook("in-process"),
+  });
+  for (const name of ["d", "p"]) {
+    const events: ProgressEvent[] = [];
+    const r = await loadNotebook(join(dir, `${name}.lentil.md`), {
+      database: true,
+      onProgress: (e) => events.push(e),
+    });
+    assert.ok(r.ok);
+    const last = events.at(-1)!;
+    assert.equal(last.done, true, name);
+    assert.equal(last.fraction, 1, name);
+    assert.ok(last.rows >= 30000, `${name}: ${last.rows}`);
+  }
+  const lines: string[] = [];
+  const p = progressPrinter({ write: (s) => lines.push(s), terminal: false, after: 0, every: 0 });
+  p({ table: "eyes", file: "eyes.csv", rows: 250000, fraction: 0.25 });
+  assert.match(lines[0], /^reading eyes\.csv \(table eyes\): 250,000 rows, [\d,]+ rows\/s, 25%/);
+  for (const flag of ["--quiet", "--json"]) {
+    const io = captureIo();
+    await runCli(["run", join(dir, "d.lentil.md"), flag], io);
+    assert.doesNotMatch(io.stderr(), /reading eyes\.csv/, flag);
+  }
 });

@@ -11,8 +11,15 @@ import { resolve } from "node:path";
 
 /** The parts of a DuckDB connection Lentil uses. */
 export interface DuckConnection {
-  /** Run a statement with bound parameters and read every row as an object. */
-  rows(sql: string, params?: readonly (string | number)[]): Promise<Record<string, unknown>[]>;
+  /**
+   * Run a statement with bound parameters and read every row as an object; `progress` is
+   * called a few times a second with the part done (0–1, or -1 when unknown) and rows read.
+   */
+  rows(
+    sql: string,
+    params?: readonly (string | number)[],
+    progress?: (fraction: number, rows: number) => void,
+  ): Promise<Record<string, unknown>[]>;
   /** Close the connection and the database. */
   close(): void;
 }
@@ -66,17 +73,29 @@ export async function openDuck(
   const c = await instance.connect();
   const dir = (await Deno.realPath(resolve(folder))).replace(/\/?$/, "/");
   await c.run(`SET allowed_directories = [${literal(dir)}]`);
+  await c.run("SET enable_progress_bar = true");
+  await c.run("SET enable_progress_bar_print = false");
   await c.run("SET enable_external_access = false");
   await c.run("SET lock_configuration = true");
   return {
-    async rows(sql, params = []) {
+    async rows(sql, params = [], progress) {
       const p = await c.prepare(sql);
       params.forEach((x, i) => {
         if (typeof x === "number") p.bindDouble(i + 1, x);
         else p.bindVarchar(i + 1, x);
       });
-      const r = await p.runAndReadAll();
-      return r.getRowObjects() as Record<string, unknown>[];
+      const timer = progress
+        ? setInterval(() => {
+          const q = c.progress;
+          progress(q.percentage < 0 ? -1 : q.percentage / 100, Number(q.rows_processed));
+        }, 200)
+        : undefined;
+      try {
+        const r = await p.runAndReadAll();
+        return r.getRowObjects() as Record<string, unknown>[];
+      } finally {
+        if (timer !== undefined) clearInterval(timer);
+      }
     },
     close() {
       c.closeSync();

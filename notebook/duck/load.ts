@@ -17,6 +17,7 @@ import type { TableProblem } from "../engine/_tables.ts";
 import { checkedTableFile, type TableFilePolicy } from "../engine/_table_file.ts";
 import { finishStatistic } from "../sql/work.ts";
 import { openDuck } from "./_open.ts";
+import type { ProgressListener } from "../progress.ts";
 import { DuckTableError, isParquet, workTableInDuck } from "./table.ts";
 
 /** CSV files of at least this size are worked in DuckDB by default (16 MB). */
@@ -73,6 +74,7 @@ export async function prepareInDuck(
   blocks: readonly TableBlock[],
   policy: TableFilePolicy = {},
   lang: Language = getLanguage(),
+  onProgress?: ProgressListener,
 ): Promise<DuckPrepared> {
   const tables = new Map<string, PreparedTable>();
   const given = new Map<string, unknown>();
@@ -102,7 +104,7 @@ export async function prepareInDuck(
         continue;
       }
       try {
-        r = await workTableInDuck(db, doc, block, path, folder, lang);
+        r = await workTableInDuck(db, doc, block, path, folder, lang, onProgress);
       } catch (e) {
         if (!(e instanceof DuckTableError)) throw e;
         if (e.fallback && !isParquet(block.options.file!.value)) {

@@ -24,6 +24,7 @@ import { quoteName } from "../sql/_names.ts";
 import { momentsFromRow, planTableWork, statisticTotals, type TableWork } from "../sql/work.ts";
 import type { NotebookDoc } from "../format/parse.ts";
 import type { DuckConnection } from "./_open.ts";
+import type { ProgressListener } from "../progress.ts";
 
 /** What DuckDB gave back for a table. */
 export interface DuckTableResult {
@@ -224,6 +225,7 @@ export async function workTableInDuck(
   notebookFile: string,
   folder: string,
   lang: Language,
+  onProgress?: ProgressListener,
 ): Promise<DuckTableResult> {
   const rel = block.options.file!.value;
   const path = join(folder, rel);
@@ -375,7 +377,22 @@ export async function workTableInDuck(
   const main = `SELECT ${aggregates.join(", ")} FROM (SELECT ${
     projected.join(", ")
   } FROM ${from}) AS observed`;
-  const [row] = await run(db, main, params, rel);
+  const [row] = await run(db, main, params, rel, (fraction, rows) => {
+    if (!onProgress) return;
+    onProgress({
+      table: block.name,
+      file: rel,
+      rows,
+      fraction: fraction >= 0 ? fraction : undefined,
+    });
+  });
+  onProgress?.({
+    table: block.name,
+    file: rel,
+    rows: Number(row.rows_read),
+    fraction: 1,
+    done: true,
+  });
   const rowsGood = Number(row.rows_read);
   let rejects: { line: number; message: string; column?: string; type: string }[] = [];
   let rejected = 0;
@@ -512,6 +529,7 @@ async function run(
   sql: string,
   params: readonly (string | number)[],
   rel: string,
+  progress?: (fraction: number, rows: number) => void,
 ): Promise<Record<string, unknown>[]> {
   try {
     const used = [...new Set([...sql.matchAll(/\$(\d+)/g)].map((m) => Number(m[1])))].sort((a, b) =>
@@ -519,12 +537,7 @@ async function run(
     );
     const at = new Map(used.map((n, i) => [n, i + 1]));
     const renumbered = sql.replace(/\$(\d+)/g, (_, n) => `$${at.get(Number(n))}`);
-    const t0 = performance.now();
-    const out = await db.rows(renumbered, used.map((n) => params[n - 1]));
-    if (Deno.env.get("LENTIL_DUCK_PROFILE")) {
-      console.error(((performance.now() - t0) / 1000).toFixed(2), renumbered.slice(0, 20000));
-    }
-    return out;
+    return await db.rows(renumbered, used.map((n) => params[n - 1]), progress);
   } catch (e) {
     const m = (e as Error).message;
     if (/No files found|Cannot open file|No such file/i.test(m)) {

@@ -8,6 +8,7 @@ import type { CliIo } from "../command.ts";
 import type { Notebook } from "../../engine/engine.ts";
 import { loadNotebook, type LoadOptions, NotebookFileError } from "../../load.ts";
 import { formatDiagnostic } from "../../format/diagnostic.ts";
+import { type ProgressListener, progressPrinter } from "../../progress.ts";
 
 /** Load `file`; on failure print a one-line message and return undefined. */
 export async function openNotebook(
@@ -29,4 +30,13 @@ export async function openNotebook(
     }
     throw e;
   }
+}
+
+/**
+ * Progress lines for a command: rewritten in place when stderr is a terminal, else plain
+ * lines through the command's error stream.
+ */
+export function cliProgress(io: CliIo): ProgressListener {
+  const terminal = Deno.stderr.isTerminal();
+  return progressPrinter(terminal ? { terminal } : { terminal, write: (s) => io.err(s.trimEnd()) });
 }

@@ -7,7 +7,7 @@
 
 import type { Command } from "../command.ts";
 import { buildReport, type Report } from "../../report.ts";
-import { openNotebook } from "./_open.ts";
+import { cliProgress, openNotebook } from "./_open.ts";
 import { type Diagnostic, formatDiagnostic } from "../../format/diagnostic.ts";
 import type { Notebook } from "../../engine/engine.ts";
 import { DEFAULT_WIDTH, resultBelow, terminalWidth, wrap } from "../_result_text.ts";
@@ -84,14 +84,18 @@ export function renderReportText(
 export const runCommand: Command = {
   name: "run",
   summary: "evaluate a notebook and print every result with units and sources",
-  usage: "FILE [--json]",
+  usage: "FILE [--json] [--quiet]",
   help:
     "Evaluates FILE (a *.lentil.md notebook) and prints each cell: name, value with unit, and\n" +
     "the numbers of the sources it used, then the numbered sources and any cautions.\n" +
     "Problems no cell shows (an unterminated block, a bad CSV row) are listed at the end.\n" +
+    "A large file: table (Parquet, a CSV of 16 MB or more, or engine: duckdb in its block) is\n" +
+    "worked in the embedded DuckDB; a read that takes more than a second shows its progress on\n" +
+    "stderr (rows, rows/s, percent, time left) unless --quiet or --json.\n" +
     "Exit status: 0 when every cell evaluated, 1 when any cell or the file has an error.",
   options: {
-    json: { type: "boolean", doc: "print the results as JSON" },
+    json: { type: "boolean", doc: "print the results as JSON (no progress lines)" },
+    quiet: { type: "boolean", doc: "no progress lines on stderr while a large table is read" },
     "follow-links": {
       type: "boolean",
       doc: "let file: tables follow symbolic links (to regular files only)",
@@ -102,6 +106,7 @@ export const runCommand: Command = {
     const opened = await openNotebook(file, io, {
       followLinks: !!options["follow-links"],
       database: true,
+      onProgress: options.quiet || options.json ? undefined : cliProgress(io),
     });
     if (!opened) return 1;
     const report = buildReport(opened);

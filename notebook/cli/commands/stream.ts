@@ -7,12 +7,23 @@
  */
 
 import type { Command } from "../command.ts";
+import { cliProgress } from "./_open.ts";
+
+/** Progress of a streaming run: rows so far (the part of the file is not known here). */
+function streamProgress(file: string, io: Parameters<Command["run"]>[2]) {
+  const p = cliProgress(io);
+  let last = 0;
+  return {
+    onChunk: (rows: number) => p({ table: "streamed", file, rows: last = rows }),
+    done: () => p({ table: "streamed", file, rows: last, done: true }),
+  };
+}
 
 /** The `stream` command. */
 export const streamCommand: Command = {
   name: "stream",
   summary: "run a notebook over a large CSV table in one pass; write the computed table",
-  usage: "FILE [--out RESULTS.csv] [--table NAME] [--overwrite] [--json]",
+  usage: "FILE [--out RESULTS.csv] [--table NAME] [--overwrite] [--json] [--quiet]",
   help: "Reads the notebook's CSV table (or the one named by --table) in chunks, computes its\n" +
     "columns with compiled formulas, feeds the statistics cells (countOf, meanOf, sdOf, summary,\n" +
     "meanRx, vectorStats, ellipse95, spread95, agreement, rxAgreement) and, with --out, writes\n" +
@@ -28,7 +39,8 @@ export const streamCommand: Command = {
     out: { type: "string", value: "FILE", doc: "write the computed table to this new CSV file" },
     table: { type: "string", value: "NAME", doc: "the table to stream (when there are several)" },
     overwrite: { type: "boolean", doc: "replace the output file if it exists" },
-    json: { type: "boolean", doc: "print the outcome as JSON" },
+    json: { type: "boolean", doc: "print the outcome as JSON (no progress lines)" },
+    quiet: { type: "boolean", doc: "no progress lines on stderr" },
     "follow-links": {
       type: "boolean",
       doc: "let file: tables follow symbolic links (to regular files only)",
@@ -38,6 +50,7 @@ export const streamCommand: Command = {
   async run([file], options, io) {
     const { streamNotebook, StreamSetupError } = await import("../../table/stream.ts");
     let r;
+    const progress = options.quiet || options.json ? undefined : streamProgress(file, io);
     try {
       r = await streamNotebook(file, {
         out: options.out as string | undefined,
