@@ -57,7 +57,9 @@ export const streamCommand: Command = {
         table: options.table as string | undefined,
         overwrite: !!options.overwrite,
         followLinks: !!options["follow-links"],
+        onChunk: progress?.onChunk,
       });
+      progress?.done();
     } catch (e) {
       if (e instanceof StreamSetupError || e instanceof Deno.errors.NotFound) {
         io.err(`lentil stream: ${(e as Error).message}`);
