@@ -38,8 +38,8 @@ import { INDEPENDENT_NOTE } from "../../cells/_eyes_context.ts";
 import { agreementFrom } from "../../lib/agreement.ts";
 import { pushRefraction, RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
 import { toPowerVector } from "../../lib/power_vector.ts";
-import { parseNotebook, type TableBlock } from "../format/parse.ts";
-import { Notebook } from "../engine/engine.ts";
+import { type NotebookDoc, parseNotebook, type TableBlock } from "../format/parse.ts";
+import { type CellResult, Notebook } from "../engine/engine.ts";
 import { CAUTIONS } from "../../shared/cautions.ts";
 import { createTempBeside } from "./_temp.ts";
 import { checkedTableFile } from "../engine/_table_file.ts";
@@ -334,63 +334,16 @@ export async function streamNotebook(
   const lang = getLanguage();
   const text = await Deno.readTextFile(path);
   const doc = parseNotebook(text, path);
-  const fileTables = doc.tables.filter((t) => t.options.file);
-  let block: TableBlock | undefined;
-  if (options.table) {
-    block = fileTables.find((t) => t.name === options.table);
-    if (!block) {
-      throw new StreamSetupError(
-        `no table "${options.table}" read from a file in ${path} (tables from files: ${
-          fileTables.map((t) => t.name).join(", ") || "none"
-        })`,
-      );
-    }
-  } else if (fileTables.length === 1) block = fileTables[0];
-  else {
-    throw new StreamSetupError(
-      fileTables.length
-        ? `${path} reads ${fileTables.length} tables from files; choose one with --table (${
-          fileTables.map((t) => t.name).join(", ")
-        })`
-        : `${path} has no table read from a file (a table block with a file: option)`,
-    );
-  }
+  const { block, fileTables } = chooseTable(doc, path, options.table);
   const dir = dirname(path);
   const input = join(dir, block.options.file!.value);
   const out = options.out;
   // Every file the notebook reads: the output and its temporary file must be none of them.
   const inputs = fileTables.map((t) => join(dir, t.options.file!.value));
-  if (out) {
-    for (const read of inputs) {
-      if (await sameFile(out, read)) {
-        throw new StreamSetupError(
-          `refusing to write over the input ${read}; choose another --out`,
-        );
-      }
-    }
-    let exists = false;
-    try {
-      await Deno.lstat(out);
-      exists = true;
-    } catch (e) {
-      if (!(e instanceof Deno.errors.NotFound)) throw e;
-    }
-    if (exists && !options.overwrite) {
-      throw new StreamSetupError(`${out} exists; add --overwrite to replace it`);
-    }
-  }
+  if (out) await checkOutput(out, inputs, options.overwrite);
   const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase() === "skip";
   const chunkRows = options.chunkRows ?? 8192;
-  let file: Deno.FsFile;
-  try {
-    // A regular file in the notebook's folder tree only: no link, device or pipe.
-    file = await Deno.open(
-      checkedTableFile(dir, block.options.file!.value, { followLinks: options.followLinks }),
-    );
-  } catch (e) {
-    const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
-    throw new StreamSetupError(`cannot read table file ${input}: ${why}`);
-  }
+  const file = await openTableFile(dir, block, input, options.followLinks);
   const opened = await openCsvTable(block, path, file.readable, lang, READ_BATCH);
   const base = {
     table: block.name,
@@ -412,165 +365,17 @@ export async function streamNotebook(
     return { ...base, ok: false, problems: start.problems, stopped: start.problems[0].message };
   }
   const builder: TableBuilder = start.builder;
-
-  // The rest of the notebook, over an empty copy of the streamed table.
-  const emptyColumns = builder.columns.map((c, i) => {
-    const k = builder.kinds[i];
-    return k.type === "quantity" || k.type === "number"
-      ? new Column(c.name, k.type, k.unit, new Float64Array())
-      : new Column(c.name, k.type === "value" ? k.name : "text", "", []);
-  });
-  const nb = new Notebook(doc, {
-    tables: new Map([[block.name, {
-      columns: builder.columns,
-      built: {
-        value: makeTable(block.name, emptyColumns, { file: block.options.file!.value }),
-        problems: [],
-        notes: [],
-        excluded: 0,
-      },
-    }]]),
-  });
-  nb.evaluateAll();
-  const scope = new Map<string, unknown>(Object.entries(lang.constants));
-  const readsTable = (deps: readonly string[]) =>
-    deps.some((d) => d === block!.name || d.startsWith(`${block!.name}.`));
-  const results = nb.results();
-  for (const r of results) {
-    if (r.kind === "cell" && r.value !== undefined && !readsTable(r.deps)) {
-      scope.set(r.name, r.value);
-    }
-  }
-  const computed = nb.graph.order
-    .map((id) => nb.result(id)!)
-    .filter((r) => r.kind === "column" && r.table === block!.name);
-  const docIndex = new Map(
-    [...computed].sort((a, b) => a.line - b.line).map((r, i) => [r.name, i]),
-  );
-  const aggregates = new Map<string, Aggregate>();
-  const cells: StreamedCell[] = [];
-  for (const r of results) {
-    if (r.kind !== "cell") continue;
-    if (!readsTable(r.deps)) {
-      cells.push(
-        r.error
-          ? { name: r.name, unavailable: r.error.message }
-          : { name: r.name, value: r.value, display: lang.describe(r.value, nb.display).display },
-      );
-      continue;
-    }
-    const node = lang.parse(r.expression!) as unknown as {
-      type: string;
-      fn?: { type: string; name?: string };
-      args?: MathNode[];
-    };
-    const fn = node.type === "FunctionNode" && node.fn?.type === "SymbolNode" ? node.fn.name! : "";
-    const cols = fn ? columnArgs(node.args!, block.name) : undefined;
-    let agg: Aggregate | string =
-      "only a single call of countOf, meanOf, sdOf, sampleStats, meanRx, " +
-      "vectorStats, ellipse95, spread95, agreement or rxAgreement over the streamed table's columns " +
-      "is computed in streaming mode";
-    if (fn === "medianOf" || fn === "quantileOf" || fn === "sampleStatsBy" || fn === "meanRxBy") {
-      agg = `${fn} needs every value at once; it is not computed in streaming mode`;
-    } else if (STREAMABLE.has(fn) && cols) agg = aggregateFor(fn, cols, lang);
-    if (typeof agg === "string") cells.push({ name: r.name, unavailable: agg });
-    else {
-      aggregates.set(r.name, agg);
-      cells.push({ name: r.name });
-    }
-  }
+  const nb = restOfNotebook(doc, block, builder);
+  const plan = planCells(nb, block.name, lang);
 
   // Output.
   const temp = out ? await createTempBeside(out, inputs) : undefined;
   const part = temp?.path;
-  const sink = temp?.file;
-  const writer = sink;
-  const enc = new TextEncoder();
-  let wroteHeader = false;
-  let plans: ColumnPlan[] | undefined;
-  const colInfo: StreamedColumn[] = [];
-  let rowsKept = 0;
+  const writer = temp?.file;
+  const chunks = new ChunkWriter(builder, plan, block.name, lang, writer, options.onChunk);
   let stopped: string | undefined;
-
-  const processChunk = () => {
-    const data = builder.take();
-    const rows = data.length ? data[0].length : 0;
-    if (rows === 0 && wroteHeader) return;
-    const all: Column[] = [...data];
-    const byName = new Map(all.map((c) => [c.name, c]));
-    const planning = !plans;
-    if (planning) plans = [];
-    for (let i = 0; i < computed.length; i++) {
-      const r = computed[i];
-      const inputs = all.filter((c) => c.name !== r.name);
-      if (planning) {
-        const node = lang.parse(r.expression!);
-        plans!.push(planColumn(r.name, node, lang.compile(node), inputs, scope, lang));
-      }
-      let run;
-      try {
-        run = plans![i].run(inputs, rows);
-      } catch (e) {
-        // A formula that fails on the data stops the run with its reason, never a trace.
-        throw new ColumnStreamError(
-          `computed column ${block.name}.${r.name}: ${plainMathMessage((e as Error).message)}`,
-        );
-      }
-      const { column, path } = run;
-      all.push(column);
-      byName.set(column.name, column);
-      colInfo[docIndex.get(r.name)!] = {
-        name: r.name,
-        unit: column.unit,
-        path,
-        reason: plans![i].reason,
-      };
-    }
-    const shown = [...data, ...colInfo.map((c) => byName.get(c.name)!)];
-    for (const a of aggregates.values()) a.push(byName);
-    rowsKept += rows;
-    if (writer) {
-      // Small slices keep what is alive between collections small (memory stays flat).
-      const columns = shown.map((c) => header(c));
-      for (let s = 0; s < rows || !wroteHeader; s += WRITE_SLICE) {
-        const records: string[][] = [];
-        for (let i = s; i < Math.min(rows, s + WRITE_SLICE); i++) {
-          records.push(shown.map((c) => cellText(c.data[i])));
-        }
-        const csv = stringify(records, {
-          header: !wroteHeader,
-          columns,
-          record_delimiter: "unix",
-        });
-        wroteHeader = true;
-        const bytes = enc.encode(csv);
-        for (let off = 0; off < bytes.length;) off += sink!.writeSync(bytes.subarray(off));
-      }
-    }
-    options.onChunk?.(builder.rowsSeen);
-  };
-
   try {
-    const stopAtBad = () => {
-      if (!skip && builder.badRows) {
-        stopped = `bad row ${builder.problems[0].row! + 1}: ${builder.problems[0].message} ` +
-          `(the run stops at a bad row; add "bad rows: skip" to the table block to exclude and count them)`;
-        return true;
-      }
-      return false;
-    };
-    if (!stopAtBad()) {
-      if (builder.pending >= chunkRows) processChunk();
-      for (let r = await rest.next(); !r.done; r = await rest.next()) {
-        for (const rec of r.value as CsvRecord[]) {
-          if (rec.bad) builder.addBad(rec.line, rec.bad);
-          else builder.add(rec.cells, rec.line);
-        }
-        if (stopAtBad()) break;
-        if (builder.pending >= chunkRows) processChunk();
-      }
-      if (!stopped) processChunk();
-    }
+    stopped = await readAll(rest, builder, skip, chunkRows, () => chunks.process());
   } catch (e) {
     if (e instanceof CsvReadError) stopped = e.problem.message;
     else if (e instanceof ColumnStreamError) stopped = e.message;
@@ -591,8 +396,322 @@ export async function streamNotebook(
     if (stopped) await Deno.remove(part).catch(() => {});
     else await Deno.rename(part, out!);
   }
-  const finished = cells.map((c) => {
-    const a = aggregates.get(c.name);
+  return {
+    ok: !stopped,
+    table: block.name,
+    input,
+    output: stopped ? undefined : out,
+    rowsRead: builder.rowsSeen,
+    rowsKept: chunks.rowsKept,
+    excluded: builder.badRows,
+    columns: chunks.colInfo,
+    cells: finishCells(plan, stopped, lang, nb),
+    problems,
+    notes: builder.notes(block.name, { file: path, line: block.line, col: block.col }, skip),
+    stopped,
+    cautions: nb.callsCautionFormulas ? CAUTIONS : [],
+  };
+}
+
+/** The table to stream: the one asked for, or the notebook's only table read from a file. */
+function chooseTable(
+  doc: NotebookDoc,
+  path: string,
+  table: string | undefined,
+): { block: TableBlock; fileTables: TableBlock[] } {
+  const fileTables = doc.tables.filter((t) => t.options.file);
+  let block: TableBlock | undefined;
+  if (table) {
+    block = fileTables.find((t) => t.name === table);
+    if (!block) {
+      throw new StreamSetupError(
+        `no table "${table}" read from a file in ${path} (tables from files: ${
+          fileTables.map((t) => t.name).join(", ") || "none"
+        })`,
+      );
+    }
+  } else if (fileTables.length === 1) block = fileTables[0];
+  else {
+    throw new StreamSetupError(
+      fileTables.length
+        ? `${path} reads ${fileTables.length} tables from files; choose one with --table (${
+          fileTables.map((t) => t.name).join(", ")
+        })`
+        : `${path} has no table read from a file (a table block with a file: option)`,
+    );
+  }
+  return { block, fileTables };
+}
+
+/** Refuses an output that is one of the inputs, or that exists without `overwrite`. */
+async function checkOutput(
+  out: string,
+  inputs: readonly string[],
+  overwrite: boolean | undefined,
+): Promise<void> {
+  for (const read of inputs) {
+    if (await sameFile(out, read)) {
+      throw new StreamSetupError(
+        `refusing to write over the input ${read}; choose another --out`,
+      );
+    }
+  }
+  let exists = false;
+  try {
+    await Deno.lstat(out);
+    exists = true;
+  } catch (e) {
+    if (!(e instanceof Deno.errors.NotFound)) throw e;
+  }
+  if (exists && !overwrite) {
+    throw new StreamSetupError(`${out} exists; add --overwrite to replace it`);
+  }
+}
+
+/** Opens the streamed table's file: a regular file in the notebook's folder tree only. */
+async function openTableFile(
+  dir: string,
+  block: TableBlock,
+  input: string,
+  followLinks: boolean | undefined,
+): Promise<Deno.FsFile> {
+  try {
+    // A regular file in the notebook's folder tree only: no link, device or pipe.
+    return await Deno.open(
+      checkedTableFile(dir, block.options.file!.value, { followLinks }),
+    );
+  } catch (e) {
+    const why = e instanceof Deno.errors.NotFound ? "no such file" : (e as Error).message;
+    throw new StreamSetupError(`cannot read table file ${input}: ${why}`);
+  }
+}
+
+/** The rest of the notebook, evaluated over an empty copy of the streamed table. */
+function restOfNotebook(doc: NotebookDoc, block: TableBlock, builder: TableBuilder): Notebook {
+  const emptyColumns = builder.columns.map((c, i) => {
+    const k = builder.kinds[i];
+    return k.type === "quantity" || k.type === "number"
+      ? new Column(c.name, k.type, k.unit, new Float64Array())
+      : new Column(c.name, k.type === "value" ? k.name : "text", "", []);
+  });
+  const nb = new Notebook(doc, {
+    tables: new Map([[block.name, {
+      columns: builder.columns,
+      built: {
+        value: makeTable(block.name, emptyColumns, { file: block.options.file!.value }),
+        problems: [],
+        notes: [],
+        excluded: 0,
+      },
+    }]]),
+  });
+  nb.evaluateAll();
+  return nb;
+}
+
+/** What a run computes: computed columns in evaluation order, and each cell's fate. */
+interface CellPlan {
+  /** Cells that do not read the streamed table, by name. */
+  readonly scope: Map<string, unknown>;
+  /** The streamed table's computed columns, in evaluation order. */
+  readonly computed: CellResult[];
+  /** A computed column's place in document order. */
+  readonly docIndex: ReadonlyMap<string, number>;
+  /** The running aggregate of each cell that reads the table and can be streamed. */
+  readonly aggregates: Map<string, Aggregate>;
+  /** Every cell, in document order (values filled in at the end for aggregates). */
+  readonly cells: StreamedCell[];
+}
+
+function planCells(nb: Notebook, table: string, lang: Language): CellPlan {
+  const scope = new Map<string, unknown>(Object.entries(lang.constants));
+  const readsTable = (deps: readonly string[]) =>
+    deps.some((d) => d === table || d.startsWith(`${table}.`));
+  const results = nb.results();
+  for (const r of results) {
+    if (r.kind === "cell" && r.value !== undefined && !readsTable(r.deps)) {
+      scope.set(r.name, r.value);
+    }
+  }
+  const computed = nb.graph.order
+    .map((id) => nb.result(id)!)
+    .filter((r) => r.kind === "column" && r.table === table);
+  const docIndex = new Map(
+    [...computed].sort((a, b) => a.line - b.line).map((r, i) => [r.name, i]),
+  );
+  const aggregates = new Map<string, Aggregate>();
+  const cells: StreamedCell[] = [];
+  for (const r of results) {
+    if (r.kind !== "cell") continue;
+    if (!readsTable(r.deps)) {
+      cells.push(
+        r.error
+          ? { name: r.name, unavailable: r.error.message }
+          : { name: r.name, value: r.value, display: lang.describe(r.value, nb.display).display },
+      );
+      continue;
+    }
+    const agg = aggregateOf(r.expression!, table, lang);
+    if (typeof agg === "string") cells.push({ name: r.name, unavailable: agg });
+    else {
+      aggregates.set(r.name, agg);
+      cells.push({ name: r.name });
+    }
+  }
+  return { scope, computed, docIndex, aggregates, cells };
+}
+
+/** The running aggregate of a cell that reads the streamed table, or why there is none. */
+function aggregateOf(expression: string, table: string, lang: Language): Aggregate | string {
+  const node = lang.parse(expression) as unknown as {
+    type: string;
+    fn?: { type: string; name?: string };
+    args?: MathNode[];
+  };
+  const fn = node.type === "FunctionNode" && node.fn?.type === "SymbolNode" ? node.fn.name! : "";
+  const cols = fn ? columnArgs(node.args!, table) : undefined;
+  let agg: Aggregate | string =
+    "only a single call of countOf, meanOf, sdOf, sampleStats, meanRx, " +
+    "vectorStats, ellipse95, spread95, agreement or rxAgreement over the streamed table's columns " +
+    "is computed in streaming mode";
+  if (fn === "medianOf" || fn === "quantileOf" || fn === "sampleStatsBy" || fn === "meanRxBy") {
+    agg = `${fn} needs every value at once; it is not computed in streaming mode`;
+  } else if (STREAMABLE.has(fn) && cols) agg = aggregateFor(fn, cols, lang);
+  return agg;
+}
+
+/** Each chunk: its computed columns through plans compiled once, the aggregates, the CSV. */
+class ChunkWriter {
+  wroteHeader = false;
+  plans: ColumnPlan[] | undefined;
+  readonly colInfo: StreamedColumn[] = [];
+  rowsKept = 0;
+  readonly #enc = new TextEncoder();
+
+  constructor(
+    readonly builder: TableBuilder,
+    readonly plan: CellPlan,
+    readonly table: string,
+    readonly lang: Language,
+    readonly sink: Deno.FsFile | undefined,
+    readonly onChunk: ((rowsRead: number) => void) | undefined,
+  ) {}
+
+  process(): void {
+    const data = this.builder.take();
+    const rows = data.length ? data[0].length : 0;
+    if (rows === 0 && this.wroteHeader) return;
+    const byName = this.computeColumns(data, rows);
+    const shown = [...data, ...this.colInfo.map((c) => byName.get(c.name)!)];
+    for (const a of this.plan.aggregates.values()) a.push(byName);
+    this.rowsKept += rows;
+    if (this.sink) this.write(shown, rows);
+    this.onChunk?.(this.builder.rowsSeen);
+  }
+
+  /** The chunk's columns by name, the computed ones added in evaluation order. */
+  computeColumns(data: readonly Column[], rows: number): Map<string, Column> {
+    const { computed, scope, docIndex } = this.plan;
+    const lang = this.lang;
+    const all: Column[] = [...data];
+    const byName = new Map(all.map((c) => [c.name, c]));
+    const planning = !this.plans;
+    if (planning) this.plans = [];
+    const plans = this.plans!;
+    for (let i = 0; i < computed.length; i++) {
+      const r = computed[i];
+      const inputs = all.filter((c) => c.name !== r.name);
+      if (planning) {
+        const node = lang.parse(r.expression!);
+        plans.push(planColumn(r.name, node, lang.compile(node), inputs, scope, lang));
+      }
+      let run;
+      try {
+        run = plans[i].run(inputs, rows);
+      } catch (e) {
+        // A formula that fails on the data stops the run with its reason, never a trace.
+        throw new ColumnStreamError(
+          `computed column ${this.table}.${r.name}: ${plainMathMessage((e as Error).message)}`,
+        );
+      }
+      const { column, path } = run;
+      all.push(column);
+      byName.set(column.name, column);
+      this.colInfo[docIndex.get(r.name)!] = {
+        name: r.name,
+        unit: column.unit,
+        path,
+        reason: plans[i].reason,
+      };
+    }
+    return byName;
+  }
+
+  /** Writes the chunk (and the header, once) in small slices. */
+  write(shown: readonly Column[], rows: number): void {
+    // Small slices keep what is alive between collections small (memory stays flat).
+    const columns = shown.map((c) => header(c));
+    for (let s = 0; s < rows || !this.wroteHeader; s += WRITE_SLICE) {
+      const records: string[][] = [];
+      for (let i = s; i < Math.min(rows, s + WRITE_SLICE); i++) {
+        records.push(shown.map((c) => cellText(c.data[i])));
+      }
+      const csv = stringify(records, {
+        header: !this.wroteHeader,
+        columns,
+        record_delimiter: "unix",
+      });
+      this.wroteHeader = true;
+      const bytes = this.#enc.encode(csv);
+      for (let off = 0; off < bytes.length;) off += this.sink!.writeSync(bytes.subarray(off));
+    }
+  }
+}
+
+/**
+ * Reads the rest of the file into the builder, processing a chunk each `chunkRows` rows and
+ * the last at the end; returns why the run stopped at a bad row, if it did.
+ */
+async function readAll(
+  rest: AsyncIterator<CsvRecord[]>,
+  builder: TableBuilder,
+  skip: boolean,
+  chunkRows: number,
+  processChunk: () => void,
+): Promise<string | undefined> {
+  let stopped: string | undefined;
+  const stopAtBad = () => {
+    if (!skip && builder.badRows) {
+      stopped = `bad row ${builder.problems[0].row! + 1}: ${builder.problems[0].message} ` +
+        `(the run stops at a bad row; add "bad rows: skip" to the table block to exclude and count them)`;
+      return true;
+    }
+    return false;
+  };
+  if (!stopAtBad()) {
+    if (builder.pending >= chunkRows) processChunk();
+    for (let r = await rest.next(); !r.done; r = await rest.next()) {
+      for (const rec of r.value as CsvRecord[]) {
+        if (rec.bad) builder.addBad(rec.line, rec.bad);
+        else builder.add(rec.cells, rec.line);
+      }
+      if (stopAtBad()) break;
+      if (builder.pending >= chunkRows) processChunk();
+    }
+    if (!stopped) processChunk();
+  }
+  return stopped;
+}
+
+/** Every cell's outcome: aggregates' values once the whole file has been read. */
+function finishCells(
+  plan: CellPlan,
+  stopped: string | undefined,
+  lang: Language,
+  nb: Notebook,
+): StreamedCell[] {
+  return plan.cells.map((c) => {
+    const a = plan.aggregates.get(c.name);
     if (!a) return c;
     if (stopped) return { name: c.name, unavailable: "the run stopped before the end of the file" };
     try {
@@ -603,19 +722,4 @@ export async function streamNotebook(
       return { name: c.name, unavailable: (e as Error).message };
     }
   });
-  return {
-    ok: !stopped,
-    table: block.name,
-    input,
-    output: stopped ? undefined : out,
-    rowsRead: builder.rowsSeen,
-    rowsKept,
-    excluded: builder.badRows,
-    columns: colInfo,
-    cells: finished,
-    problems,
-    notes: builder.notes(block.name, { file: path, line: block.line, col: block.col }, skip),
-    stopped,
-    cautions: nb.callsCautionFormulas ? CAUTIONS : [],
-  };
 }
