@@ -73,3 +73,30 @@ Deno.test("fellow-eye scatter and repeatability plot from the table's declared k
   const bad = plot(["figure: repeatability", "table: t", "horizontal: x", "subject: nobody"]);
   assert.match(bad.problems[0].message, /no column "nobody"/);
 });
+
+Deno.test("a supplement table shows on the page and saves as CSV with the same text", async () => {
+  // common practice, no source: a paper's table, measure | n | mean ± SD | 95% CI | …
+  const { renderNotebookBody } = await import("../notebook/export/html.ts");
+  const { parse } = await import("csv-parse/sync");
+  const nb = Notebook.fromText(
+    `${TABLE}\n~~~lentil\nsupp = studyTable(t.x, t.y)\n~~~\n`,
+    "s.lentil.md",
+  );
+  const html = renderNotebookBody(nb).html;
+  const m = /download="supp\.csv" href="data:text\/csv;charset=utf-8,([^"]*)"/.exec(html);
+  assert.ok(m, "a CSV link under the table");
+  const rows = parse(decodeURIComponent(m[1].replaceAll("&amp;", "&"))) as string[][];
+  assert.deepEqual(rows[0], [
+    "measure",
+    "n",
+    "persons",
+    "meanSD",
+    "ci95",
+    "median",
+    "range",
+    "eyes",
+  ]);
+  assert.equal(rows[1][0], "x (D)");
+  assert.equal(rows[1][2], "4");
+  assert.ok(html.includes(rows[1][3]), "the same mean ± SD on the page");
+});

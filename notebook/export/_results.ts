@@ -18,6 +18,7 @@
 import type { CheckLine } from "../../cells/types.ts";
 import type { PartView, TableShown } from "../../cells/present.ts";
 import { anchorId, escapeHtml } from "./_escape.ts";
+import { stringify } from "csv-stringify/sync";
 
 /** What the page needs of a result to render it. */
 export interface HtmlResult {
@@ -81,8 +82,30 @@ export function belowHtml(r: HtmlResult): string {
   return [
     r.parts?.length ? partsTable(r.parts) : "",
     r.checks?.length ? checkTable(r.checks, r.id) : "",
-    r.table ? dataTableHtml(r.table, `result ${r.id}`) : "",
+    r.table ? dataTableHtml(r.table, `result ${r.id}`) + tableCsvLink(r.table, r.id) : "",
   ].join("");
+}
+
+/**
+ * A link that saves a result table as CSV, the text as shown (a supplement table reads the
+ * same in the file as on the page); only when every row is shown.
+ *
+ * @example
+ * ```ts
+ * import { tableCsvLink } from "./_results.ts";
+ * const t = { name: "t", columns: [{ name: "n", unit: "", numeric: false, computed: false }],
+ *   rows: [["12"]], rowCount: 1, excluded: 0, footer: "" };
+ * tableCsvLink(t, "summary").includes('download="summary.csv"'); // true
+ * ```
+ */
+export function tableCsvLink(t: TableShown, id: string): string {
+  if (t.rows.length !== t.rowCount) return "";
+  const header = t.columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name));
+  const csv = stringify([header, ...t.rows]);
+  const file = `${id}.csv`;
+  return `<p class="lx-table-foot"><a download="${escapeHtml(file)}" ` +
+    `href="data:text/csv;charset=utf-8,${escapeHtml(encodeURIComponent(csv))}">` +
+    `Save ${escapeHtml(file)} (CSV)</a></p>`;
 }
 
 /** Parts as a compact two-column table: label in words, display. */
