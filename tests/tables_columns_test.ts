@@ -72,6 +72,11 @@ const COMPILED = [
   "vertexPower(sph, 12 mm, 0 mm) - sph",
   "cos(x)",
   "2 (sph + 1 D)",
+  "x > 0 ? sph : cyl",
+  "sph >= -0.25 D ? x : va",
+  "x == va ? 1 : 0",
+  "abs(x) < 1e-12 ? 0 : x",
+  "axis != 90 deg ? sph : sph + cyl",
 ];
 
 for (const expr of COMPILED) {
@@ -94,7 +99,8 @@ for (const expr of COMPILED) {
 // Formulas outside the subset: planned row-wise, same result as evaluating row-wise.
 const FALLBACK = [
   "sph * cyl",
-  "x > 0 ? sph : cyl",
+  "x > 0 ? sph : x",
+  "x > 0 ? sph : 1 mm",
   "eye + 1",
   "mod(x, 2)",
   "sqrt(sph)",
@@ -233,6 +239,8 @@ const TYPED = [
   "toLogMAR(acuity(va)) + 0.1",
   'acuityAs(va, "decimal")',
   "eye",
+  'sph > 0 D ? eye : "no"',
+  'toLogMAR(acuity(va)) > 0.1 ? "reduced" : "good"',
   "prismComponents(p)",
   "prismComponents(p, eye)",
   "sphericalEquivalent(rxs)",

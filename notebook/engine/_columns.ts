@@ -4,7 +4,8 @@
  * row through the formula language. Both paths give the same column.
  *
  * The compiler accepts a safe subset of the language: numbers, columns and scalar cells,
- * `+ - * / ^` and unary minus, parentheses, quantity literals (`0.25 D`), a whitelist of
+ * `+ - * / ^` and unary minus, comparisons and `c ? a : b` (both branches of one unit),
+ * parentheses, quantity literals (`0.25 D`), a whitelist of
  * functions (sin cos tan atan2 sqrt abs exp log log10 min max pow round floor ceil, plus
  * catalogue formulas whose parameters and result are all numbers or quantities) and the
  * constants pi, e and tau. Units are tracked statically: a quantity is held as the language
@@ -132,6 +133,16 @@ const LANGUAGE_FUNCTIONS: Readonly<Record<string, readonly [number, number]>> = 
 
 const ANGLE_PROBE = "rad";
 
+/** The comparison operators, as the language names their functions. */
+const COMPARISONS: ReadonlySet<string> = new Set([
+  "larger",
+  "smaller",
+  "largerEq",
+  "smallerEq",
+  "equal",
+  "unequal",
+]);
+
 /** Scale (SI value of 1 unit) and dimension key of a simple unit, or undefined. */
 function unitInfo(lang: Language, name: string): { scale: number; base: string } | undefined {
   if (!lang.isUnit(name)) return undefined;
@@ -222,6 +233,12 @@ function generate(
         return symbol(any.name as string);
       case "OperatorNode":
         return operator(any.fn as string, any.args as MathNode[]);
+      case "ConditionalNode":
+        return conditional(
+          any.condition as MathNode,
+          any.trueExpr as MathNode,
+          any.falseExpr as MathNode,
+        );
       case "FunctionNode": {
         const f = any.fn as MathNode;
         need(f.type === "SymbolNode", "a call of something that is not a name");
@@ -292,6 +309,7 @@ function generate(
       return op === "unaryMinus" ? { code: `(-${a.code})`, ty: a.ty } : { code: a.code, ty: a.ty };
     }
     need(args.length === 2, `operator ${op}`);
+    if (COMPARISONS.has(op)) return comparison(op, args);
     const [l, r] = args.map((a) => scalar(visit(a)));
     switch (op) {
       case "add":
@@ -340,6 +358,46 @@ function generate(
       default:
         throw new Unsupported(`operator ${op} is outside the compiled subset`);
     }
+  };
+
+  /**
+   * `< <= > >= == !=` on numbers, or on quantities of one kind (the language compares
+   * quantities by their SI values, with its own tolerance: the same function is called).
+   */
+  const comparison = (op: string, args: MathNode[]): Gen => {
+    const [l, r] = args.map((a) => scalar(value(visit(a))));
+    need(
+      (l.ty.kind === "num" && r.ty.kind === "num") ||
+        (l.ty.kind === "qty" && r.ty.kind === "qty" && l.ty.base === r.ty.base),
+      "comparing a number with a quantity, or quantities of different kinds",
+    );
+    const f = langFn(op);
+    const compare = (a: number, b: number) => {
+      const out = f(a, b);
+      if (typeof out !== "boolean") {
+        throw new Unsupported(`${op} gave a value that is not true or false`);
+      }
+      return out;
+    };
+    return { code: `${fn(compare)}(${l.code},${r.code})`, ty: { kind: "val", type: "boolean" } };
+  };
+
+  /** `c ? a : b` on a comparison, both branches of one type (one unit for quantities). */
+  const conditional = (c: MathNode, a: MathNode, b: MathNode): Gen => {
+    const test = value(visit(c));
+    need(
+      test.ty.kind === "val" && test.ty.type === "boolean",
+      "a condition that is not a comparison",
+    );
+    const yes = value(visit(a));
+    const no = value(visit(b));
+    const same = yes.ty.kind === no.ty.kind && (
+      yes.ty.kind === "num" ||
+      (yes.ty.kind === "qty" && no.ty.kind === "qty" && yes.ty.unit === no.ty.unit) ||
+      (yes.ty.kind === "val" && no.ty.kind === "val" && yes.ty.type === no.ty.type)
+    );
+    need(same, "branches of different kinds or units");
+    return { code: `(${test.code}?${yes.code}:${no.code})`, ty: yes.ty };
   };
 
   const call = (name: string, args: MathNode[]): Gen => {
