@@ -122,15 +122,27 @@ function wordOffset(expression: string, word: string): number {
  * ```
  */
 export function analyse(expression: string, ctx: AnalysisContext): Analysis {
-  const deps = new Set<string>();
-  const formulas = new Set<string>();
-  const constants = new Set<string>();
-  const refuse = (message: string, offset = 0): Analysis => ({
-    deps,
-    formulas,
-    constants,
-    problem: { message, offset, kind: "syntax" },
-  });
+  const read = readFormula(expression, ctx);
+  if ("message" in read) {
+    return {
+      deps: new Set(),
+      formulas: new Set(),
+      constants: new Set(),
+      problem: { message: read.message, offset: read.offset, kind: "syntax" },
+    };
+  }
+  const names = new NameCollector(expression, ctx);
+  read.node.traverse((n, path, parent) => names.visit(n, path, parent));
+  const { deps, formulas, constants, problem } = names;
+  return { node: read.node, deps, formulas, constants, problem };
+}
+
+/** The formula's tree, or why it cannot be read (too long, unreadable, too deep). */
+function readFormula(
+  expression: string,
+  ctx: AnalysisContext,
+): { node: MathNode } | { message: string; offset: number } {
+  const refuse = (message: string, offset = 0) => ({ message, offset });
   if (expression.length > MAX_FORMULA_LENGTH) {
     return refuse(
       `the formula is ${
@@ -152,31 +164,122 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
   // a tree deeper than this is refused here, at its cell, before any of them can overflow.
   const depth = treeDepth(node, MAX_FORMULA_DEPTH);
   if (depth > MAX_FORMULA_DEPTH) return refuse(tooDeep(MAX_FORMULA_DEPTH));
-  let problem: AnalysisProblem | undefined;
-  const fail = (message: string, word: string, kind: "syntax" | "name" = "name") => {
-    problem ??= { message, offset: wordOffset(expression, word), kind };
-  };
-  const catalogue = ctx.lang.catalogue;
-  const rowTable = ctx.rowTable ? ctx.tables.get(ctx.rowTable) : undefined;
+  return { node };
+}
 
-  const useTable = (t: string) => {
-    deps.add(t);
-    for (const c of ctx.tables.get(t)!.computed) deps.add(`${t}.${c}`);
-  };
+/** Walks a formula's tree: the names it reads, the formulas it calls, its first problem. */
+class NameCollector {
+  readonly deps: Set<string> = new Set();
+  readonly formulas: Set<string> = new Set();
+  readonly constants: Set<string> = new Set();
+  problem: AnalysisProblem | undefined;
+  readonly #rowTable: TableShape | undefined;
 
-  const useName = (name: string) => {
+  constructor(readonly expression: string, readonly ctx: AnalysisContext) {
+    this.#rowTable = ctx.rowTable ? ctx.tables.get(ctx.rowTable) : undefined;
+  }
+
+  fail(message: string, word: string, kind: "syntax" | "name" = "name"): void {
+    this.problem ??= { message, offset: wordOffset(this.expression, word), kind };
+  }
+
+  visit(n: MathNode, path: string, parent: MathNode | null): void {
+    switch (n.type) {
+      case "BlockNode":
+        this.problem ??= {
+          message:
+            "one formula a cell: `;` separates formulas; write each as its own cell `name = expression`",
+          offset: Math.max(0, this.expression.search(/[;\n]/)),
+          kind: "syntax",
+        };
+        return;
+      case "AssignmentNode":
+      case "FunctionAssignmentNode":
+        this.fail(
+          "an assignment cannot appear inside a formula; write it as its own cell `name = expression`",
+          "=",
+          "syntax",
+        );
+        return;
+      case "FunctionNode":
+        return this.call(n);
+      case "AccessorNode":
+        return this.accessor(n);
+      case "SymbolNode": {
+        const name = (n as unknown as { name: string }).name;
+        if (parent?.type === "FunctionNode" && path === "fn") return;
+        if (
+          parent?.type === "AccessorNode" && path === "object" && this.ctx.tables.has(name) &&
+          (parent as unknown as { index: { isObjectProperty(): boolean } }).index.isObjectProperty()
+        ) return;
+        this.useName(name);
+        return;
+      }
+    }
+  }
+
+  /** A call: one of Lentil's formulas, an allowed function, or a problem. */
+  call(n: MathNode): void {
+    const fnNode = (n as unknown as { fn: MathNode }).fn;
+    if (fnNode.type !== "SymbolNode") return;
+    const name = (fnNode as unknown as { name: string }).name;
+    if (DISABLED_FUNCTIONS.includes(name)) {
+      this.fail(`function ${name} is not available in Lentil formulas`, name);
+    } else if (this.ctx.lang.catalogue.formulas.has(name)) this.formulas.add(name);
+    else if (!this.ctx.lang.isFunction(name)) {
+      this.fail(
+        `unknown function "${name}": a formula calls Lentil's formulas (lentil formulas) ` +
+          `and the arithmetic, rounding, comparison, trigonometry, unit, summary and ` +
+          `small-matrix functions listed in the README`,
+        name,
+      );
+    }
+  }
+
+  /** `table.column`: the column's dependency, or a problem naming the columns there are. */
+  accessor(n: MathNode): void {
+    const obj = (n as unknown as { object: MathNode }).object;
+    const index =
+      (n as unknown as { index: { dimensions: MathNode[]; isObjectProperty(): boolean } })
+        .index;
+    if (obj.type !== "SymbolNode" || !index.isObjectProperty()) return;
+    const t = (obj as unknown as { name: string }).name;
+    const shape = this.ctx.tables.get(t);
+    if (!shape) return;
+    const prop = (index.dimensions[0] as unknown as { value: string }).value;
+    if (shape.computed.has(prop)) this.deps.add(`${t}.${prop}`);
+    else if (shape.data.has(prop) || shape.open) this.deps.add(t);
+    else {
+      this.fail(
+        `table ${t} has no column "${prop}" (columns: ${
+          [...shape.data, ...shape.computed].join(", ") || "none"
+        })`,
+        `${t}.${prop}`,
+      );
+    }
+  }
+
+  useTable(t: string): void {
+    this.deps.add(t);
+    for (const c of this.ctx.tables.get(t)!.computed) this.deps.add(`${t}.${c}`);
+  }
+
+  /** A bare name: a column of the row's table, a table, a cell, a constant, a unit, or none. */
+  useName(name: string): void {
+    const { ctx, deps } = this;
+    const rowTable = this.#rowTable;
     if (rowTable && ctx.rowTable) {
       if (rowTable.computed.has(name)) return void deps.add(`${ctx.rowTable}.${name}`);
       if (rowTable.data.has(name)) return void deps.add(ctx.rowTable);
     }
-    if (ctx.tables.has(name)) return useTable(name);
+    if (ctx.tables.has(name)) return this.useTable(name);
     if (ctx.cells.has(name)) return void deps.add(name);
-    if (catalogue.constants.has(name)) return void constants.add(name);
+    if (ctx.lang.catalogue.constants.has(name)) return void this.constants.add(name);
     if (ctx.lang.isBuiltinSymbol(name)) return;
     if (ctx.lang.isUnit(name)) {
       if (USABLE_UNITS.has(name)) return;
       if (rowTable?.open) return void deps.add(ctx.rowTable!);
-      return fail(
+      return this.fail(
         `"${name}" is not a unit Lentil uses (units: ${LENTIL_UNITS.join(", ")}, ft, inch); ` +
           "if it is a name, define it as a cell",
         name,
@@ -184,86 +287,12 @@ export function analyse(expression: string, ctx: AnalysisContext): Analysis {
     }
     if (rowTable?.open) return void deps.add(ctx.rowTable!);
     if (PLAIN_NUMBER_WORDS.has(name)) {
-      return fail(
+      return this.fail(
         `"${name}" is not a unit: ${name} values are plain numbers in formulas ` +
           `(write 0.02, not 0.02 ${name}; text such as "0.3 ${name}" is read by acuity)`,
         name,
       );
     }
-    fail(`unknown name or unit "${name}"`, name);
-  };
-
-  node.traverse((n, path, parent) => {
-    switch (n.type) {
-      case "BlockNode":
-        problem ??= {
-          message:
-            "one formula a cell: `;` separates formulas; write each as its own cell `name = expression`",
-          offset: Math.max(0, expression.search(/[;\n]/)),
-          kind: "syntax",
-        };
-        return;
-      case "AssignmentNode":
-      case "FunctionAssignmentNode":
-        fail(
-          "an assignment cannot appear inside a formula; write it as its own cell `name = expression`",
-          "=",
-          "syntax",
-        );
-        return;
-      case "FunctionNode": {
-        const fnNode = (n as unknown as { fn: MathNode }).fn;
-        if (fnNode.type === "SymbolNode") {
-          const name = (fnNode as unknown as { name: string }).name;
-          if (DISABLED_FUNCTIONS.includes(name)) {
-            fail(`function ${name} is not available in Lentil formulas`, name);
-          } else if (catalogue.formulas.has(name)) formulas.add(name);
-          else if (!ctx.lang.isFunction(name)) {
-            fail(
-              `unknown function "${name}": a formula calls Lentil's formulas (lentil formulas) ` +
-                `and the arithmetic, rounding, comparison, trigonometry, unit, summary and ` +
-                `small-matrix functions listed in the README`,
-              name,
-            );
-          }
-        }
-        return;
-      }
-      case "AccessorNode": {
-        const obj = (n as unknown as { object: MathNode }).object;
-        const index =
-          (n as unknown as { index: { dimensions: MathNode[]; isObjectProperty(): boolean } })
-            .index;
-        if (obj.type === "SymbolNode" && index.isObjectProperty()) {
-          const t = (obj as unknown as { name: string }).name;
-          const shape = ctx.tables.get(t);
-          if (shape) {
-            const prop = (index.dimensions[0] as unknown as { value: string }).value;
-            if (shape.computed.has(prop)) deps.add(`${t}.${prop}`);
-            else if (shape.data.has(prop) || shape.open) deps.add(t);
-            else {
-              fail(
-                `table ${t} has no column "${prop}" (columns: ${
-                  [...shape.data, ...shape.computed].join(", ") || "none"
-                })`,
-                `${t}.${prop}`,
-              );
-            }
-          }
-        }
-        return;
-      }
-      case "SymbolNode": {
-        const name = (n as unknown as { name: string }).name;
-        if (parent?.type === "FunctionNode" && path === "fn") return;
-        if (
-          parent?.type === "AccessorNode" && path === "object" && ctx.tables.has(name) &&
-          (parent as unknown as { index: { isObjectProperty(): boolean } }).index.isObjectProperty()
-        ) return;
-        useName(name);
-        return;
-      }
-    }
-  });
-  return { node, deps, formulas, constants, problem };
+    this.fail(`unknown name or unit "${name}"`, name);
+  }
 }
