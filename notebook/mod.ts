@@ -49,6 +49,7 @@ export { Notebook } from "./engine/engine.ts";
 export type { CellError, CellResult, ErrorKind, NotebookOptions } from "./engine/engine.ts";
 export { loadNotebook, NotebookFileError, notebookFromBytes } from "./load.ts";
 export type { LoadOptions, LoadResult } from "./load.ts";
+export type { ProgressEvent, ProgressListener } from "./progress.ts";
 export { buildReport } from "./report.ts";
 export type { Report, ReportCell, ReportOptions, ReportSource } from "./report.ts";
 export type { PartView, TableShown } from "../cells/present.ts";
