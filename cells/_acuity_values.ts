@@ -58,7 +58,29 @@ export const ACUITY_TYPE = defineValueType<AcuityValue>({
   // A category shows as written ("CF") unless it was asked for in another notation.
   display: (a) => formatAcuity(a, a.category && a.notation !== "logMAR" ? a.notation : undefined),
   json: (a) => ({ ...a, decimal: 10 ** -a.logMAR, mar: 10 ** a.logMAR }),
+  sources: acuitySources,
 });
+
+/** The notation sources: Snellen fractions, decimal, MAR and logMAR. */
+export const NOTATION_SOURCES: readonly string[] = ["ico-1984", "iso-8596"];
+
+/**
+ * The sources an acuity's reading rests on: a category its substitution's source; a near
+ * acuity the M-unit conversion (and the N-to-M rule for N notation); letters the letter
+ * score; every other notation the notation sources.
+ */
+function acuitySources(a: AcuityValue): readonly string[] {
+  if (a.category) return a.substitution ? [a.substitution] : ["low-vision-conventions"];
+  const out: string[] = [];
+  if (a.nearDistance !== undefined) {
+    out.push("sloan-habel-1956");
+    if (a.notation !== "nearM") out.push("law-1951");
+    if (a.notation === "nearN" || a.notation === "nearM") return out;
+  }
+  if (a.notation === "letters") out.push("ferris-1982");
+  else out.push(...NOTATION_SOURCES);
+  return out;
+}
 
 /** Wrap an acuity record as a language value, optionally in another notation. */
 export function acuityValue(a: Acuity, notation?: string): AcuityValue {

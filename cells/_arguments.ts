@@ -8,6 +8,7 @@
  */
 
 import type { FormulaSpec, OptionSpec, ParamSpec } from "./catalogue.ts";
+import { noteCitations } from "./_citations.ts";
 import { Column, isTable } from "./table.ts";
 import { DEFAULT_DISPLAY, getValueType, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
@@ -347,6 +348,7 @@ export function bindFormula(
       wrappedErr.name = err.name;
       throw wrappedErr;
     }
+    if (spec.cites) noteCitations(spec, out);
     return wrap(out);
   };
   Object.defineProperty(wrapped, "name", { value: spec.name });

@@ -13,9 +13,15 @@
 
 import { defineFormula, type FormulaSpec, type ParamSpec } from "./catalogue.ts";
 import { Column, makeTable, type TableValue } from "./table.ts";
-import { defineValueType } from "./types.ts";
+import { defineValueType, sourcesOfValue } from "./types.ts";
 import { formatMeasure } from "./display.ts";
-import { AcuityValue, acuityValue, findColumn, rowCount } from "./_acuity_values.ts";
+import {
+  AcuityValue,
+  acuityValue,
+  findColumn,
+  NOTATION_SOURCES,
+  rowCount,
+} from "./_acuity_values.ts";
 import {
   type Acuity,
   acuityFromDecimal,
@@ -59,7 +65,6 @@ const DISTANCE: ParamSpec = {
   range: [0.1, 100],
   doc: "test distance",
 };
-const NOTATION_SOURCES = ["ico-1984", "iso-8596"];
 
 /** A chart reading as a value: shows the line and letter-by-letter results. */
 export class ChartScoreValue {
@@ -198,6 +203,7 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
       "sloan-habel-1956",
       "law-1951",
     ],
+    cites: sourcesOfValue,
     example: 'acuity("20/40")',
     fn: (value, notation) => readAcuityArg(value, notation as string | undefined),
   }),

@@ -108,8 +108,16 @@ export interface FormulaSpec {
   readonly options?: readonly OptionSpec[];
   /** Declared result. */
   readonly returns: ReturnSpec;
-  /** Ids in the sources registry. */
+  /** Ids in the sources registry: every source the formula may cite (the reference lists all). */
   readonly sources: readonly string[];
+  /**
+   * The sources one call actually used, from the value it gave (an acuity read as CF cites
+   * the CF substitution's source; one read as 6/9 only the notation sources); each must be
+   * one of `sources`. A cell cites what its calls narrowed to; a computed column, evaluated
+   * per row, cites the whole list. When omitted (or it gives `undefined`), a call cites all
+   * of `sources`. `sourcesOfValue` (`cells/types.ts`) narrows by the result's value type.
+   */
+  readonly cites?: (result: unknown) => readonly string[] | undefined;
   /** True when the result could be used to make or fit a lens. */
   readonly caution?: boolean;
   /** A notebook expression that calls the formula; the docs test runs it. */

@@ -29,6 +29,7 @@ import { formulaMath, markExact, quantity, quantityParts, toNumberIn } from "./q
 export { LENTIL_UNITS } from "./quantity.ts";
 export { FormulaArgumentError, measureOfUnit, shownValue } from "./_arguments.ts";
 export { partNames } from "./_parts.ts";
+export { citing } from "./_citations.ts";
 
 /** An expression that does not parse; `offset` is zero-based within the expression. */
 export class ExpressionSyntaxError extends SyntaxError {

@@ -96,6 +96,12 @@ export interface ValueType<T = unknown> {
   parts?(x: T, options: DisplayOptions): readonly ValuePart[];
   /** For a check: its lines, read as a table with the verdict of each. */
   checks?(x: T, options: DisplayOptions): readonly CheckLine[];
+  /**
+   * The sources this value's reading rests on (an acuity read as CF: its substitution's
+   * source; read as 6/9: the notation sources). A formula that gives such values narrows
+   * its citations to these with `cites: sourcesOfValue`.
+   */
+  sources?(x: T): readonly string[];
 }
 
 const registry = new Map<string, ValueType>();
@@ -159,4 +165,19 @@ export function typeOfValue(x: unknown): ValueType | undefined {
  */
 export function listValueTypes(): ValueType[] {
   return [...registry.values()];
+}
+
+/**
+ * The sources a value's reading rests on, as its value type declares them; `undefined` when
+ * it is not of a type that declares them (a formula's `cites` then cites its whole list).
+ *
+ * @example
+ * ```ts
+ * import { sourcesOfValue } from "./types.ts";
+ * sourcesOfValue(3); // undefined
+ * ```
+ */
+export function sourcesOfValue(x: unknown): readonly string[] | undefined {
+  const t = typeOfValue(x);
+  return t?.sources?.(x);
 }

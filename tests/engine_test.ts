@@ -172,6 +172,34 @@ Deno.test("sources are listed transitively, in registry order", () => {
   assert.equal(nb.result("eye")!.caution, false);
 });
 
+Deno.test("a result cites the sources its values were read by, not every source a formula may cite", () => {
+  const nb = Notebook.fromText(
+    calc(
+      'snellen = toLogMAR(acuity("6/9"))\ncf = acuity("CF")\ncfLog = toLogMAR(cf)\n' +
+        'near = acuity("N8 at 40 cm")\nsloan = acuity("1.0 M at 40 cm")\n' +
+        'score = acuity("85 letters")\nlp = acuity("LP")',
+    ) +
+      "\n```lentil table va\nread [acuity]\n6/9\nCF\n```\n```lentil\nva.lm = toLogMAR(read)\n```\n",
+    "c.lentil.md",
+  );
+  const src = (id: string) => nb.result(id)!.sources;
+  // A Snellen fraction rests on the notation sources only (ico-1984, iso-8596).
+  assert.deepEqual(src("snellen"), ["ico-1984", "iso-8596"]);
+  // CF takes the Freiburg substitution by default (schulze-bonsel-2006, lib/acuity.ts).
+  assert.deepEqual(src("cf"), ["schulze-bonsel-2006"]);
+  assert.deepEqual(src("cfLog"), ["ico-1984", "iso-8596", "schulze-bonsel-2006"]);
+  // N notation: N to M (law-1951) and M to logMAR (sloan-habel-1956); M units only the latter.
+  assert.deepEqual([...src("near")].sort(), ["law-1951", "sloan-habel-1956"]);
+  assert.deepEqual(src("sloan"), ["sloan-habel-1956"]);
+  assert.deepEqual(src("score"), ["ferris-1982"]);
+  assert.deepEqual(src("lp"), ["low-vision-conventions"]);
+  // The formula reference still lists every source acuity() may cite.
+  const all = getLanguage().catalogue.formulas.get("acuity")!.sources;
+  for (const id of ["schulze-bonsel-2006", "lange-2009", "law-1951"]) assert.ok(all.includes(id));
+  // A computed column is not narrowed row by row: it cites the formulas' declared lists.
+  assert.ok(src("va.lm").includes("ico-1984"));
+});
+
 Deno.test("vertex check values from the field notes (vertex-formula)", () => {
   // Field notes, vertex row: −10.00 D at 12 mm → −8.93 D at the cornea; +10.00 D → +11.36 D.
   const nb = Notebook.fromText(

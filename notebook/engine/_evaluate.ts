@@ -8,7 +8,7 @@
  */
 
 import type { MathNode } from "mathjs";
-import { plainMathMessage, shownValue } from "../../cells/language.ts";
+import { citing, plainMathMessage, shownValue } from "../../cells/language.ts";
 import {
   addColumn,
   type Column,
@@ -28,8 +28,11 @@ const CYCLE_IN_FULL = 12;
 /** Where a node's errors point: its expression, or its table's name. */
 type Where = { readonly line: number; readonly col: number };
 
-/** What evaluation gives: a value, or an error. */
-type Outcome = Omit<NodeState, "sources" | "caution">;
+/**
+ * What evaluation gives: a value, or an error; for a cell evaluated here, the sources its
+ * narrowing formulas cited.
+ */
+type Outcome = Omit<NodeState, "sources" | "caution"> & { cited?: ReadonlySet<string> };
 
 /** Evaluate one node and store its state (and its name's value in the scope). */
 export function evaluateNode(s: EngineState, id: string): void {
@@ -47,7 +50,8 @@ export function evaluateNode(s: EngineState, id: string): void {
       caution ||= st.caution;
     }
   }
-  const outcome = blocked(s, n, id, where) ?? compute(s, n, id, where);
+  const { cited, ...outcome } = blocked(s, n, id, where) ?? compute(s, n, id, where);
+  if (n.narrowingSources) sources = sources.concat(cited ? [...cited] : n.narrowingSources);
   const state = { ...outcome, sources: sortSources(sources), caution };
   s.state.set(id, state);
   if (n.kind !== "column" && ownsName(n)) {
@@ -124,7 +128,9 @@ function compute(s: EngineState, n: NodeDef, id: string, where: Where): Outcome 
       addColumn(table, column);
       return { value: column };
     }
-    return cellValue(s, n, n.compiled!.evaluate(s.scope), where);
+    if (!n.narrowingSources) return cellValue(s, n, n.compiled!.evaluate(s.scope), where);
+    const { value, cited } = citing(() => n.compiled!.evaluate(s.scope));
+    return { ...cellValue(s, n, value, where), cited };
   } catch (e) {
     return { error: explainError(s, e as Error, n, where) };
   }

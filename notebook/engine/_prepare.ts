@@ -69,14 +69,18 @@ export function analyseNode(
       };
     }
   }
+  // A formula that narrows its citations from its value (`cites`) is cited at evaluation;
+  // its whole list stands when the node is not evaluated in a cell (a computed column).
   const srcs: string[] = [];
+  const narrowing: string[] = [];
   let caution = false;
   for (const f of a.formulas) {
     const spec = s.lang.catalogue.formulas.get(f)!;
-    srcs.push(...spec.sources);
+    (spec.cites ? narrowing : srcs).push(...spec.sources);
     caution ||= !!spec.caution;
   }
   for (const c of a.constants) srcs.push(s.lang.catalogue.constants.get(c)!.source);
   n.ownSources = sortSources(srcs);
+  n.narrowingSources = narrowing.length ? sortSources(narrowing) : undefined;
   n.ownCaution = caution;
 }

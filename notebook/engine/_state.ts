@@ -27,7 +27,13 @@ export interface NodeDef {
   readonly block?: TableBlock;
   analysis?: Analysis;
   compiled?: { evaluate(scope: unknown): unknown };
+  /** Sources of the formulas and constants it calls, known before evaluation. */
   ownSources: readonly string[];
+  /**
+   * Every source of the formulas it calls that narrow their citations from their values
+   * (`cites`): a cell cites what its calls narrowed to, anything else cites these.
+   */
+  narrowingSources?: readonly string[];
   ownCaution: boolean;
   /** Error in the definition itself (duplicate, reserved name, table data). */
   defError?: CellError;
