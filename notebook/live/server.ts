@@ -176,6 +176,124 @@ async function readJson<T>(req: Request, schema: z.ZodType<T>): Promise<T> {
   return parsed.data;
 }
 
+/** A queue: each function given runs once the one before it has settled. */
+function oneAtATime(): <T>(fn: () => Promise<T>) => Promise<T> {
+  let queue: Promise<unknown> = Promise.resolve();
+  return <T>(fn: () => Promise<T>): Promise<T> => {
+    const run = queue.then(fn, fn);
+    queue = run.catch(() => {});
+    return run;
+  };
+}
+
+/** What the routes serve from: the session, the page's script files, ending from the page. */
+interface Served {
+  readonly session: LiveSession;
+  readonly client: ReadonlyMap<string, string>;
+  /** Marks the session as ended from the page. */
+  endFromPage(): void;
+  /** Stops the server shortly (after the reply has gone). */
+  stopSoon(): void;
+}
+
+/** The response to one checked request: reading routes, then editing routes. */
+function route(served: Served, req: Request, path: string): Promise<Response> {
+  const key = `${req.method} ${path}`;
+  return req.method === "GET" ? readRoute(served, req, key) : editRoute(served, req, key);
+}
+
+/** The page, its style and script, and what it reads: state, disk changes, table files. */
+async function readRoute(served: Served, req: Request, key: string): Promise<Response> {
+  const { session, client } = served;
+  switch (key) {
+    case "GET /":
+      return respond(pageHtml(session.view.title), "text/html; charset=utf-8");
+    case "GET /style.css":
+      return respond(STYLE_CSS, "text/css; charset=utf-8");
+    case "GET /api/state":
+      return json({ view: session.view, status: session.status() });
+    case "GET /api/disk":
+      return json({ changed: await session.changedFiles() });
+    case "GET /api/source": {
+      const file = new URL(req.url).searchParams.get("file") ?? "";
+      return respond(session.tableFile(file), "text/plain; charset=utf-8");
+    }
+    default: {
+      const m = /^GET \/client\/([a-z]+\.js)$/.exec(key);
+      const file = m ? client.get(m[1]) : undefined;
+      if (file !== undefined) return respond(file, "text/javascript; charset=utf-8");
+      return json({ error: "not found" }, 404);
+    }
+  }
+}
+
+/** Edits, undo and redo, saving, reloading, keeping both versions, ending the session. */
+async function editRoute(served: Served, req: Request, key: string): Promise<Response> {
+  const { session } = served;
+  const edit = async (op: () => EditResult) => json(await session.guarded(op));
+  switch (key) {
+    case "POST /api/cell": {
+      const b = await readJson(req, CellEdit);
+      return edit(() => session.setExpression(b.id, b.expression));
+    }
+    case "POST /api/cell/new": {
+      const b = await readJson(req, NewCell);
+      return edit(() => session.addCell(b.block, b.line));
+    }
+    case "POST /api/cell/delete": {
+      const b = await readJson(req, DeleteCell);
+      return edit(() => session.deleteCell(b.id));
+    }
+    case "POST /api/table": {
+      const b = await readJson(req, Rows);
+      return edit(() => session.setRows(b.name, b.rows));
+    }
+    case "POST /api/undo":
+      await readJson(req, Empty);
+      return edit(() => session.undo());
+    case "POST /api/redo":
+      await readJson(req, Empty);
+      return edit(() => session.redo());
+    case "POST /api/save": {
+      await readJson(req, Empty);
+      const r = await session.save();
+      if (!r.ok && "error" in r) return json(r, r.reason === "disk-full" ? 507 : 503);
+      return json(r, r.ok ? 200 : 409);
+    }
+    case "POST /api/reload":
+      await readJson(req, Empty);
+      return json(await session.reload());
+    case "POST /api/keep-both": {
+      const b = await readJson(req, KeepBoth);
+      return json(await session.keepBoth(b.name));
+    }
+    case "POST /api/end": {
+      await readJson(req, Empty);
+      served.endFromPage();
+      const unsaved = session.status().dirty;
+      served.stopSoon();
+      return json({ ok: true, unsaved });
+    }
+    default:
+      return json({ error: "not found" }, 404);
+  }
+}
+
+/** A request that failed: the status its error deserves, and one line in the terminal. */
+function failure(req: Request, e: unknown): Response {
+  if (e instanceof TooLarge) return json({ error: e.message }, 413);
+  if (e instanceof BadRequest || e instanceof EditRefused) {
+    return json({ error: e.message }, 400);
+  }
+  if (e instanceof UnsafePathError) return json({ error: e.message }, 403);
+  if (e instanceof SaveError) {
+    return json({ error: `${e.message}; your edits are kept in the page` }, 503);
+  }
+  // One line in the terminal, never a trace: the page keeps its state.
+  console.error(`lentil live: ${key(req)} failed: ${oneLine(e)}`);
+  return json({ error: "internal error (see the terminal)" }, 500);
+}
+
 /**
  * Open `path` and serve its live page on 127.0.0.1.
  *
@@ -203,87 +321,17 @@ export async function startLiveServer(
   let endedFromPage = false;
   let stop = () => {};
   let port = 0;
-  let queue: Promise<unknown> = Promise.resolve();
-  const serial = <T>(fn: () => Promise<T>): Promise<T> => {
-    const run = queue.then(fn, fn);
-    queue = run.catch(() => {});
-    return run;
-  };
+  const serial = oneAtATime();
   // Saving has its own queue: it writes the state the page shows, even while an edit's
   // cell is still being computed in the budget's worker.
-  let saving: Promise<unknown> = Promise.resolve();
-  const oneSave = <T>(fn: () => Promise<T>): Promise<T> => {
-    const run = saving.then(fn, fn);
-    saving = run.catch(() => {});
-    return run;
-  };
-  const edit = async (op: () => EditResult) => json(await session.guarded(op));
-
-  const route = async (req: Request, path: string): Promise<Response> => {
-    const url = new URL(req.url);
-    const key = `${req.method} ${path}`;
-    switch (key) {
-      case "GET /":
-        return respond(pageHtml(session.view.title), "text/html; charset=utf-8");
-      case "GET /style.css":
-        return respond(STYLE_CSS, "text/css; charset=utf-8");
-      case "GET /api/state":
-        return json({ view: session.view, status: session.status() });
-      case "GET /api/disk":
-        return json({ changed: await session.changedFiles() });
-      case "GET /api/source": {
-        const file = url.searchParams.get("file") ?? "";
-        return respond(session.tableFile(file), "text/plain; charset=utf-8");
-      }
-      case "POST /api/cell": {
-        const b = await readJson(req, CellEdit);
-        return edit(() => session.setExpression(b.id, b.expression));
-      }
-      case "POST /api/cell/new": {
-        const b = await readJson(req, NewCell);
-        return edit(() => session.addCell(b.block, b.line));
-      }
-      case "POST /api/cell/delete": {
-        const b = await readJson(req, DeleteCell);
-        return edit(() => session.deleteCell(b.id));
-      }
-      case "POST /api/table": {
-        const b = await readJson(req, Rows);
-        return edit(() => session.setRows(b.name, b.rows));
-      }
-      case "POST /api/undo":
-        await readJson(req, Empty);
-        return edit(() => session.undo());
-      case "POST /api/redo":
-        await readJson(req, Empty);
-        return edit(() => session.redo());
-      case "POST /api/save": {
-        await readJson(req, Empty);
-        const r = await session.save();
-        if (!r.ok && "error" in r) return json(r, r.reason === "disk-full" ? 507 : 503);
-        return json(r, r.ok ? 200 : 409);
-      }
-      case "POST /api/reload":
-        await readJson(req, Empty);
-        return json(await session.reload());
-      case "POST /api/keep-both": {
-        const b = await readJson(req, KeepBoth);
-        return json(await session.keepBoth(b.name));
-      }
-      case "POST /api/end": {
-        await readJson(req, Empty);
-        endedFromPage = true;
-        const unsaved = session.status().dirty;
-        setTimeout(stop, 20);
-        return json({ ok: true, unsaved });
-      }
-      default: {
-        const m = /^GET \/client\/([a-z]+\.js)$/.exec(key);
-        const file = m ? client.get(m[1]) : undefined;
-        if (file !== undefined) return respond(file, "text/javascript; charset=utf-8");
-        return json({ error: "not found" }, 404);
-      }
-    }
+  const oneSave = oneAtATime();
+  const served: Served = {
+    session,
+    client,
+    endFromPage: () => {
+      endedFromPage = true;
+    },
+    stopSoon: () => void setTimeout(stop, 20),
   };
 
   const handler = (req: Request): Promise<Response> | Response => {
@@ -305,19 +353,9 @@ export async function startLiveServer(
       : serial;
     return queue(async () => {
       try {
-        return await route(req, path);
+        return await route(served, req, path);
       } catch (e) {
-        if (e instanceof TooLarge) return json({ error: e.message }, 413);
-        if (e instanceof BadRequest || e instanceof EditRefused) {
-          return json({ error: e.message }, 400);
-        }
-        if (e instanceof UnsafePathError) return json({ error: e.message }, 403);
-        if (e instanceof SaveError) {
-          return json({ error: `${e.message}; your edits are kept in the page` }, 503);
-        }
-        // One line in the terminal, never a trace: the page keeps its state.
-        console.error(`lentil live: ${key(req)} failed: ${oneLine(e)}`);
-        return json({ error: "internal error (see the terminal)" }, 500);
+        return failure(req, e);
       }
     });
   };
