@@ -71,10 +71,19 @@ export function consoleIo(): CliIo {
   };
 }
 
-/** Write every byte: a pipe may take fewer than asked at once. */
+/**
+ * Write every byte: a pipe may take fewer than asked at once. When the reader has gone (a
+ * pipe into `head`), the rest of the output is dropped quietly and the program exits: nobody
+ * is left to read it, and a trace would only alarm.
+ */
 function writeAll(w: { writeSync(p: Uint8Array): number }, bytes: Uint8Array): void {
   let done = 0;
-  while (done < bytes.length) done += w.writeSync(bytes.subarray(done));
+  try {
+    while (done < bytes.length) done += w.writeSync(bytes.subarray(done));
+  } catch (e) {
+    if (e instanceof Deno.errors.BrokenPipe) Deno.exit(0);
+    throw e;
+  }
 }
 
 /** An I/O surface that keeps what was written, for tests. */
