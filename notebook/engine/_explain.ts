@@ -121,115 +121,157 @@ export function explainFailure(
   display: DisplayOptions,
   expression: string,
 ): Explanation | undefined {
-  const evaluate = (m: MathNode): { ok: true; value: unknown } | { ok: false } => {
+  const explainer = new Explainer(scope, lang, display, expression);
+  explainer.visit(node);
+  return explainer.found;
+}
+
+type Written = { readonly values: unknown[]; readonly kinds: Kind[]; readonly written: string[] };
+
+/**
+ * Evaluates a failing formula's parts, innermost first, until the first operation whose
+ * arguments evaluate and which fails itself; then says why, one method per kind of operation.
+ */
+class Explainer {
+  found: Explanation | undefined;
+  #done = false;
+
+  constructor(
+    readonly scope: ReadonlyMap<string, unknown>,
+    readonly lang: Language,
+    readonly display: DisplayOptions,
+    readonly expression: string,
+  ) {}
+
+  evaluate(m: MathNode): { ok: true; value: unknown } | { ok: false } {
     try {
-      return { ok: true, value: lang.compile(m).evaluate(scope) };
+      return { ok: true, value: this.lang.compile(m).evaluate(this.scope) };
     } catch {
       return { ok: false };
     }
-  };
-  const show = (x: unknown) => {
-    const k = kindOf(lang, x);
-    if (k === "quantity" || k === "number") return lang.describe(x, display).display;
+  }
+
+  show(x: unknown): string {
+    const k = kindOf(this.lang, x);
+    if (k === "quantity" || k === "number") return this.lang.describe(x, this.display).display;
     return shownValue(x);
-  };
-  let found: Explanation | undefined;
-  let done = false;
-  const visit = (m: MathNode) => {
-    if (done) return;
-    m.forEach((child) => visit(child));
-    if (done) return;
+  }
+
+  visit(m: MathNode): void {
+    if (this.#done) return;
+    m.forEach((child) => this.visit(child));
+    if (this.#done) return;
     if (m.type !== "OperatorNode" && m.type !== "FunctionNode") return;
     if (m.type === "FunctionNode") {
       const fnNode = (m as unknown as { fn: MathNode }).fn;
       if (fnNode.type !== "SymbolNode") return;
       const name = (fnNode as unknown as { name: string }).name;
-      if (lang.catalogue.formulas.has(name)) return; // formulas explain their own arguments
+      if (this.lang.catalogue.formulas.has(name)) return; // formulas explain their own arguments
     }
     const args = (m as unknown as { args: MathNode[] }).args;
     const values: unknown[] = [];
     for (const a of args) {
-      const r = evaluate(a);
+      const r = this.evaluate(a);
       if (!r.ok) return;
       values.push(r.value);
     }
-    if (evaluate(m).ok) return;
-    done = true;
-    found = explainOne(m, args, values);
-  };
+    if (this.evaluate(m).ok) return;
+    this.#done = true;
+    this.found = this.explainOne(m, args, values);
+  }
 
-  const explainOne = (
-    m: MathNode,
-    args: MathNode[],
-    values: unknown[],
-  ): Explanation | undefined => {
-    const kinds = values.map((v) => kindOf(lang, v));
-    const written = args.map((a) => a.toString());
+  explainOne(m: MathNode, args: MathNode[], values: unknown[]): Explanation | undefined {
+    const w: Written = {
+      values,
+      kinds: values.map((v) => kindOf(this.lang, v)),
+      written: args.map((a) => a.toString()),
+    };
     if (m.type === "FunctionNode") {
-      const name = (m as unknown as { fn: { name: string } }).fn.name;
-      const bad = values.findIndex((v, i) =>
-        !["number", "quantity", "list", "column"].includes(kinds[i]) ||
-        (v instanceof Column && !v.numeric)
-      );
-      // Arguments of the right kinds: the library's own reason is the better one.
-      if (bad < 0) return undefined;
-      const x = values[bad];
-      const rxColumn = x instanceof Column && x.type === "rx";
-      const hint = rxColumn && SUMMARY_FUNCTIONS.has(name)
-        ? `for prescriptions use meanRx(${written[bad] ?? "column"}) or vectorStats`
-        : hintFor(x, written[bad]);
-      return {
-        message: `${name} cannot take ${
-          rxColumn ? `a column of prescriptions (${(x as Column).name})` : show(x)
-        }: ${hint}`,
-        offset: offsetOf(expression, name),
-        unit: false,
-      };
+      return this.call((m as unknown as { fn: { name: string } }).fn.name, w);
     }
     const op = m as unknown as { fn: string; op: string };
-    if (op.fn === "to") {
-      const [a] = values;
-      if (kinds[0] !== "quantity") {
-        return {
-          message: `to gives a quantity in another unit, and ${show(a)} is not a quantity: ${
-            hintFor(a, written[0])
-          }`,
-          offset: operatorOffset(expression, "to", written[1]),
-          unit: false,
-        };
-      }
-      return {
-        message: `units do not match: ${show(a)} cannot be shown in ${written[1]}`,
-        offset: operatorOffset(expression, "to", written[1]),
-        unit: true,
-      };
-    }
-    if (COMPARISONS[op.fn]) {
-      const [a, b] = values;
-      return {
-        message: `cannot compare ${show(a)} with ${show(b)}: ${
-          kinds.every((k) => k === "quantity")
-            ? `${measureOf(lang, a)} and ${measureOf(lang, b)} are different kinds of measure`
-            : "compare numbers with numbers, or quantities of one kind"
-        }`,
-        offset: operatorOffset(expression, COMPARISONS[op.fn], written[1]),
-        unit: kinds.every((k) => k === "quantity"),
-      };
-    }
+    if (op.fn === "to") return this.conversion(w);
+    if (COMPARISONS[op.fn]) return this.comparison(op.fn, w);
     const verb = VERBS[op.fn];
     if (op.fn === "unaryMinus" || op.fn === "unaryPlus" || !verb) {
       const x = values[0];
       return {
-        message: `${op.op} cannot take ${show(x)}: ${hintFor(x, written[0])}`,
-        offset: offsetOf(expression, op.op),
+        message: `${op.op} cannot take ${this.show(x)}: ${hintFor(x, w.written[0])}`,
+        offset: offsetOf(this.expression, op.op),
         unit: false,
       };
     }
+    return this.arithmetic(op.fn, verb, w);
+  }
+
+  /** A function given an argument of a kind it does not take. */
+  call(name: string, { values, kinds, written }: Written): Explanation | undefined {
+    const bad = values.findIndex((v, i) =>
+      !["number", "quantity", "list", "column"].includes(kinds[i]) ||
+      (v instanceof Column && !v.numeric)
+    );
+    // Arguments of the right kinds: the library's own reason is the better one.
+    if (bad < 0) return undefined;
+    const x = values[bad];
+    const rxColumn = x instanceof Column && x.type === "rx";
+    const hint = rxColumn && SUMMARY_FUNCTIONS.has(name)
+      ? `for prescriptions use meanRx(${written[bad] ?? "column"}) or vectorStats`
+      : hintFor(x, written[bad]);
+    return {
+      message: `${name} cannot take ${
+        rxColumn ? `a column of prescriptions (${(x as Column).name})` : this.show(x)
+      }: ${hint}`,
+      offset: offsetOf(this.expression, name),
+      unit: false,
+    };
+  }
+
+  /** `to` of a value that is not a quantity, or into a unit of another measure. */
+  conversion({ values, kinds, written }: Written): Explanation {
+    const [a] = values;
+    if (kinds[0] !== "quantity") {
+      return {
+        message: `to gives a quantity in another unit, and ${this.show(a)} is not a quantity: ${
+          hintFor(a, written[0])
+        }`,
+        offset: operatorOffset(this.expression, "to", written[1]),
+        unit: false,
+      };
+    }
+    return {
+      message: `units do not match: ${this.show(a)} cannot be shown in ${written[1]}`,
+      offset: operatorOffset(this.expression, "to", written[1]),
+      unit: true,
+    };
+  }
+
+  /** A comparison of values of different kinds or measures. */
+  comparison(fn: string, { values, kinds, written }: Written): Explanation {
+    const lang = this.lang;
+    const [a, b] = values;
+    return {
+      message: `cannot compare ${this.show(a)} with ${this.show(b)}: ${
+        kinds.every((k) => k === "quantity")
+          ? `${measureOf(lang, a)} and ${measureOf(lang, b)} are different kinds of measure`
+          : "compare numbers with numbers, or quantities of one kind"
+      }`,
+      offset: operatorOffset(this.expression, COMPARISONS[fn], written[1]),
+      unit: kinds.every((k) => k === "quantity"),
+    };
+  }
+
+  /** `+ - * / ^ mod` of a value that is not a number, or of a number and a quantity. */
+  arithmetic(
+    fn: string,
+    [v, join, sign]: [string, string, string],
+    { values, kinds, written }: Written,
+  ): Explanation {
+    const lang = this.lang;
+    const show = (x: unknown) => this.show(x);
     // "add b to a", "subtract b from a", but "multiply a by b".
     const [x0, x1] = values;
-    const [a, b] = op.fn === "add" || op.fn === "subtract" ? [x0, x1] : [x1, x0];
-    const [v, join, sign] = verb;
-    const at = operatorOffset(expression, sign, written[1]);
+    const [a, b] = fn === "add" || fn === "subtract" ? [x0, x1] : [x1, x0];
+    const at = operatorOffset(this.expression, sign, written[1]);
     const other = kinds.findIndex((k) => k !== "number" && k !== "quantity");
     if (other >= 0) {
       return {
@@ -259,10 +301,7 @@ export function explainFailure(
       offset: at,
       unit: true,
     };
-  };
-
-  visit(node);
-  return found;
+  }
 }
 
 function measureOf(lang: Language, x: unknown): string {
