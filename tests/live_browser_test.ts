@@ -276,3 +276,45 @@ browserTest(
     });
   },
 );
+
+browserTest(
+  "live page: a long table is shown a hundred rows at a time, each page editable",
+  async (ctx) => {
+    const dir = await Deno.makeTempDir({ prefix: "lentil-page-long-" });
+    const rows = Array.from({ length: 250 }, (_, i) => `${i} | ${i % 7}`).join("\n");
+    const path = join(dir, "long.lentil.md");
+    await Deno.writeTextFile(
+      path,
+      "```lentil table t\nx | y\n" + rows +
+        "\n```\n\n```lentil\nt.z = x + y\nlast = max(t.z)\n```\n",
+    );
+    const server = await startLiveServer(path);
+    try {
+      const page = await ctx.newPage();
+      await open(page, server);
+      const pager = page.locator("#table-t .live-pager span");
+      assert.equal(await pager.innerText(), "rows 1–100 of 250");
+      assert.equal(await page.locator("#table-t tbody tr").count(), 100);
+      await page.locator("#table-t .live-later").click();
+      assert.equal(await pager.innerText(), "rows 101–200 of 250");
+      // Edit a row on the second page: its computed column and the cells below follow.
+      await gridCell(page, "t", 150, 1).fill("1000");
+      await gridCell(page, "t", 150, 1).press("Enter");
+      await page.waitForFunction(() =>
+        document.querySelector("#cell-last output")?.textContent?.startsWith("1150")
+      );
+      assert.equal(await pager.innerText(), "rows 101–200 of 250");
+      // Moving down past the page's last row shows the next page.
+      await gridCell(page, "t", 199, 0).click();
+      await page.keyboard.press("ArrowDown");
+      assert.equal(await pager.innerText(), "rows 201–250 of 250");
+      assert.equal(
+        await page.evaluate(() => document.activeElement?.getAttribute("data-r")),
+        "200",
+      );
+    } finally {
+      await server.shutdown();
+      await Deno.remove(dir, { recursive: true });
+    }
+  },
+);

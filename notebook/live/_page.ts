@@ -80,6 +80,7 @@ table.live-grid input { font: inherit; border: none; padding: .2rem .9rem; width
 table.live-grid input:focus { outline: 2px solid var(--accent); background: var(--paper); }
 table.live-grid tr.live-bad td { background: var(--bad-bg); }
 table.live-grid td.live-tools { border: none; }
+.live-pager { margin: .3rem 0; color: var(--muted); font-size: .88rem; }
 .live-locked { color: var(--warn); font-size: .88rem; }
 td.lx-value .live-below { max-width: min(40rem, 62vw); font-weight: 400; }
 td.lx-value .live-below:empty { display: none; }

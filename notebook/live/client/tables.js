@@ -2,8 +2,10 @@
 /// <reference lib="dom" />
 /**
  * Tables on the live page as editable grids: typing, moving with the arrow keys, pasting a
- * block of cells (tab- or comma-separated), adding, moving and removing rows. A patch updates
- * a grid in place when its shape is unchanged, touching only the cells whose text changed.
+ * block of cells (tab- or comma-separated), adding, moving and removing rows. A long table is
+ * shown a hundred rows at a time, with buttons for the rows before and after, so the page
+ * stays quick to lay out. A patch updates a grid in place when its shape is unchanged,
+ * touching only the cells whose text changed.
  *
  * @module
  */
@@ -21,6 +23,37 @@ import { api, errorText, live, queue } from "./state.js";
  */
 export function tableId(name) {
   return "table-" + name;
+}
+
+/** Rows shown at a time. */
+export const PAGE_ROWS = 100;
+
+/** @type {Map<string, number>} The first row shown, by table. */
+const firstShown = new Map();
+
+/**
+ * The rows of a table shown now: from `start` up to (not including) `end`.
+ *
+ * @param {TableView} t
+ */
+function shown(t) {
+  const n = t.rows.length;
+  let start = firstShown.get(t.name) ?? 0;
+  if (start >= n) start = Math.max(0, Math.floor((n - 1) / PAGE_ROWS) * PAGE_ROWS);
+  firstShown.set(t.name, start);
+  return { start, end: Math.min(n, start + PAGE_ROWS) };
+}
+
+/**
+ * Show the rows of a table from `start`, drawing its section again.
+ *
+ * @param {string} name
+ * @param {number} start
+ */
+function showFrom(name, start) {
+  firstShown.set(name, Math.max(0, start));
+  const old = document.getElementById(tableId(name));
+  if (old) old.replaceWith(renderTable(live.view.tables[name]));
 }
 
 /** @param {TableView} t */
@@ -52,8 +85,17 @@ function sendRows(name, rows, focus) {
  * @param {number} c
  */
 function focusCell(name, r, c) {
-  const sec = document.getElementById(tableId(name));
+  let sec = document.getElementById(tableId(name));
   if (!sec) return false;
+  const t = live.view.tables[name];
+  if (!t) return false;
+  const { start, end } = shown(t);
+  if (r >= 0 && r < t.rows.length && (r < start || r >= end)) {
+    // A row on another page of the grid: show its page first.
+    showFrom(name, Math.floor(r / PAGE_ROWS) * PAGE_ROWS);
+    sec = document.getElementById(tableId(name));
+    if (!sec) return false;
+  }
   /** @type {HTMLInputElement | null} */
   const cell = sec.querySelector('input[data-r="' + r + '"][data-c="' + c + '"]');
   if (!cell) return false;
@@ -138,7 +180,9 @@ export function renderTable(t) {
   thead.append(head);
   const body = el("tbody");
   const bad = badRows(t.problems);
-  t.rows.forEach((cells, r) => {
+  const { start, end } = shown(t);
+  t.rows.slice(start, end).forEach((cells, i) => {
+    const r = start + i;
     const tr = el("tr");
     if (bad[r]) {
       tr.className = "live-bad";
@@ -182,6 +226,23 @@ export function renderTable(t) {
     body.append(tr);
   });
   grid.append(thead, body);
+  if (t.rows.length > PAGE_ROWS) {
+    const pager = el("p", "live-pager");
+    const fmt = (/** @type {number} */ n) => n.toLocaleString("en");
+    pager.append(
+      el("span", "", "rows " + fmt(start + 1) + "–" + fmt(end) + " of " + fmt(t.rows.length)),
+    );
+    const earlier = button("Earlier rows", "show the rows before these", () => {
+      showFrom(t.name, start - PAGE_ROWS);
+    }, "live-earlier");
+    earlier.disabled = start === 0;
+    const later = button("Later rows", "show the rows after these", () => {
+      showFrom(t.name, start + PAGE_ROWS);
+    }, "live-later");
+    later.disabled = end >= t.rows.length;
+    pager.append(" ", earlier, " ", later);
+    sec.append(pager);
+  }
   const scroll = el("div", "lx-scroll");
   scroll.tabIndex = 0;
   scroll.setAttribute("role", "region");
@@ -232,12 +293,15 @@ function sameShape(a, b) {
 function updateTable(sec, t, rowsChanged, columns) {
   const bad = badRows(t.problems);
   const trs = sec.querySelectorAll("tbody tr");
+  const { start, end } = shown(t);
   const which = t.computed.map((c, k) => (!columns || columns.has(c.name) ? k : -1))
     .filter((k) => k >= 0);
   /** @type {HTMLElement[]} */
   const changed = [];
-  t.rows.forEach((cells, r) => {
-    const tr = /** @type {HTMLTableRowElement} */ (trs[r]);
+  t.rows.slice(start, end).forEach((cells, i) => {
+    const r = start + i;
+    const tr = /** @type {HTMLTableRowElement} */ (trs[i]);
+    if (!tr) return;
     const cls = bad[r] ? "live-bad" : "";
     if (tr.className !== cls) tr.className = cls;
     const title = bad[r] ? bad[r].join("\n") : "";
