@@ -18,11 +18,11 @@ browserTest(
     const dir = await Deno.makeTempDir({ prefix: "lentil-a11y-" });
     try {
       // The check itself finds what it should: an image without a text alternative.
-    const probe = await ctx.newPage();
-    await probe.setContent('<!doctype html><html lang="en"><title>t</title><img src="data:,">');
-    assert.ok((await axeFindings(probe)).some((f) => f.id === "image-alt"));
-    await probe.close();
-    for (const name of STARTERS) {
+      const probe = await ctx.newPage();
+      await probe.setContent('<!doctype html><html lang="en"><title>t</title><img src="data:,">');
+      assert.ok((await axeFindings(probe)).some((f) => f.id === "image-alt"));
+      await probe.close();
+      for (const name of STARTERS) {
         const r = await loadNotebook(join(SEEDS, `${name}.lentil.md`));
         if (!r.ok) throw new Error(r.diagnostic.message);
         const out = join(dir, `${name}.html`);
