@@ -39,7 +39,7 @@ import {
 export function formatPower(value: number, step?: number, unit = "D"): string {
   const u = unit ? ` ${unit}` : "";
   if (!Number.isFinite(value)) return `${value}${u}`;
-  if (step && step > 0) {
+  if (step && step > 0 && Number.isFinite(value / step)) {
     const shown = signed(Math.round(value / step) * step);
     const exact = signed(value);
     if (shown !== exact) return `${shown}${u} (exact ${exact})`;
@@ -62,6 +62,8 @@ export function signed(value: number): string {
   // small nudge absorbs binary representation (−1.375 × 100 is −137.49999…).
   const r = Math.round(Math.abs(value) * 100 + 1e-7) / 100;
   if (r === 0) return "0.00";
+  // Beyond what two decimals can hold (|value| near the largest double): powers of ten.
+  if (!Number.isFinite(r)) return (value > 0 ? "+" : "-") + Math.abs(value).toExponential(2);
   return (value > 0 ? "+" : "-") + r.toFixed(2);
 }
 

@@ -66,9 +66,28 @@ export interface Command {
 export function consoleIo(): CliIo {
   const enc = new TextEncoder();
   return {
-    out: (line) => writeAll(Deno.stdout, enc.encode(line + "\n")),
-    err: (line) => writeAll(Deno.stderr, enc.encode(line + "\n")),
+    out: (line) => writeAll(Deno.stdout, enc.encode(terminalSafe(line) + "\n")),
+    err: (line) => writeAll(Deno.stderr, enc.encode(terminalSafe(line) + "\n")),
   };
+}
+
+/**
+ * Text safe to print on a terminal: control characters (escape sequences, bells, carriage
+ * returns) and direction overrides from a notebook are shown as `\u001b`-style escapes,
+ * never acted on; line breaks and tabs stay.
+ *
+ * @example
+ * ```ts
+ * import { terminalSafe } from "./command.ts";
+ * terminalSafe("a\u001b[2Jb"); // "a\\u001b[2Jb"
+ * ```
+ */
+export function terminalSafe(text: string): string {
+  // deno-lint-ignore no-control-regex
+  return text.replace(
+    /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]/g,
+    (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`,
+  );
 }
 
 /**

@@ -136,6 +136,27 @@ function compute(s: EngineState, n: NodeDef, id: string, where: Where): Outcome 
   }
 }
 
+/**
+ * The first infinite entry of a list or matrix (plain or with a unit), or undefined: a list
+ * holding one is an error like a single infinite value (an empty entry, not a number, can
+ * be a list's gap and is left alone).
+ */
+function infiniteEntry(s: EngineState, value: unknown): number | undefined {
+  const v = value as { isMatrix?: boolean; toArray?: () => unknown[] } | null;
+  if (!Array.isArray(value) && !v?.isMatrix) return undefined;
+  const stack: unknown[] = [Array.isArray(value) ? value : v!.toArray!()];
+  while (stack.length) {
+    const x = stack.pop();
+    if (Array.isArray(x)) {
+      for (const y of x) stack.push(y);
+      continue;
+    }
+    const q = typeof x === "number" ? { value: x } : s.lang.quantityParts(x);
+    if (q && (q.value === Infinity || q.value === -Infinity)) return q.value;
+  }
+  return undefined;
+}
+
 /** A cell's value as evaluated: refused when not a real, finite number; a table renamed. */
 function cellValue(s: EngineState, n: NodeDef, value: unknown, where: Where): Outcome {
   const file = s.doc.file;
@@ -144,8 +165,9 @@ function cellValue(s: EngineState, n: NodeDef, value: unknown, where: Where): Ou
     const message = "the result is not a real number (the square root of a negative value?)";
     return { error: { kind: "evaluation", message, file, ...where } };
   }
-  if (q && !Number.isFinite(q.value)) {
-    const what = Number.isNaN(q.value) ? "not a number" : "infinite";
+  const bad = q ? (Number.isFinite(q.value) ? undefined : q.value) : infiniteEntry(s, value);
+  if (bad !== undefined) {
+    const what = Number.isNaN(bad) ? "not a number" : "infinite";
     const message = `the result is ${what} (a division by zero, or a value out of range?)`;
     return { error: { kind: "evaluation", message, file, ...where } };
   }
