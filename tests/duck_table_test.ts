@@ -275,3 +275,39 @@ Deno.test("progress: both paths report rows and the part of the file; --quiet an
     assert.doesNotMatch(io.stderr(), /reading eyes\.csv/, flag);
   }
 });
+
+Deno.test("stream writes Parquet when --out ends in .parquet; it reads back with its units and values", async () => {
+  const dir = await folder({
+    "eyes.csv": csv(2000),
+    "s.lentil.md": notebook("in-process", "", "eyes.csv", ["eyes.M = sph + cyl / 2"]),
+  });
+  const { streamNotebook } = await import("../notebook/table/stream.ts");
+  const r = await streamNotebook(join(dir, "s.lentil.md"), { out: join(dir, "out.parquet") });
+  assert.equal(r.ok, true, r.stopped);
+  await Deno.writeTextFile(
+    join(dir, "back.lentil.md"),
+    "~~~lentil table t\nfile: out.parquet\n~~~\n\n~~~lentil\nn = countOf(t.M)\navg = meanOf(t.M)\n~~~\n",
+  );
+  await Deno.writeTextFile(
+    join(dir, "ref.lentil.md"),
+    notebook("in-process", "", "eyes.csv", ["eyes.M = sph + cyl / 2", "avg = meanOf(eyes.M)"]),
+  );
+  const back = await loadNotebook(join(dir, "back.lentil.md"), { database: true });
+  const ref = await loadNotebook(join(dir, "ref.lentil.md"), { database: true });
+  assert.ok(back.ok && ref.ok);
+  const b = buildReport(back.notebook);
+  assert.equal(b.cells.find((c) => c.id === "n")!.value, 2000);
+  closeDeep(
+    b.cells.find((c) => c.id === "avg")!.value,
+    buildReport(ref.notebook).cells.find((c) => c.id === "avg")!.value,
+    "avg",
+  );
+  const names = (await Array.fromAsync(Deno.readDir(dir))).map((e) => e.name).sort();
+  assert.deepEqual(names, [
+    "back.lentil.md",
+    "eyes.csv",
+    "out.parquet",
+    "ref.lentil.md",
+    "s.lentil.md",
+  ]);
+});

@@ -33,7 +33,19 @@ export class DuckUnavailableError extends Error {
   }
 }
 
-/** A string as an SQL literal (quotes doubled); only for paths of our own, never notebook text. */
+/**
+ * A string as an SQL literal (quotes doubled); only for paths of our own, never notebook text.
+ *
+ * @example
+ * ```ts
+ * import { sqlText } from "./_open.ts";
+ * sqlText("it's"); // "'it''s'"
+ * ```
+ */
+export function sqlText(s: string): string {
+  return literal(s);
+}
+
 function literal(s: string): string {
   if (/[\0\n\r]/.test(s)) throw new DuckUnavailableError(`the folder ${s} has an unusable name`);
   return `'${s.replaceAll("'", "''")}'`;

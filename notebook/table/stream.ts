@@ -291,18 +291,29 @@ function aggregateFor(
 }
 
 /** Text of one output cell. */
+/**
+ * A number as the output writes it: at most 12 significant digits, so the binary noise of
+ * arithmetic (-1.2500000000000002) is not written, and no figure a measure has is lost.
+ */
+export function numberText(x: number): string {
+  if (Number.isNaN(x)) return "";
+  if (!Number.isFinite(x)) return String(x);
+  return String(Number(x.toPrecision(12)) + 0);
+}
+
 function cellText(v: unknown): string {
-  if (typeof v === "number") return Number.isNaN(v) ? "" : String(v);
+  if (typeof v === "number") return numberText(v);
   if (v === null || v === undefined) return "";
   if (typeof v === "string") return v;
   const t = typeOfValue(v);
   return t ? t.display(v, DEFAULT_DISPLAY) : String(v);
 }
 
+/** A plain header: the name, with the unit of a quantity (so the file reads back with it). */
 function header(c: Column): string {
   if (c.type === "quantity" && c.unit) return `${c.name} [${c.unit}]`;
-  if (c.type === "number") return c.unit ? `${c.name} [${c.unit}]` : `${c.name} [number]`;
-  if (c.type === "text") return `${c.name} [text]`;
+  if (c.type === "number") return c.unit ? `${c.name} [${c.unit}]` : c.name;
+  if (c.type === "text") return c.name;
   return `${c.name} [${c.type}]`;
 }
 
@@ -394,7 +405,19 @@ export async function streamNotebook(
   }
   if (part) {
     if (stopped) await Deno.remove(part).catch(() => {});
-    else await Deno.rename(part, out!);
+    else if (/\.(parquet|parq|pq)$/i.test(out!)) {
+      // Parquet out: the CSV written above becomes Parquet through DuckDB (loaded only now).
+      const { csvToParquet } = await import("../duck/convert.ts");
+      const target = await createTempBeside(out!, inputs);
+      target.file.close();
+      try {
+        await csvToParquet(part, target.path);
+        await Deno.rename(target.path, out!);
+      } finally {
+        await Deno.remove(part).catch(() => {});
+        await Deno.remove(target.path).catch(() => {});
+      }
+    } else await Deno.rename(part, out!);
   }
   return {
     ok: !stopped,

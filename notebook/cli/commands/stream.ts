@@ -36,7 +36,11 @@ export const streamCommand: Command = {
     "Exit status: 0 when the whole file was read, 1 when a bad row or a broken file stopped\n" +
     "the run, 2 when it could not start.",
   options: {
-    out: { type: "string", value: "FILE", doc: "write the computed table to this new CSV file" },
+    out: {
+      type: "string",
+      value: "FILE",
+      doc: "write the computed table to this new CSV file (Parquet when it ends in .parquet)",
+    },
     table: { type: "string", value: "NAME", doc: "the table to stream (when there are several)" },
     overwrite: { type: "boolean", doc: "replace the output file if it exists" },
     json: { type: "boolean", doc: "print the outcome as JSON (no progress lines)" },
