@@ -231,44 +231,128 @@ export async function workTableInDuck(
   const path = join(folder, rel);
   const skip = (block.options["bad rows"]?.value ?? "stop").toLowerCase() === "skip";
   const parquet = isParquet(rel);
-  const at = (message: string): TableProblem => ({ file: rel, line: 1, col: 1, message });
-  let header: { names: string[]; kinds: ColumnKind[]; sources?: string[] };
-  try {
-    header = parquet
-      ? await parquetHeader(db, block, notebookFile, path, rel, lang)
-      : await csvHeader(block, notebookFile, path, lang);
-  } catch (e) {
-    if (e instanceof DuckTableError) throw e;
-    if (e instanceof Deno.errors.NotFound) {
-      throw new DuckTableError(at(`cannot read table file "${rel}": no such file`));
-    }
-    throw new DuckTableError(at(`cannot read table file "${rel}": ${(e as Error).message}`));
-  }
+  const header = await readHeader(db, block, notebookFile, path, lang);
   const { names, kinds } = header;
   if (kinds.some((k) => k.type === "value")) {
-    throw new DuckTableError(at("a column of values (such as [rx]) is read in-process"), true);
+    throw new DuckTableError(at(rel, "a column of values (such as [rx]) is read in-process"), true);
   }
-  const inputs: ColumnShape[] = names.map((name, i) => {
-    const k = kinds[i];
-    const numeric = k.type === "quantity" || k.type === "number";
-    return {
-      name,
-      type: numeric ? k.type : "text",
-      unit: numeric ? (k as { unit: string }).unit : "",
-      numeric,
-    };
-  });
+  const inputs: ColumnShape[] = shapesOf(names, kinds);
   const params: (string | number)[] = [path];
   const value = (x: number) => {
     params.push(x);
     return `CAST($${params.length} AS DOUBLE)`;
   };
   const work = planTableWork(doc, block, inputs, lang, value);
-  if (typeof work === "string") throw new DuckTableError(at(work), true);
+  if (typeof work === "string") throw new DuckTableError(at(rel, work), true);
+  const read: DuckRead = { db, rel, parquet, names, kinds, params, value };
+  const rows = rowQuery(read, header.sources);
+  const cylinder = await cylinderForm(read, rows.rowSource);
+  const scan = scanQuery(work, cylinder.ordered, rows.rowSource);
+  const [row] = await run(db, scan.main, params, rel, (fraction, rows) => {
+    if (!onProgress) return;
+    onProgress({
+      table: block.name,
+      file: rel,
+      rows,
+      fraction: fraction >= 0 ? fraction : undefined,
+    });
+  });
+  onProgress?.({
+    table: block.name,
+    file: rel,
+    rows: Number(row.rows_read),
+    fraction: 1,
+    done: true,
+  });
+  const rowsGood = Number(row.rows_read);
+  const { rejects, rejected } = await readRejects(read);
+  const badChecked = Number(row.bad_rows);
+  const excluded = badChecked + rejected;
+  const problems = rejectProblems(read, rejects);
+  if (badChecked) {
+    problems.push(...await badRowProblems(read, rows, rejects));
+    problems.sort((a, b) => a.line - b.line);
+  }
+  const rowsRead = rowsGood + rejected;
+  const notes = tableNotes(block.name, names, cylinder, Number(row.turned), {
+    excluded,
+    rowsRead,
+    skip,
+  });
+  const good = Number(row.rows_read) - badChecked;
+  return {
+    work,
+    rowsRead,
+    rowsKept: rowsRead - excluded,
+    excluded,
+    problems,
+    notes,
+    moments: momentsOf(work, scan.groupOf, row, good),
+    kinds: names.map((name, i) => ({ name, kind: kinds[i] })),
+  };
+}
 
-  // The file's rows: numbers read by DuckDB's own parser (a cell it cannot read rejects the
-  // row, with line and column), text trimmed, flags for cells Lentil refuses (not finite,
-  // outside a refraction range).
+/** A problem at the top of the table file. */
+function at(rel: string, message: string): TableProblem {
+  return { file: rel, line: 1, col: 1, message };
+}
+
+/** The table file's header: by the in-process reader for a CSV, its schema for Parquet. */
+async function readHeader(
+  db: DuckConnection,
+  block: TableBlock,
+  notebookFile: string,
+  path: string,
+  lang: Language,
+): Promise<{ names: string[]; kinds: ColumnKind[]; sources?: string[] }> {
+  const rel = block.options.file!.value;
+  try {
+    return isParquet(rel)
+      ? await parquetHeader(db, block, notebookFile, path, rel, lang)
+      : await csvHeader(block, notebookFile, path, lang);
+  } catch (e) {
+    if (e instanceof DuckTableError) throw e;
+    if (e instanceof Deno.errors.NotFound) {
+      throw new DuckTableError(at(rel, `cannot read table file "${rel}": no such file`));
+    }
+    throw new DuckTableError(at(rel, `cannot read table file "${rel}": ${(e as Error).message}`));
+  }
+}
+
+/** What every query over one table file shares: its columns and the bound parameters. */
+interface DuckRead {
+  readonly db: DuckConnection;
+  readonly rel: string;
+  readonly parquet: boolean;
+  readonly names: readonly string[];
+  readonly kinds: readonly ColumnKind[];
+  /** Parameters bound to every query (`$1` is the file's path). */
+  readonly params: (string | number)[];
+  /** Binds a number as a further parameter. */
+  readonly value: (x: number) => string;
+}
+
+/** The file's rows as SQL, with a flag for rows Lentil refuses. */
+interface RowQuery {
+  /** Per numeric column: true when a cell is not finite or outside its refraction range. */
+  readonly flags: string[];
+  /** Per numeric column: the cell as text, for the message. */
+  readonly cellText: string[];
+  /** Indexes of the numeric columns. */
+  readonly numericIdx: number[];
+  /** The rows as read. */
+  readonly rawFrom: string;
+  /** The rows checked: numbers, trimmed text and `bad_row`. */
+  readonly rowSource: string;
+}
+
+/**
+ * The file's rows: numbers read by DuckDB's own parser (a cell it cannot read rejects the
+ * row, with line and column), text trimmed, flags for cells Lentil refuses (not finite,
+ * outside a refraction range).
+ */
+function rowQuery(read: DuckRead, sources: readonly string[] | undefined): RowQuery {
+  const { names, kinds, parquet, value } = read;
   const listed = names.map((n) => `'${quoteName(n).slice(1, -1)}'`).join(", ");
   const types = names.map((n, i) =>
     `'${quoteName(n).slice(1, -1)}': '${
@@ -277,7 +361,7 @@ export async function workTableInDuck(
   ).join(", ");
   const reader = parquet
     ? `(SELECT ${
-      header.sources!.map((s, i) => `"${s.replaceAll('"', '""')}" AS ${quoteName(names[i])}`).join(
+      sources!.map((s, i) => `"${s.replaceAll('"', '""')}" AS ${quoteName(names[i])}`).join(
         ", ",
       )
     } FROM read_parquet($1))`
@@ -305,8 +389,22 @@ export async function workTableInDuck(
   const rowSource = `(SELECT ${vals.join(", ")}, ${
     flags.length ? flags.join(" OR ") : "false"
   } AS bad_row FROM ${rawFrom}) AS checked`;
+  return { flags, cellText, numericIdx, rawFrom, rowSource };
+}
 
-  // The cylinder form of the first cylinder met (rows in the other form are transposed).
+/** The cylinder form rows are read in, and the columns with rows of the other form turned. */
+interface CylinderForm {
+  /** Sign of the first cylinder met (0: none). */
+  readonly first: number;
+  /** Index of the cylinder column (-1: none). */
+  readonly ci: number;
+  /** The columns' SQL, transposing rows of the other form (with `turned_row` when so). */
+  readonly ordered: string[];
+}
+
+/** The cylinder form of the first cylinder met (rows in the other form are transposed). */
+async function cylinderForm(read: DuckRead, rowSource: string): Promise<CylinderForm> {
+  const { db, names, kinds, params, rel, value } = read;
   const role = (r: string) =>
     names.findIndex((n, i) =>
       REFRACTION_COLUMNS[n.toLowerCase()]?.role === r && kinds[i].type === "quantity"
@@ -338,6 +436,18 @@ export async function workTableInDuck(
       ordered.push(`${other} AS turned_row`);
     }
   }
+  return { first, ci, ordered };
+}
+
+/**
+ * One scan: each distinct group of variables observed together is projected once, NULL on
+ * bad or incomplete rows, and summarised by aggregates that skip NULLs.
+ */
+function scanQuery(
+  work: TableWork,
+  ordered: readonly string[],
+  rowSource: string,
+): { main: string; groupOf: string[][] } {
   const turnedCol = ordered.some((o) => o.endsWith(" AS turned_row"));
   let from = `(SELECT ${ordered.join(", ")}, bad_row FROM ${rowSource}) AS rows0`;
   for (let s = 1; s <= work.sets; s++) {
@@ -346,8 +456,6 @@ export async function workTableInDuck(
       cols.map((c) => `${c.sql} AS ${quoteName(c.name)}`).join(", ")
     } FROM ${from}) AS rows${s}`;
   }
-  // One scan: each distinct group of variables observed together is projected once, NULL on
-  // bad or incomplete rows, and summarised by aggregates that skip NULLs.
   const groups = new Map<string, { prefix: string; vars: string[] }>();
   const groupOf: string[][] = [];
   work.statistics.forEach((st) => {
@@ -377,49 +485,41 @@ export async function workTableInDuck(
   const main = `SELECT ${aggregates.join(", ")} FROM (SELECT ${
     projected.join(", ")
   } FROM ${from}) AS observed`;
-  const [row] = await run(db, main, params, rel, (fraction, rows) => {
-    if (!onProgress) return;
-    onProgress({
-      table: block.name,
-      file: rel,
-      rows,
-      fraction: fraction >= 0 ? fraction : undefined,
-    });
-  });
-  onProgress?.({
-    table: block.name,
-    file: rel,
-    rows: Number(row.rows_read),
-    fraction: 1,
-    done: true,
-  });
-  const rowsGood = Number(row.rows_read);
-  let rejects: { line: number; message: string; column?: string; type: string }[] = [];
-  let rejected = 0;
-  if (!parquet) {
-    const rj = await run(
-      db,
-      "SELECT line, error_message, error_type, column_name FROM reject_errors ORDER BY line LIMIT 1000",
-      [],
-      rel,
-    );
-    rejects = rj.map((r) => ({
-      line: Number(r.line),
-      message: String(r.error_message),
-      type: String(r.error_type),
-      column: r.column_name === null ? undefined : String(r.column_name),
-    }));
-    rejected = Number((await run(db, "SELECT COUNT(*) AS n FROM reject_errors", [], rel))[0].n);
-  }
-  const badChecked = Number(row.bad_rows);
-  const excluded = badChecked + rejected;
+  return { main, groupOf };
+}
+
+/** A row DuckDB's CSV reader rejected. */
+interface Reject {
+  readonly line: number;
+  readonly message: string;
+  readonly column?: string;
+  readonly type: string;
+}
+
+/** The rows DuckDB's CSV reader rejected (the first 1,000) and how many (none for Parquet). */
+async function readRejects(read: DuckRead): Promise<{ rejects: Reject[]; rejected: number }> {
+  const { db, rel } = read;
+  if (read.parquet) return { rejects: [], rejected: 0 };
+  const rj = await run(
+    db,
+    "SELECT line, error_message, error_type, column_name FROM reject_errors ORDER BY line LIMIT 1000",
+    [],
+    rel,
+  );
+  const rejects = rj.map((r) => ({
+    line: Number(r.line),
+    message: String(r.error_message),
+    type: String(r.error_type),
+    column: r.column_name === null ? undefined : String(r.column_name),
+  }));
+  const rejected = Number((await run(db, "SELECT COUNT(*) AS n FROM reject_errors", [], rel))[0].n);
+  return { rejects, rejected };
+}
+
+/** The first 20 rejected rows as problems in Lentil's words. */
+function rejectProblems(read: DuckRead, rejects: readonly Reject[]): TableProblem[] {
+  const { names, kinds, rel } = read;
   const problems: TableProblem[] = [];
-  const lineOf = (r: number) => {
-    // Data row r (1-based among the rows DuckDB kept) to its file line, skipping rejected lines.
-    let line = r + 1;
-    for (const j of rejects) if (j.line <= line) line++;
-    return line;
-  };
   for (const j of rejects.slice(0, 20)) {
     const m = /Expected Number of Columns: (\d+) Found: (\d+)/.exec(j.message);
     const ci2 = j.column ? names.indexOf(j.column) : -1;
@@ -440,65 +540,95 @@ export async function workTableInDuck(
         : `the row cannot be read: ${j.message}`,
     });
   }
-  if (badChecked) {
-    const flagList = numericIdx.map((_i, j) => `${flags[j]} AS f${j}, ${cellText[j]} AS t${j}`)
-      .join(
-        ", ",
-      );
-    const bad = await run(
-      db,
-      `SELECT * FROM (SELECT row_number() OVER () AS r, ${flagList} FROM ${rawFrom}) AS numbered WHERE ${
-        numericIdx.map((_, j) => `f${j}`).join(" OR ")
-      } ORDER BY r LIMIT 20`,
-      params,
-      rel,
+  return problems;
+}
+
+/** The first 20 rows with a cell Lentil refuses (not finite, outside its range), by cell. */
+async function badRowProblems(
+  read: DuckRead,
+  { flags, cellText, numericIdx, rawFrom }: RowQuery,
+  rejects: readonly Reject[],
+): Promise<TableProblem[]> {
+  const { db, names, kinds, params, parquet, rel } = read;
+  const lineOf = (r: number) => {
+    // Data row r (1-based among the rows DuckDB kept) to its file line, skipping rejected lines.
+    let line = r + 1;
+    for (const j of rejects) if (j.line <= line) line++;
+    return line;
+  };
+  const flagList = numericIdx.map((_i, j) => `${flags[j]} AS f${j}, ${cellText[j]} AS t${j}`)
+    .join(
+      ", ",
     );
-    for (const b of bad) {
-      const r = Number(b.r);
-      numericIdx.forEach((i, j) => {
-        if (b[`f${j}`] !== true) return;
-        const k = kinds[i] as { unit: string };
-        const text = String(b[`t${j}`] ?? "");
-        const x = Number(text);
-        const rule = REFRACTION_COLUMNS[names[i].toLowerCase()];
-        const message = rule && Number.isFinite(x)
-          ? `column ${names[i]}: ${x} ${k.unit} is outside the accepted range ${rule.range[0]} to ${
-            rule.range[1]
-          } ${k.unit}`
-          : `column ${names[i]}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`;
-        problems.push({
-          file: rel,
-          line: parquet ? r : lineOf(r),
-          col: i + 1,
-          row: r - 1,
-          message,
-        });
+  const bad = await run(
+    db,
+    `SELECT * FROM (SELECT row_number() OVER () AS r, ${flagList} FROM ${rawFrom}) AS numbered WHERE ${
+      numericIdx.map((_, j) => `f${j}`).join(" OR ")
+    } ORDER BY r LIMIT 20`,
+    params,
+    rel,
+  );
+  const problems: TableProblem[] = [];
+  for (const b of bad) {
+    const r = Number(b.r);
+    numericIdx.forEach((i, j) => {
+      if (b[`f${j}`] !== true) return;
+      const k = kinds[i] as { unit: string };
+      const text = String(b[`t${j}`] ?? "");
+      const x = Number(text);
+      const rule = REFRACTION_COLUMNS[names[i].toLowerCase()];
+      const message = rule && Number.isFinite(x)
+        ? `column ${names[i]}: ${x} ${k.unit} is outside the accepted range ${rule.range[0]} to ${
+          rule.range[1]
+        } ${k.unit}`
+        : `column ${names[i]}: "${text}" is not a number${k.unit ? ` (in ${k.unit})` : ""}`;
+      problems.push({
+        file: rel,
+        line: parquet ? r : lineOf(r),
+        col: i + 1,
+        row: r - 1,
+        message,
       });
-    }
-    problems.sort((a, b) => a.line - b.line);
+    });
   }
+  return problems;
+}
+
+/** Notes on the table: rows transposed to the first cylinder's form, bad rows excluded. */
+function tableNotes(
+  table: string,
+  names: readonly string[],
+  { first, ci }: CylinderForm,
+  turned: number,
+  { excluded, rowsRead, skip }: { excluded: number; rowsRead: number; skip: boolean },
+): string[] {
   const notes: string[] = [];
-  const turned = Number(row.turned);
   if (turned && ci >= 0) {
     const form = first < 0 ? "minus" : "plus";
     const other = first < 0 ? "plus" : "minus";
     notes.push(
-      `table ${block.name}: column ${names[ci]} mixes cylinder signs; ${turned} row${
+      `table ${table}: column ${names[ci]} mixes cylinder signs; ${turned} row${
         turned === 1 ? "" : "s"
       } in ${other}-cylinder form ${
         turned === 1 ? "was" : "were"
       } transposed to ${form}-cylinder form, the form of the first cylinder met (the same lenses)`,
     );
   }
-  const rowsRead = rowsGood + rejected;
   if (excluded && skip) {
     notes.push(
-      `table ${block.name}: ${excluded} bad row${
-        excluded === 1 ? "" : "s"
-      } of ${rowsRead} excluded`,
+      `table ${table}: ${excluded} bad row${excluded === 1 ? "" : "s"} of ${rowsRead} excluded`,
     );
   }
-  const good = Number(row.rows_read) - badChecked;
+  return notes;
+}
+
+/** Each statistic's moments from the scan's one row. */
+function momentsOf(
+  work: TableWork,
+  groupOf: readonly string[][],
+  row: Record<string, unknown>,
+  good: number,
+): Map<string, ReturnType<typeof momentsFromRow>[]> {
   const moments = new Map<string, ReturnType<typeof momentsFromRow>[]>();
   work.statistics.forEach((st, i) =>
     moments.set(
@@ -511,16 +641,7 @@ export async function workTableInDuck(
       ),
     )
   );
-  return {
-    work,
-    rowsRead,
-    rowsKept: rowsRead - excluded,
-    excluded,
-    problems,
-    notes,
-    moments,
-    kinds: names.map((name, i) => ({ name, kind: kinds[i] })),
-  };
+  return moments;
 }
 
 /** Run a statement; a file that cannot be read (gone, unreadable) is a positioned problem. */
