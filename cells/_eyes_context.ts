@@ -75,6 +75,20 @@ export interface EyeContext {
 const SUBJECT_NAMES = /^(subject|subjectid|subject_id|person|patient|participant)$/i;
 const EYE_NAMES = /^(eye|side)$/i;
 
+/**
+ * Whether a table's rows are eyes of persons, by its declared `subject:`/`eye:` lines or by
+ * the names of its columns: the subject and eye column names, or undefined.
+ */
+export function pairedColumns(
+  columnNames: readonly string[],
+  declared: { subject?: string; eye?: string } = {},
+): { subject: string; eye: string } | undefined {
+  if (declared.subject && declared.eye) return { subject: declared.subject, eye: declared.eye };
+  const subject = columnNames.find((n) => SUBJECT_NAMES.test(n));
+  const eye = columnNames.find((n) => EYE_NAMES.test(n));
+  return subject && eye ? { subject, eye } : undefined;
+}
+
 function textOf(c: Column): string[] {
   return Array.from(c.data as ArrayLike<unknown>, (v) => {
     if (v === null || v === undefined || (typeof v === "number" && Number.isNaN(v))) return "";

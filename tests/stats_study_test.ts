@@ -104,3 +104,36 @@ Deno.test("one eye only gives no fellow-eye correlation, said in words", () => {
   );
   assert.match(nb.result("f")?.error?.message ?? "", /both eyes, got 0/);
 });
+
+Deno.test("streaming refuses the statistics that count persons, with the reason", async () => {
+  // Murdoch et al. 1998: fellow eyes are not independent; a one-pass stream cannot pair them
+  const { streamNotebook } = await import("../notebook/table/stream.ts");
+  const dir = await Deno.makeTempDir();
+  try {
+    const rows = ["subject,eye,sph [D],cyl [D],axis [deg]"];
+    for (let i = 0; i < 20; i++) {
+      rows.push(`S${i},R,-1.00,-0.50,${10 + i}`, `S${i},L,-1.25,-0.50,${170 - i}`);
+    }
+    await Deno.writeTextFile(`${dir}/eyes.csv`, rows.join("\n") + "\n");
+    await Deno.writeTextFile(
+      `${dir}/s.lentil.md`,
+      [
+        "~~~lentil table eyes",
+        "file: eyes.csv",
+        "~~~",
+        "",
+        "~~~lentil",
+        "ell = ellipse95(eyes.sph, eyes.cyl, eyes.axis)",
+        "n = countOf(eyes.sph)",
+        "~~~",
+        "",
+      ].join("\n"),
+    );
+    const r = await streamNotebook(`${dir}/s.lentil.md`, { out: `${dir}/out.csv` });
+    const ell = r.cells.find((c) => c.name === "ell")!;
+    assert.match(ell.unavailable ?? "", /counts persons .*subject and eye.*use run/);
+    assert.equal(r.cells.find((c) => c.name === "n")!.value, 40);
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});

@@ -22,7 +22,7 @@ import { dirname, join, resolve } from "node:path";
 import { stringify } from "csv-stringify/sync";
 import type { MathNode } from "mathjs";
 import { getLanguage, type Language, plainMathMessage } from "../../cells/language.ts";
-import { Column, makeTable } from "../../cells/table.ts";
+import { Column, makeTable, tableInfo } from "../../cells/table.ts";
 import { DEFAULT_DISPLAY, typeOfValue } from "../../cells/types.ts";
 import {
   agreementRecord,
@@ -34,7 +34,7 @@ import {
   vectorStatsRecord,
 } from "../../cells/stats.ts";
 import { markExact } from "../../cells/quantity.ts";
-import { INDEPENDENT_NOTE } from "../../cells/_eyes_context.ts";
+import { INDEPENDENT_NOTE, pairedColumns } from "../../cells/_eyes_context.ts";
 import { agreementFrom } from "../../lib/agreement.ts";
 import { pushRefraction, RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
 import { toPowerVector } from "../../lib/power_vector.ts";
@@ -564,6 +564,14 @@ function planCells(nb: Notebook, table: string, lang: Language): CellPlan {
   );
   const aggregates = new Map<string, Aggregate>();
   const cells: StreamedCell[] = [];
+  const info = tableInfo(nb.result(table)?.value);
+  const block = nb.doc.blocks.find((b) => b.kind === "table" && b.name === table) as
+    | TableBlock
+    | undefined;
+  const eyes = pairedColumns(info?.columns.map((c) => c.name) ?? [], {
+    subject: block?.options.subject?.value,
+    eye: block?.options.eye?.value,
+  });
   for (const r of results) {
     if (r.kind !== "cell") continue;
     if (!readsTable(r.deps)) {
@@ -574,7 +582,7 @@ function planCells(nb: Notebook, table: string, lang: Language): CellPlan {
       );
       continue;
     }
-    const agg = aggregateOf(r.expression!, table, lang);
+    const agg = aggregateOf(r.expression!, table, lang, eyes);
     if (typeof agg === "string") cells.push({ name: r.name, unavailable: agg });
     else {
       aggregates.set(r.name, agg);
@@ -585,7 +593,12 @@ function planCells(nb: Notebook, table: string, lang: Language): CellPlan {
 }
 
 /** The running aggregate of a cell that reads the streamed table, or why there is none. */
-function aggregateOf(expression: string, table: string, lang: Language): Aggregate | string {
+function aggregateOf(
+  expression: string,
+  table: string,
+  lang: Language,
+  eyes?: { subject: string; eye: string },
+): Aggregate | string {
   const node = lang.parse(expression) as unknown as {
     type: string;
     fn?: { type: string; name?: string };
@@ -599,6 +612,9 @@ function aggregateOf(expression: string, table: string, lang: Language): Aggrega
     "is computed in streaming mode";
   if (fn === "medianOf" || fn === "quantileOf" || fn === "sampleStatsBy" || fn === "meanRxBy") {
     agg = `${fn} needs every value at once; it is not computed in streaming mode`;
+  } else if (eyes && ["ellipse95", "agreement", "rxAgreement"].includes(fn)) {
+    agg = `${fn} counts persons (the table's rows are eyes: ${eyes.subject} and ${eyes.eye}), ` +
+      "which needs every row at once; it is not computed in streaming mode (use run)";
   } else if (STREAMABLE.has(fn) && cols) agg = aggregateFor(fn, cols, lang);
   return agg;
 }
