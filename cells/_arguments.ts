@@ -10,7 +10,7 @@
 import type { FormulaSpec, OptionSpec, ParamSpec } from "./catalogue.ts";
 import { noteCitations } from "./_citations.ts";
 import { Column, isTable } from "./table.ts";
-import { DEFAULT_DISPLAY, getValueType, typeOfValue } from "./types.ts";
+import { DEFAULT_DISPLAY, getValueType, keepWhole, typeOfValue } from "./types.ts";
 import { formatNumber, formatQuantity } from "./display.ts";
 import { columnToArray, quantityParts, toNumberIn } from "./quantity.ts";
 
@@ -282,6 +282,19 @@ function convertOptions(spec: FormulaSpec, given: Record<string, unknown> | unde
   });
 }
 
+/** Mark a result of a registered type, and those one level inside a record, as {@linkcode keepWhole}. */
+function keepValuesWhole(out: unknown): unknown {
+  if (out === null || typeof out !== "object") return out;
+  if (typeOfValue(out)) keepWhole(out);
+  if (isPlainRecord(out) || typeOfValue(out)) {
+    const proto = Object.getPrototypeOf(out);
+    if (proto === Object.prototype || proto === null) {
+      for (const v of Object.values(out)) if (typeOfValue(v)) keepWhole(v);
+    }
+  }
+  return out;
+}
+
 /**
  * The function a notebook calls for a formula: checks and converts the arguments and the
  * named options, calls `spec.fn`, and prefixes its errors with the formula's name. `wrap`
@@ -349,7 +362,7 @@ export function bindFormula(
       throw wrappedErr;
     }
     if (spec.cites) noteCitations(spec, out);
-    return wrap(out);
+    return wrap(keepValuesWhole(out));
   };
   Object.defineProperty(wrapped, "name", { value: spec.name });
   return wrapped;

@@ -122,8 +122,38 @@ const registry = new Map<string, ValueType>();
  */
 export function defineValueType<T>(type: ValueType<T>): ValueType<T> {
   if (registry.has(type.name)) throw new Error(`value type ${type.name} is registered twice`);
-  registry.set(type.name, type as ValueType);
-  return type;
+  const read = type.fromText;
+  const declared: ValueType<T> = read
+    ? { ...type, fromText: (text: string) => keepWhole(read.call(type, text)) }
+    : type;
+  registry.set(type.name, declared as ValueType);
+  return declared;
+}
+
+/**
+ * Let the expression library copy a list that holds `x` (a value of a registered type):
+ * values are never changed in place, so the copy of one is the value itself. Without
+ * this, a list such as `[rx("-1.00 DS"), rx("-2.00 DS")]` could not be shown or indexed.
+ * Returns `x`.
+ *
+ * @example
+ * ```ts
+ * import { keepWhole } from "./types.ts";
+ * const v = keepWhole(new Map());
+ * (v as unknown as { clone(): unknown }).clone() === v; // true
+ * ```
+ */
+export function keepWhole<T>(x: T): T {
+  if (
+    x !== null && typeof x === "object" && typeof (x as { clone?: unknown }).clone !== "function"
+  ) {
+    try {
+      Object.defineProperty(x, "clone", { value: () => x, enumerable: false });
+    } catch {
+      // A frozen value stays as it is.
+    }
+  }
+  return x;
 }
 
 /**

@@ -110,3 +110,16 @@ Deno.test("a logMAR tolerance written with the word is explained: logMAR values 
   assert.match(e.message, /"logMAR" is not a unit: logMAR values are plain numbers/);
   assert.equal(e.col, "tol = 0.02 ".length + 1);
 });
+
+Deno.test("a list of prescriptions or acuities is shown, indexed and summarised", () => {
+  const nb = Notebook.fromText(
+    '~~~lentil\nlist = [rx("-1.00 DS"), rx("-2.00 DS")]\nsecond = list[2]\n' +
+      'spread = vectorStats(list)\nvas = [acuity("6/6"), acuity("6/12")]\n~~~\n',
+    "list.lentil.md",
+  );
+  for (const id of ["list", "second", "spread", "vas"]) {
+    assert.equal(nb.result(id)!.error, undefined, `${id}: ${nb.result(id)!.error?.message}`);
+    nb.language.describe(nb.value(id), nb.display);
+  }
+  assert.equal(nb.language.describe(nb.value("second")).display, "-2.00 DS");
+});
