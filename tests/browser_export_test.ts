@@ -228,6 +228,13 @@ browserTest(
           await page.setViewportSize({ width: 960, height: 1200 });
           const tour = join(TOUR, basename(file).replace(/\.lentil\.md$/, ".png"));
           await page.screenshot({ path: tour });
+          // And the first figure of each starter that has one, in Lentil's plot theme.
+          const figure = page.locator("figure.lx-plot:not(.lx-problem)").first();
+          if (await figure.count()) {
+            await figure.screenshot({
+              path: join(TOUR, basename(file).replace(/\.lentil\.md$/, "-figure.png")),
+            });
+          }
         }
         await page.close();
       }
