@@ -346,9 +346,17 @@ export const ACUITY_FORMULAS: readonly FormulaSpec[] = [
     fn: (top, lines, letters, step) => {
       const chart = regularChart(top as number, lines as number, letters as number, step as number);
       return makeTable("chart", [
-        new Column("size", "number", "logMAR", Float64Array.from(chart, (l) => l.logMAR)),
-        new Column("letters", "number", "", Float64Array.from(chart, (l) => l.letters)),
-        new Column("read", "number", "", new Float64Array(chart.length).fill(NaN)),
+        new Column("size", "number", "logMAR", Float64Array.from(chart, (l) => l.logMAR), {
+          label: "line size",
+        }),
+        new Column("letters", "number", "", Float64Array.from(chart, (l) => l.letters), {
+          label: "letters on the line",
+          decimals: 0,
+        }),
+        new Column("read", "number", "", new Float64Array(chart.length).fill(NaN), {
+          label: "letters read",
+          decimals: 0,
+        }),
       ]);
     },
   }),

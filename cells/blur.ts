@@ -399,9 +399,15 @@ export const BLUR_FORMULAS: readonly FormulaSpec[] = [
         testDistance: d as number,
       });
       return makeTable(`throughFocus ${signed(r)} D`, [
-        new Column("lens", "quantity", "D", Float64Array.from(pts, (p) => p.power)),
-        new Column("va", "number", "logMAR", Float64Array.from(pts, (p) => p.logMAR)),
-        new Column("residual", "quantity", "D", Float64Array.from(pts, (p) => p.residual)),
+        new Column("lens", "quantity", "D", Float64Array.from(pts, (p) => p.power), {
+          label: "trial lens",
+        }),
+        new Column("va", "number", "logMAR", Float64Array.from(pts, (p) => p.logMAR), {
+          label: "predicted acuity",
+        }),
+        new Column("residual", "quantity", "D", Float64Array.from(pts, (p) => p.residual), {
+          label: "defocus left",
+        }),
       ]);
     },
   }),

@@ -290,8 +290,12 @@ export const ENDPOINT_FORMULAS: readonly FormulaSpec[] = [
         throw new LentilInputError("the endpoint has no through-focus fit (too few powers)");
       }
       return makeTable("endpointCurve", [
-        new Column("lens", "quantity", "D", Float64Array.from(fit.curve, (p) => p.power)),
-        new Column("va", "number", "logMAR", Float64Array.from(fit.curve, (p) => p.logMAR)),
+        new Column("lens", "quantity", "D", Float64Array.from(fit.curve, (p) => p.power), {
+          label: "trial lens",
+        }),
+        new Column("va", "number", "logMAR", Float64Array.from(fit.curve, (p) => p.logMAR), {
+          label: "fitted acuity",
+        }),
       ]);
     },
   }),

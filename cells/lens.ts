@@ -16,7 +16,7 @@
  */
 
 import { defineFormula, type FormulaSpec, type OptionSpec, type ParamSpec } from "./catalogue.ts";
-import { Column, makeTable } from "./table.ts";
+import { Column, type ColumnShow, makeTable } from "./table.ts";
 import { type CheckLine, defineValueType } from "./types.ts";
 import { formatNumber } from "./display.ts";
 import { markExact, quantity } from "./quantity.ts";
@@ -373,13 +373,18 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
         minThickness: t as number,
         frontCurve: f as number,
       });
-      const col = (name: string, unit: string, pick: (x: (typeof rows)[number]) => number) =>
-        new Column(name, unit ? "quantity" : "number", unit, Float64Array.from(rows, pick));
+      const col = (
+        name: string,
+        unit: string,
+        pick: (x: (typeof rows)[number]) => number,
+        show: ColumnShow,
+      ) =>
+        new Column(name, unit ? "quantity" : "number", unit, Float64Array.from(rows, pick), show);
       return makeTable("thicknessByIndex", [
-        col("index", "", (x) => x.index),
-        col("centre", "mm", (x) => x.centre),
-        col("edgeThin", "mm", (x) => x.edgeThin),
-        col("edgeThick", "mm", (x) => x.edgeThick),
+        col("index", "", (x) => x.index, { label: "refractive index", decimals: 2 }),
+        col("centre", "mm", (x) => x.centre, { label: "centre thickness" }),
+        col("edgeThin", "mm", (x) => x.edgeThin, { label: "thinnest edge" }),
+        col("edgeThick", "mm", (x) => x.edgeThick, { label: "thickest edge" }),
       ]);
     },
   }),

@@ -52,13 +52,15 @@ function index(t: TableValue, keys: readonly string[], which: string): Map<strin
   return rows;
 }
 
-function pick(c: Column, rows: readonly number[], name: string): Column {
+/** A column's rows picked out; `from` (the table it came from) joins its label in words. */
+function pick(c: Column, rows: readonly number[], name: string, from?: string): Column {
+  const show = from ? { ...c.show, label: `${c.show.label ?? c.name} (${from})` } : c.show;
   if (c.data instanceof Float64Array) {
     const src = c.data;
-    return new Column(name, c.type, c.unit, Float64Array.from(rows, (i) => src[i]));
+    return new Column(name, c.type, c.unit, Float64Array.from(rows, (i) => src[i]), show);
   }
   const src = c.data;
-  return new Column(name, c.type, c.unit, rows.map((i) => src[i]));
+  return new Column(name, c.type, c.unit, rows.map((i) => src[i]), show);
 }
 
 /**
@@ -86,10 +88,16 @@ export function pairRows(
     }
   }
   const excluded = a.rowCount - rowsA.length + (b.rowCount - rowsB.length);
+  // Each side's columns read by their table's name ("va (visit1)"), or first and second.
+  const [fromA, fromB] = a.name === b.name ? ["first", "second"] : [a.name, b.name];
   const columns = [
     ...keys.map((k) => pick(first[k], rowsA, k)),
-    ...a.columns.filter((c) => !keys.includes(c.name)).map((c) => pick(c, rowsA, `${c.name}1`)),
-    ...b.columns.filter((c) => !keys.includes(c.name)).map((c) => pick(c, rowsB, `${c.name}2`)),
+    ...a.columns.filter((c) => !keys.includes(c.name)).map((c) =>
+      pick(c, rowsA, `${c.name}1`, fromA)
+    ),
+    ...b.columns.filter((c) => !keys.includes(c.name)).map((c) =>
+      pick(c, rowsB, `${c.name}2`, fromB)
+    ),
   ];
   return makeTable(`${a.name}_${b.name}`, columns, { excluded });
 }

@@ -77,7 +77,10 @@ export interface TableShown {
   readonly name: string;
   /** Columns in order, computed ones last. */
   readonly columns: readonly {
+    /** The identifier a later cell reads it by (`thick.edgeThin`). */
     readonly name: string;
+    /** Its heading in words ("thinnest edge"), when it has one besides its name. */
+    readonly label?: string;
     readonly unit: string;
     readonly numeric: boolean;
     readonly computed: boolean;
@@ -387,8 +390,24 @@ function isComputed(info: TableInfo, c: Column): boolean {
 }
 
 /**
+ * A column's heading as every surface writes it: its label in words (its name when it has
+ * none), then its unit in brackets.
+ *
+ * @example
+ * ```ts
+ * import { columnHeading } from "./present.ts";
+ * columnHeading({ name: "edgeThin", label: "thinnest edge", unit: "mm" }); // "thinnest edge [mm]"
+ * columnHeading({ name: "va", unit: "" }); // "va"
+ * ```
+ */
+export function columnHeading(c: { name: string; label?: string; unit: string }): string {
+  return `${c.label ?? c.name}${c.unit ? ` [${c.unit}]` : ""}`;
+}
+
+/**
  * The text of one table cell by the display rule of its column's unit (the header carries
- * the unit, so a number shows bare): "" where empty.
+ * the unit, so a number shows bare), or with the decimals its column declares: "" where
+ * empty.
  *
  * @example
  * ```ts
@@ -406,6 +425,8 @@ export function tableCellText(
   if (c.numeric) {
     const n = v as number;
     if (Number.isNaN(n)) return "";
+    const d = c.show.decimals;
+    if (d !== undefined) return c.unit === "D" && n > 0 ? "+" + n.toFixed(d) : n.toFixed(d);
     if (c.unit === "D") return signed(n);
     if (c.unit === "") return formatNumber(n);
     const shown = formatQuantity(n, c.unit);
@@ -436,6 +457,9 @@ export function showTable(
   const shown = cut ? maxRows : info.rowCount;
   const rows: string[][] = [];
   for (let i = 0; i < shown; i++) rows.push(info.columns.map((c) => tableCellText(c, i, options)));
+  info.columns.forEach((c, j) => {
+    if (c.numeric && c.unit === "" && c.show.decimals === undefined) evenDecimals(rows, j);
+  });
   const facts = [tableCounts(info)];
   if (info.excluded) {
     facts.push(leftOut(info.excluded));
@@ -445,6 +469,7 @@ export function showTable(
     name: info.name,
     columns: info.columns.map((c) => ({
       name: c.name,
+      ...(c.show.label ? { label: c.show.label } : {}),
       unit: c.unit,
       numeric: c.numeric,
       computed: isComputed(info, c),
@@ -455,6 +480,26 @@ export function showTable(
     ...(info.file ? { file: info.file } : {}),
     footer: facts.join("; "),
   };
+}
+
+/**
+ * One precision down a plain-number column: every shown number gets the decimals of the
+ * one with most (1.5, 1.53 become 1.50, 1.53), zeros added, nothing rounded further.
+ */
+function evenDecimals(rows: string[][], j: number): void {
+  const plain = /^[-+]?\d+(?:\.(\d+))?$/;
+  let most = 0;
+  for (const r of rows) {
+    const m = plain.exec(r[j]);
+    if (r[j] && !m) return;
+    most = Math.max(most, m?.[1]?.length ?? 0);
+  }
+  if (!most) return;
+  for (const r of rows) {
+    if (!r[j]) continue;
+    const have = r[j].indexOf(".") < 0 ? 0 : r[j].length - r[j].indexOf(".") - 1;
+    r[j] += (have ? "" : ".") + "0".repeat(most - have);
+  }
 }
 
 // ---- records ------------------------------------------------------------------------------

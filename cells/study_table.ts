@@ -34,6 +34,13 @@ function figure(x: number, unit: string, spread = false): string {
     : text;
 }
 
+/** Headings in words of the studyTable columns whose names are identifiers. */
+const STUDY_LABELS: Readonly<Record<string, string>> = {
+  meanSD: "mean ± SD",
+  ci95: "95% CI",
+  persons: "persons",
+};
+
 /** The supplement-table formulas. */
 export const STUDY_TABLE_FORMULAS: readonly FormulaSpec[] = [
   defineFormula({
@@ -84,7 +91,9 @@ export const STUDY_TABLE_FORMULAS: readonly FormulaSpec[] = [
       }
       return makeTable(
         "studyTable",
-        Object.entries(out).map(([name, data]) => new Column(name, "text", "", data)),
+        Object.entries(out).map(([name, data]) =>
+          new Column(name, "text", "", data, { label: STUDY_LABELS[name] ?? name })
+        ),
       );
     },
   }),

@@ -17,17 +17,30 @@
 /** Storage of one column: numbers in a typed array, anything else in a plain array. */
 export type ColumnData = Float64Array | unknown[];
 
+/**
+ * How a column reads on every surface (terminal, page, live page, JSON), beside the
+ * identifier a later cell uses (`thick.edgeThin`).
+ */
+export interface ColumnShow {
+  /** The heading in words ("thinnest edge"); the column's name when omitted. */
+  readonly label?: string;
+  /** Decimals every number of the column shows (indices: 2); the unit's rule when omitted. */
+  readonly decimals?: number;
+}
+
 /** One column of a table. */
 export class Column {
   /**
    * @param name column name; @param type "quantity", "number", "text" or a value type;
-   * @param unit unit of a quantity column ("" otherwise); @param data the values.
+   * @param unit unit of a quantity column ("" otherwise); @param data the values;
+   * @param show its heading in words and its decimals, when a formula declares them.
    */
   constructor(
     readonly name: string,
     readonly type: string,
     readonly unit: string,
     readonly data: ColumnData,
+    readonly show: ColumnShow = {},
   ) {}
 
   /** Number of rows. */

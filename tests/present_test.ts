@@ -128,7 +128,7 @@ Deno.test("terminal: headline on the cell's line, parts aligned below, no line p
     }
     assert.ok(text.includes("FAIL"));
     // A table from a formula shows its rows and its counts in words.
-    assert.match(text, /index +centre \[mm\]/);
+    assert.match(text, /refractive index +centre thickness \[mm\]/);
     assert.match(text, /6 rows, 4 columns/);
     assert.ok(!text.includes("rows ×"));
     // The cautions once, at the end.

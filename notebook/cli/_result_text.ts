@@ -19,7 +19,7 @@
  */
 
 import type { CheckLine } from "../../cells/types.ts";
-import type { PartView, TableShown } from "../../cells/present.ts";
+import { columnHeading, type PartView, type TableShown } from "../../cells/present.ts";
 
 /** The parts of a report cell the terminal renders. */
 export interface TextResult {
@@ -182,7 +182,7 @@ function checkText(checks: readonly CheckLine[], width: number): string[] {
  * ```
  */
 export function tableText(t: TableShown, width: number): string[] {
-  const heads = t.columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name));
+  const heads = t.columns.map(columnHeading);
   // A column is at most 28 wide (its longer texts cut with …; the page and JSON hold them whole).
   const cap = Math.min(width, 28);
   const widths = heads.map((h, i) =>

@@ -16,7 +16,7 @@
  */
 
 import type { CheckLine } from "../../cells/types.ts";
-import type { PartView, TableShown } from "../../cells/present.ts";
+import { columnHeading, type PartView, type TableShown } from "../../cells/present.ts";
 import { anchorId, escapeHtml } from "./_escape.ts";
 import { stringify } from "csv-stringify/sync";
 
@@ -100,7 +100,7 @@ export function belowHtml(r: HtmlResult): string {
  */
 export function tableCsvLink(t: TableShown, id: string): string {
   if (t.rows.length !== t.rowCount) return "";
-  const header = t.columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name));
+  const header = t.columns.map(columnHeading);
   const csv = stringify([header, ...t.rows]);
   const file = `${id}.csv`;
   return `<p class="lx-table-foot"><a download="${escapeHtml(file)}" ` +
@@ -168,8 +168,10 @@ export function dataTableHtml(t: TableShown, label: string): string {
   const th = t.columns.map((c) => {
     const cls = [c.numeric ? "lx-num" : "", c.computed ? "lx-computed" : ""].filter(Boolean)
       .join(" ");
-    return `<th scope="col"${cls ? ` class="${cls}"` : ""}>${escapeHtml(c.name)}${
-      c.unit ? ` [${escapeHtml(c.unit)}]` : ""
+    // A heading in words names the column's identifier for later cells in its tooltip.
+    const named = c.label ? ` title="${escapeHtml(`column ${c.name}`)}"` : "";
+    return `<th scope="col"${cls ? ` class="${cls}"` : ""}${named}>${
+      escapeHtml(columnHeading(c))
     }</th>`;
   }).join("");
   const body = t.rows.map((r) =>
