@@ -1,13 +1,14 @@
 /**
- * Measures every function in a folder of TypeScript modules and lists the ones longer than a
- * limit, so a long function is noticed before the next person gets lost in it.
+ * Measures every function in a folder of TypeScript and JavaScript modules and lists the ones
+ * longer than a limit, so a long function is noticed before the next person gets lost in it.
  *
  * A light scanner rather than a parser: comments, strings, template literals and regular
  * expressions are blanked first, then every `{` that opens a function body (a `function`, a
  * method, an arrow with a block body) is matched to its `}`. A function's length runs from the
  * line of its parameter list to the line of its closing brace, nested functions included.
  *
- * Run as a script: `deno run --allow-read tests/_function_length.ts notebook 120`.
+ * Run as a script: `deno run --allow-read tests/_function_length.ts notebook 120`;
+ * `tests/function_length_test.ts` runs it over `notebook/` in the gate.
  *
  * @module
  */
@@ -194,13 +195,13 @@ export function longFunctionsIn(file: string, source: string, limit: number): Lo
   return found;
 }
 
-/** Every function under `dir` (recursively, `.ts` files) longer than `limit` lines. */
+/** Every function under `dir` (recursively, `.ts` and `.js` files) longer than `limit` lines. */
 export async function longFunctions(dir: string, limit: number): Promise<LongFunction[]> {
   const found: LongFunction[] = [];
   for await (const entry of Deno.readDir(dir)) {
     const path = `${dir}/${entry.name}`;
     if (entry.isDirectory) found.push(...await longFunctions(path, limit));
-    else if (entry.isFile && entry.name.endsWith(".ts")) {
+    else if (entry.isFile && /\.(ts|js)$/.test(entry.name)) {
       found.push(...longFunctionsIn(path, await Deno.readTextFile(path), limit));
     }
   }
