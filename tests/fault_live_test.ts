@@ -129,3 +129,30 @@ Deno.test("a notebook opened with a cell over budget opens, with that cell marke
     await Deno.remove(dir, { recursive: true });
   }
 });
+
+Deno.test("an input's new value skips the worker only when no cell it feeds builds a range", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "lentil-fault-quick-" });
+  const path = join(dir, "q.lentil.md");
+  await Deno.writeTextFile(
+    path,
+    `${F}lentil\nn = 10\nm = 2 mm\ns = sum(1:n)\nd = m * 2\n${F}\n`,
+  );
+  const server = await startLiveServer(path, { budget: { timeMs: 2000 } });
+  try {
+    const { session } = server;
+    // One edit through the worker first: the session then knows the notebook evaluates quickly.
+    await session.guarded(() => session.setExpression("m", "2.5 mm"));
+    // A literal feeding a range decides an amount of work: the worker tries it first.
+    assert.equal(session.markQuickEdit("n", "100000"), false);
+    // A literal feeding only arithmetic runs here at once.
+    assert.equal(session.markQuickEdit("m", "3 mm"), true);
+    const r = await session.guarded(() => session.setExpression("m", "3 mm"));
+    assert.equal(r.ok, true);
+    assert.equal(server.session.notebook.result("d")?.error, undefined);
+    // A formula is never quick.
+    assert.equal(session.markQuickEdit("d", "m * 3"), false);
+  } finally {
+    await server.shutdown();
+    await Deno.remove(dir, { recursive: true });
+  }
+});

@@ -234,6 +234,7 @@ async function editRoute(served: Served, req: Request, key: string): Promise<Res
   switch (key) {
     case "POST /api/cell": {
       const b = await readJson(req, CellEdit);
+      session.markQuickEdit(b.id, b.expression);
       return edit(() => session.setExpression(b.id, b.expression));
     }
     case "POST /api/cell/new": {

@@ -22,7 +22,13 @@ import { basename, dirname, join, resolve } from "node:path";
 import { stringify as stringifyCsv } from "csv-stringify/sync";
 import { Notebook } from "../engine/engine.ts";
 import { decodeNotebook } from "../format/read.ts";
-import { type NotebookDoc, noteStart, parseNotebook, type TableBlock } from "../format/parse.ts";
+import {
+  isLiteral,
+  type NotebookDoc,
+  noteStart,
+  parseNotebook,
+  type TableBlock,
+} from "../format/parse.ts";
 import {
   changedOnDisk,
   type Fingerprint,
@@ -201,6 +207,9 @@ function stamp(d = new Date()): string {
   }${p(d.getSeconds())}`;
 }
 
+/** An edit whose previous edit evaluated within this many ms may skip the worker's trial. */
+export const QUICK_EDIT_MS = 150;
+
 /** A live editing session on one notebook file. */
 export class LiveSession {
   #path: string;
@@ -226,6 +235,10 @@ export class LiveSession {
   readonly #budget?: EvaluationBudget;
   /** Cells that went over the budget, not evaluated while their expression stays. */
   readonly #overBudget = new Map<string, OverBudget>();
+  /** The next guarded edit is an input's new value in a quickly evaluated notebook. */
+  #quick = false;
+  /** How long the last edit's evaluation took (ms); none yet counts as slow. */
+  #lastEditMs = Infinity;
   /** While set, an edit only computes its new text (see {@linkcode guarded}). */
   #dry = false;
   #candidate?: { text: string; csv: [string, string][] };
@@ -271,7 +284,9 @@ export class LiveSession {
     this.#base = await fingerprintOf(bytes, stat);
     this.#csv.clear();
     await this.#trial({ text: this.#text, csv: [] });
+    const start = performance.now();
     this.#rebuild();
+    this.#lastEditMs = performance.now() - start;
     this.#view = this.#buildView();
     await this.#settleCsv();
   }
@@ -359,6 +374,13 @@ export class LiveSession {
    */
   async guarded(edit: () => EditResult): Promise<EditResult> {
     if (!this.#budget) return edit();
+    if (this.#quick) {
+      // A new value for an input of a notebook whose last evaluation was quick: no formula
+      // changed, and a formula's cost over the same data is bounded (no loops, ranges capped,
+      // the library's costly functions refused), so the edit runs here at typing speed.
+      this.#quick = false;
+      return this.#timed(edit);
+    }
     this.#dry = true;
     this.#candidate = undefined;
     try {
@@ -371,7 +393,52 @@ export class LiveSession {
     const candidate = this.#candidate;
     this.#candidate = undefined;
     if (candidate) await this.#trial(candidate);
-    return edit();
+    return this.#timed(edit);
+  }
+
+  /** Run an edit for real, remembering how long its evaluation took. */
+  #timed(edit: () => EditResult): EditResult {
+    const start = performance.now();
+    try {
+      return edit();
+    } finally {
+      this.#lastEditMs = performance.now() - start;
+    }
+  }
+
+  /**
+   * Whether the next {@linkcode guarded} edit, setting cell `id` to `expression`, may skip
+   * the worker's trial: the cell is an input, the new text is a literal too, and the last
+   * edit evaluated in under {@linkcode QUICK_EDIT_MS} ms. Marks the next edit as quick.
+   *
+   * @example
+   * ```ts ignore
+   * session.markQuickEdit("vd", "13 mm"); // true after a quick edit of the same notebook
+   * ```
+   */
+  markQuickEdit(id: string, expression: string): boolean {
+    const r = this.#nb.result(id);
+    this.#quick = !!r && r.kind === "cell" && r.input && !this.#overBudget.has(id) &&
+      isLiteral(expression) && this.#lastEditMs < QUICK_EDIT_MS && !this.#feedsRange(id);
+    return this.#quick;
+  }
+
+  /**
+   * Whether a cell downstream of `id` builds a range (`a:b`), the one construct whose amount
+   * of work a value decides; a formula's own counts are bounded by its declared ranges.
+   */
+  #feedsRange(id: string): boolean {
+    const lang = this.#nb.language;
+    for (const d of this.#nb.graph.downstream([id])) {
+      const expression = this.#nb.result(d)?.expression;
+      if (!expression?.includes(":")) continue;
+      try {
+        if (lang.parse(expression).filter((n) => n.type === "RangeNode").length) return true;
+      } catch {
+        return true;
+      }
+    }
+    return false;
   }
 
   /** Trial a state in the budget's worker until no cell goes over (marking those that do). */
