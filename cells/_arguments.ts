@@ -155,7 +155,8 @@ function convertArg(
   at: number | string,
   label = p.name,
 ): unknown {
-  const fail = (why: string) => new FormulaArgumentError(spec.name, `${label}: ${why}`, at);
+  const fail = (why: string) =>
+    new FormulaArgumentError(spec.name, `${label}: ${why}${hintFor(p, x)}`, at);
   if (isPlainRecord(x) && p.type !== "any") {
     throw fail(
       spec.options?.length
@@ -234,6 +235,29 @@ function convertArg(
       throw fail(`expected ${t.summary}, got ${shownValue(x)}`);
     }
   }
+}
+
+/**
+ * The parameter's declared hint for an argument of another kind ("; a prescription moves
+ * with vertexRx(rx, from, to)"), or "". Text matches a kind whose reading of it succeeds.
+ */
+function hintFor(p: ParamSpec, x: unknown): string {
+  if (!p.hints) return "";
+  const kind = typeOfValue(x)?.name ?? (quantityParts(x) ? "quantity" : undefined);
+  if (kind) return p.hints[kind] ? `; ${p.hints[kind]}` : "";
+  if (typeof x !== "string") return "";
+  for (const [name, hint] of Object.entries(p.hints)) {
+    const t = getValueType(name);
+    try {
+      if (t?.fromText) {
+        t.fromText(x);
+        return `; ${hint}`;
+      }
+    } catch {
+      // not text of that kind
+    }
+  }
+  return "";
 }
 
 /** What a parameter expects, in words. */

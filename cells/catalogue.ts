@@ -60,6 +60,12 @@ export interface ParamSpec {
   readonly default?: unknown;
   /** For `text`: the words accepted; anything else is refused with this list. */
   readonly choices?: readonly string[];
+  /**
+   * What the refusal adds when the argument is of another kind, by the kind given (a value
+   * type's name such as `"rx"`, which text that reads as one also matches; or `"quantity"`):
+   * the formula that takes it, `{ rx: "a prescription moves with vertexRx(rx, from, to)" }`.
+   */
+  readonly hints?: Readonly<Record<string, string>>;
   /** One line: what the parameter is. */
   readonly doc: string;
 }

@@ -23,7 +23,13 @@ export const CORE_FORMULAS: readonly FormulaSpec[] = [
     summary:
       "Effective power of a single power moved from one vertex distance to another (e.g. spectacle plane to the cornea).",
     params: [
-      { name: "power", type: "quantity", unit: "D", doc: "power at the first position" },
+      {
+        name: "power",
+        type: "quantity",
+        unit: "D",
+        doc: "power at the first position",
+        hints: { rx: "a prescription moves with vertexRx(rx, from, to), meridian by meridian" },
+      },
       {
         name: "from",
         type: "quantity",

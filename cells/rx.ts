@@ -426,7 +426,7 @@ export const RX_FORMULAS: readonly FormulaSpec[] = [
     summary:
       "A prescription moved from one vertex distance to another, per principal meridian (F / (1 − d·F)).",
     params: [
-      RX(),
+      { ...RX(), hints: { quantity: "a single power moves with vertexPower(power, from, to)" } },
       VERTEX_MM("from", "vertex distance at which it was refracted"),
       VERTEX_MM("to", "new vertex distance (0 = at the cornea)", true),
     ],

@@ -151,7 +151,7 @@ export function buildReport(nb: Notebook, settings: ReportOptions = {}): Report 
         sources.push({ n, id, citation: s.citation, status: s.status, mark: statusLabel(s) });
       }
       return n;
-    });
+    }).sort((a, b) => a - b);
     // An input shows exactly what was typed; computed results show in the power step.
     const options = r.input ? { ...nb.display, powerStep: 0 } : nb.display;
     const d = r.error

@@ -168,6 +168,36 @@ function checkText(checks: readonly CheckLine[], width: number): string[] {
 }
 
 /**
+ * An error cell as text, aligned with the other cells: the name padded as theirs, `!` where
+ * `=` is, the message wrapped under itself, and the place on the next line under the message.
+ *
+ * @example
+ * ```ts
+ * import { errorText } from "./_result_text.ts";
+ * errorText("cornea ", { message: "power: expected a power", file: "a.lentil.md", line: 4, col: 22 }, 60);
+ * // ["cornea ! power: expected a power", "         at a.lentil.md:4:22"]
+ * ```
+ */
+export function errorText(
+  lead: string,
+  error: {
+    readonly message: string;
+    readonly file: string;
+    readonly line: number;
+    readonly col: number;
+  },
+  width: number,
+): string[] {
+  const head = `${lead}! `;
+  const indent = " ".repeat(head.length);
+  const body = wrap(error.message, Math.max(20, width - head.length));
+  return [
+    ...body.map((l, i) => (i ? indent : head) + l),
+    `${indent}at ${error.file}:${error.line}:${error.col}`,
+  ];
+}
+
+/**
  * A table's shown rows as aligned text, columns split over blocks when they do not fit in
  * `width`, and the footer in words.
  *

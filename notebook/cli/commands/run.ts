@@ -10,7 +10,7 @@ import { buildReport, type Report } from "../../report.ts";
 import { cliProgress, openNotebook } from "./_open.ts";
 import { type Diagnostic, formatDiagnostic } from "../../format/diagnostic.ts";
 import type { Notebook } from "../../engine/engine.ts";
-import { DEFAULT_WIDTH, resultBelow, terminalWidth, wrap } from "../_result_text.ts";
+import { DEFAULT_WIDTH, errorText, resultBelow, terminalWidth, wrap } from "../_result_text.ts";
 
 /** `lead` then `text`, wrapped to `width` with the continuation lines under the text. */
 function wrapAfter(lead: string, text: string, width: number): string[] {
@@ -53,12 +53,7 @@ export function renderReportText(
     const note = c.note ? `  # ${c.note}` : "";
     const lead = `${c.id.padEnd(nameWidth)} `;
     if (c.error) {
-      lines.push(
-        ...wrap(
-          `${lead}! ${c.error.message}  (${c.error.file}:${c.error.line}:${c.error.col})`,
-          width,
-        ),
-      );
+      lines.push(...errorText(lead, c.error, width));
       continue;
     }
     // A table block is listed in one line (its file holds the rows); a formula's table shows its rows.
