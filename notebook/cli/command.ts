@@ -83,12 +83,15 @@ export function consoleIo(): CliIo {
  * ```
  */
 export function terminalSafe(text: string): string {
-  // deno-lint-ignore no-control-regex
   return text.replace(
-    /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]/g,
+    UNSAFE_ON_TERMINAL,
     (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`,
   );
 }
+
+/** Control characters and direction overrides, which a terminal would act on. */
+// deno-lint-ignore no-control-regex
+const UNSAFE_ON_TERMINAL = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]/g;
 
 /**
  * Write every byte: a pipe may take fewer than asked at once. When the reader has gone (a
