@@ -459,7 +459,7 @@ function guessFormulas(): FormulaSpec[] {
     range: [0, 100],
     doc: "letters needed for credit",
   };
-  const CHANCE = { type: "number", doc: "probability" } as const;
+  const CHANCE = { type: "number", display: "chance", doc: "probability" } as const;
   return [
     defineFormula({
       name: "guessChance",

@@ -81,13 +81,13 @@ function endpointParts({ result: r }: EndpointValue): ValuePart[] {
     },
     {
       key: "plateauFrom",
-      label: "best acuity from (most plus lens)",
+      label: "best acuity from (most minus lens)",
       value: quantity(r.plateau.from, "D"),
       display: formatPower(r.plateau.from),
     },
     {
       key: "plateauTo",
-      label: "best acuity to (most minus lens)",
+      label: "best acuity to (most plus lens)",
       value: quantity(r.plateau.to, "D"),
       display: formatPower(r.plateau.to),
     },

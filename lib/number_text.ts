@@ -34,6 +34,7 @@ export type MeasureKind =
   | "covariance"
   | "ratio"
   | "count"
+  | "chance"
   | "plain";
 
 /** The rule of one kind of measure. */
@@ -86,6 +87,10 @@ export const MEASURE_RULES: Readonly<Record<MeasureKind, MeasureRule>> = {
   covariance: { doc: "a covariance of powers: four significant figures, in D²", unit: "D²" },
   ratio: { doc: "a ratio: two decimals", decimals: 2, unit: "" },
   count: { doc: "a count: whole, with thousands separators", decimals: 0, unit: "" },
+  chance: {
+    doc: "a chance: three significant figures, with 1 in N when below one half (0.00856, 1 in 117)",
+    unit: "",
+  },
   plain: { doc: "any other number: four significant figures", unit: "" },
 };
 
@@ -197,6 +202,7 @@ export function fixed(value: number, decimals: number, sign = false): string {
 export function measureNumber(value: number, kind: MeasureKind): string {
   const rule = MEASURE_RULES[kind];
   if (kind === "count" && Number.isFinite(value)) return Math.round(value).toLocaleString("en");
+  if (kind === "chance") return significant(value, 3);
   return rule.decimals === undefined
     ? significant(value)
     : fixed(value, rule.decimals, rule.signed ?? false);
@@ -212,12 +218,16 @@ export function measureNumber(value: number, kind: MeasureKind): string {
  * measureText(175.2, "axis"); // "175°"
  * measureText(0.01234, "covariance"); // "0.01234 D²"
  * measureText(12.3, "micrometre"); // "12 µm"
+ * measureText(0.008561, "chance"); // "0.00856 (1 in 117)"
  * ```
  */
 export function measureText(value: number, kind: MeasureKind, unit?: string): string {
   const rule = MEASURE_RULES[kind];
   const u = unit === undefined ? rule.unit : unitText(unit);
   const n = measureNumber(value, kind);
+  if (kind === "chance" && value > 0 && value < 0.5) {
+    return `${n} (1 in ${Math.round(1 / value).toLocaleString("en")})`;
+  }
   if (!u) return n;
   return rule.tight ? `${n}${u}` : `${n} ${u}`;
 }

@@ -52,3 +52,30 @@ Deno.test("a plain-number column shows one precision: zeros added, nothing round
   assert.deepEqual(shown.rows.map((r) => r[0]), ["1.50", "1.53", "2.00"]);
   assert.deepEqual(shown.rows.map((r) => r[1]), ["1", "2", "3"]);
 });
+
+Deno.test("endpoint: the best-acuity range reads from its most minus lens to its most plus", () => {
+  // common practice, no source: the plateau runs from the most minus lens tried with the best
+  // acuity to the endpoint, the most plus one (lib/endpoint.ts plateau.from and .to).
+  const e = Notebook.fromText(
+    "~~~lentil table trials\nlens [D] | va [logMAR]\n-1.75 | 0.10\n-2.00 | 0.00\n" +
+      "-2.25 | 0.00\n-2.50 | 0.00\n-2.75 | 0.04\n~~~\n" +
+      '~~~lentil\nbest = endpoint(trials, "lens", "va")\n~~~\n',
+    "e.lentil.md",
+  );
+  const parts = buildReport(e).cells.find((c) => c.id === "best")!.parts!;
+  const part = (key: string) => parts.find((p) => p.key === key)!;
+  assert.equal(part("plateauFrom").label, "best acuity from (most minus lens)");
+  assert.equal(part("plateauFrom").display, "-2.50 D");
+  assert.equal(part("plateauTo").label, "best acuity to (most plus lens)");
+  assert.equal(part("plateauTo").display, "-2.00 D");
+});
+
+Deno.test("a chance reads with three figures and as 1 in N", () => {
+  const g = Notebook.fromText(
+    '~~~lentil\nluck = guessChance("CDHKNORSVZ", 5, 3)\n~~~\n',
+    "g.lentil.md",
+  );
+  // Binomial tail P(X ≥ 3), n = 5, p = 1/10: 0.00856 (binomial-tail, by hand: 10·0.001·0.81
+  // + 5·0.0001·0.9 + 0.00001 = 0.00856).
+  assert.equal(buildReport(g).cells[0].display, "0.00856 (1 in 117)");
+});
