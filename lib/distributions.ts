@@ -400,5 +400,38 @@ export function noncentralTCdf(t: number, df: number, delta: number): number {
 export function noncentralTQuantile(p: number, df: number, delta: number): number {
   checkProbability(p);
   checkDf("degrees of freedom", df);
+  // The Poisson mixture needs about δ²/2 terms: past LARGE_NONCENTRAL d.f. and δ (a million
+  // pairs gives δ ≈ 1,960) the normal approximation is exact to the digits a limit shows.
+  if (df >= LARGE_NONCENTRAL && Math.abs(delta) >= Math.sqrt(LARGE_NONCENTRAL)) {
+    return noncentralTQuantileLarge(p, df, delta);
+  }
   return invert((t) => noncentralTCdf(t, df, delta), p, delta);
+}
+
+/** Degrees of freedom (and δ²) from which the non-central t quantile is approximated. */
+const LARGE_NONCENTRAL = 10_000;
+
+/**
+ * Quantile of the non-central t for large d.f. by the normal approximation
+ * P(T ≤ t) ≈ Φ((t·(1 − 1/(4ν)) − δ) / √(1 + t²/(2ν))), solved for t (a quadratic).
+ * Source: abramowitz-stegun-1964.
+ *
+ * @example
+ * ```ts
+ * import { noncentralTQuantileLarge } from "./distributions.ts";
+ * noncentralTQuantileLarge(0.5, 1e6, 1960).toFixed(1); // "1960.0"
+ * ```
+ */
+export function noncentralTQuantileLarge(p: number, df: number, delta: number): number {
+  const z = normalQuantile(p);
+  const a = 1 - 1 / (4 * df);
+  // (a·t − δ)² = z²·(1 + t²/(2ν)), on the branch where a·t − δ has the sign of z.
+  const qa = a * a - (z * z) / (2 * df);
+  const qb = -2 * a * delta;
+  const qc = delta * delta - z * z;
+  if (z === 0) return delta / a;
+  const root = Math.sqrt(Math.max(0, qb * qb - 4 * qa * qc));
+  const t1 = (-qb + root) / (2 * qa);
+  const t2 = (-qb - root) / (2 * qa);
+  return Math.sign(a * t1 - delta) === Math.sign(z) ? t1 : t2;
 }

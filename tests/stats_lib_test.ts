@@ -183,3 +183,33 @@ Deno.test("Hotelling's T² ellipse of a mean: scale against jstat's F quantile, 
   close(hotellingScale(1e6), chiSquare2(0.95), 1e-4, "large n");
   assert.throws(() => hotellingScale(2), /at least 3/);
 });
+
+Deno.test("non-central t quantile at large d.f.: the normal approximation agrees with the exact mixture", async () => {
+  const { noncentralTCdf, noncentralTQuantile, noncentralTQuantileLarge } = await import(
+    "../lib/distributions.ts"
+  );
+  // Abramowitz & Stegun 26.7.10 (from memory), checked here against the exact Poisson mixture
+  // (Lenth 1989) at 20,000 pairs, where the mixture is still quick: δ = 1.96·√n. The exact
+  // cumulative probability at the approximate quantile is the probability asked for.
+  const n = 20_000;
+  const delta = 1.96 * Math.sqrt(n);
+  const exactQuantile = (p: number) => {
+    let [lo, hi] = [delta - 20, delta + 20];
+    for (let i = 0; i < 60; i++) {
+      const mid = (lo + hi) / 2;
+      if (noncentralTCdf(mid, n - 1, delta) < p) lo = mid;
+      else hi = mid;
+    }
+    return (lo + hi) / 2;
+  };
+  for (const p of [0.025, 0.5, 0.975]) {
+    const approx = noncentralTQuantileLarge(p, n - 1, delta);
+    const exact = exactQuantile(p);
+    assert.ok(Math.abs(approx - exact) / exact < 1e-4, `p ${p}: ${approx} vs ${exact}`);
+  }
+  // A million pairs answers at once (the mixture would sum about two million terms).
+  const t0 = performance.now();
+  const q = noncentralTQuantile(0.975, 999_999, 1.96 * 1000);
+  assert.ok(performance.now() - t0 < 100);
+  assert.ok(Math.abs(q / 1000 - 1.96) < 0.01);
+});
