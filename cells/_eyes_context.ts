@@ -72,8 +72,10 @@ export interface EyeContext {
   readonly found: string;
 }
 
-const SUBJECT_NAMES = /^(subject|subjectid|subject_id|person|patient|participant)$/i;
-const EYE_NAMES = /^(eye|side)$/i;
+/** Column names by which a table's person (subject) key is detected. */
+export const SUBJECT_NAMES: RegExp = /^(subject|subjectid|subject_id|person|patient|participant)$/i;
+/** Column names by which a table's eye column is detected. */
+export const EYE_NAMES: RegExp = /^(eye|side)$/i;
 
 /**
  * Whether a table's rows are eyes of persons, by its declared `subject:`/`eye:` lines or by

@@ -19,7 +19,7 @@ import type { Language } from "../../cells/language.ts";
 import { Column, makeTable } from "../../cells/table.ts";
 import { markExact } from "../../cells/quantity.ts";
 import { agreementRecord, meanRxRecord, vectorStatsRecord } from "../../cells/stats.ts";
-import { INDEPENDENT_NOTE } from "../../cells/_eyes_context.ts";
+import { EYE_NAMES, INDEPENDENT_NOTE, SUBJECT_NAMES } from "../../cells/_eyes_context.ts";
 import { LentilInputError } from "../../lib/errors.ts";
 import { agreementFrom } from "../../lib/agreement.ts";
 import { RunningMoments, vectorSummaryFrom } from "../../lib/stats.ts";
@@ -28,6 +28,7 @@ import { Notebook } from "../engine/engine.ts";
 import type { ColumnShape } from "../engine/_columns.ts";
 import { NotInSql, sqlExpression, type SqlValue, unitScale } from "./expression.ts";
 import { quoteName } from "./_names.ts";
+import { columnArgs } from "../table/stream.ts";
 
 /** One computed column in SQL. */
 export interface SqlColumn {
@@ -84,27 +85,6 @@ export const SQL_STATISTICS: readonly string[] = [
   "vectorStats",
   "agreement",
 ];
-
-/** Column names by which the study statistics find persons and eyes (as `cells/_eyes_context.ts`). */
-const PERSON_NAMES = /^(subject|subjectid|subject_id|person|patient|participant)$/i;
-const EYE_NAMES = /^(eye|side)$/i;
-
-function columnArgs(args: readonly MathNode[], table: string): string[] | undefined {
-  const names: string[] = [];
-  for (const a of args) {
-    const any = a as unknown as {
-      type: string;
-      object?: { type: string; name?: string };
-      index?: { dimensions: { value?: unknown }[]; isObjectProperty(): boolean };
-    };
-    if (
-      any.type !== "AccessorNode" || any.object?.type !== "SymbolNode" ||
-      any.object.name !== table || !any.index?.isObjectProperty()
-    ) return undefined;
-    names.push(String(any.index.dimensions[0].value));
-  }
-  return names;
-}
 
 function symbols(node: MathNode): Set<string> {
   const out = new Set<string>();
@@ -207,7 +187,7 @@ export function planTableWork(
     if (
       fn === "agreement" &&
       (block.options.subject || block.options.eye || inputs.some((c) =>
-        PERSON_NAMES.test(c.name)
+        SUBJECT_NAMES.test(c.name)
       ) ||
         inputs.some((c) => EYE_NAMES.test(c.name)))
     ) {

@@ -161,8 +161,18 @@ const STREAMABLE = new Set([
   "rxAgreement",
 ]);
 
-/** The column names of `table.col` arguments of a call, or undefined when not all are. */
-function columnArgs(args: readonly MathNode[], table: string): string[] | undefined {
+/**
+ * The column names of `table.col` arguments of a call, or undefined when not all are.
+ *
+ * @example
+ * ```ts
+ * import { columnArgs } from "./stream.ts";
+ * import { getLanguage } from "../../cells/language.ts";
+ * const call = getLanguage().parse("meanOf(t.x)") as unknown as { args: never[] };
+ * columnArgs(call.args, "t"); // ["x"]
+ * ```
+ */
+export function columnArgs(args: readonly MathNode[], table: string): string[] | undefined {
   const names: string[] = [];
   for (const a of args) {
     const any = a as unknown as {
