@@ -80,7 +80,7 @@ const PART_LABELS: Record<string, string> = {
   semiMajor: "major semi-axis",
   semiMinor: "minor semi-axis",
   angle: "angle of the major axis",
-  bias: "mean difference (bias)",
+  bias: "mean difference, first − second (bias)",
   lower: "lower limit of agreement",
   upper: "upper limit of agreement",
   note: "note",
