@@ -8,18 +8,7 @@ import { quoteName, SqlNameError } from "../notebook/sql/_names.ts";
 import { type ProgressEvent, progressPrinter } from "../notebook/progress.ts";
 import { runCli } from "../notebook/cli/main.ts";
 import { captureIo } from "../notebook/cli/command.ts";
-
-/** A seeded generator (mulberry32, common practice, no source) for invented refractions. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seeded as rng } from "../lib/seeded.ts";
 
 function csv(n: number, opts: { mixed?: boolean; gaps?: boolean } = {}): string {
   const r = rng(7);
