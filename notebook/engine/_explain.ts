@@ -322,6 +322,11 @@ export function argumentNode(
   formula: string,
   index: number,
 ): MathNode | undefined {
+  return firstCallArgs(node, formula)?.[index];
+}
+
+/** The arguments of the first call of `formula` in the expression tree, if it has one. */
+function firstCallArgs(node: MathNode, formula: string): MathNode[] | undefined {
   let call: MathNode[] | undefined;
   node.traverse((m) => {
     if (call || m.type !== "FunctionNode") return;
@@ -330,7 +335,7 @@ export function argumentNode(
       call = (m as unknown as { args: MathNode[] }).args;
     }
   });
-  return call?.[index];
+  return call;
 }
 
 /**
@@ -348,14 +353,7 @@ export function argumentOffset(
   formula: string,
   argument: number | string,
 ): number | undefined {
-  let call: MathNode[] | undefined;
-  node.traverse((m) => {
-    if (call || m.type !== "FunctionNode") return;
-    const fn = (m as unknown as { fn: { type: string; name?: string } }).fn;
-    if (fn.type === "SymbolNode" && fn.name === formula) {
-      call = (m as unknown as { args: MathNode[] }).args;
-    }
-  });
+  const call = firstCallArgs(node, formula);
   if (!call) return undefined;
   const start = expression.search(new RegExp(`\\b${formula}\\s*\\(`));
   if (start < 0) return undefined;
