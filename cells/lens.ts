@@ -259,6 +259,20 @@ const DIAMETER: ParamSpec = {
   range: DIAMETER_RANGE,
   doc: "lens diameter (uncut, or twice the farthest edge point from the optical centre)",
 };
+const BOX_A: ParamSpec = {
+  name: "boxA",
+  type: "quantity",
+  unit: "mm",
+  range: [20, 80],
+  doc: "box width A",
+};
+const BOX_B: ParamSpec = {
+  name: "boxB",
+  type: "quantity",
+  unit: "mm",
+  range: [10, 80],
+  doc: "box depth B",
+};
 const MIN_THICKNESS: ParamSpec = {
   name: "minThickness",
   type: "quantity",
@@ -394,8 +408,8 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     summary:
       "Fallback blank size when the frame's effective diameter is not known: twice the distance from the optical centre to the farthest box corner, plus a margin. An upper bound that can refuse a strong lens the frame would take; use blankSize with the ED when you have it.",
     params: [
-      { name: "boxA", type: "quantity", unit: "mm", range: [20, 80], doc: "box width A" },
-      { name: "boxB", type: "quantity", unit: "mm", range: [10, 80], doc: "box depth B" },
+      BOX_A,
+      BOX_B,
       {
         name: "decentration",
         type: "quantity",
@@ -465,8 +479,8 @@ export const LENS_FORMULAS: readonly FormulaSpec[] = [
     params: [
       { name: "rx", type: "rx", doc: "the lens power" },
       INDEX,
-      { name: "boxA", type: "quantity", unit: "mm", range: [20, 80], doc: "box width A" },
-      { name: "boxB", type: "quantity", unit: "mm", range: [10, 80], doc: "box depth B" },
+      BOX_A,
+      BOX_B,
       {
         name: "decentration",
         type: "quantity",
