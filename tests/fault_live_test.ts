@@ -143,14 +143,14 @@ Deno.test("an input's new value skips the worker only when no cell it feeds buil
     // One edit through the worker first: the session then knows the notebook evaluates quickly.
     await session.guarded(() => session.setExpression("m", "2.5 mm"));
     // A literal feeding a range decides an amount of work: the worker tries it first.
-    assert.equal(session.markQuickEdit("n", "100000"), false);
+    assert.equal(session.isQuickEdit("n", "100000"), false);
     // A literal feeding only arithmetic runs here at once.
-    assert.equal(session.markQuickEdit("m", "3 mm"), true);
-    const r = await session.guarded(() => session.setExpression("m", "3 mm"));
+    assert.equal(session.isQuickEdit("m", "3 mm"), true);
+    const r = await session.guarded(() => session.setExpression("m", "3 mm"), true);
     assert.equal(r.ok, true);
     assert.equal(server.session.notebook.result("d")?.error, undefined);
     // A formula is never quick.
-    assert.equal(session.markQuickEdit("d", "m * 3"), false);
+    assert.equal(session.isQuickEdit("d", "m * 3"), false);
   } finally {
     await server.shutdown();
     await Deno.remove(dir, { recursive: true });

@@ -230,12 +230,13 @@ async function readRoute(served: Served, req: Request, key: string): Promise<Res
 /** Edits, undo and redo, saving, reloading, keeping both versions, ending the session. */
 async function editRoute(served: Served, req: Request, key: string): Promise<Response> {
   const { session } = served;
-  const edit = async (op: () => EditResult) => json(await session.guarded(op));
+  const edit = async (op: () => EditResult, quick = false) =>
+    json(await session.guarded(op, quick));
   switch (key) {
     case "POST /api/cell": {
       const b = await readJson(req, CellEdit);
-      session.markQuickEdit(b.id, b.expression);
-      return edit(() => session.setExpression(b.id, b.expression));
+      const quick = session.isQuickEdit(b.id, b.expression);
+      return edit(() => session.setExpression(b.id, b.expression), quick);
     }
     case "POST /api/cell/new": {
       const b = await readJson(req, NewCell);

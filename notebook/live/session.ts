@@ -235,8 +235,6 @@ export class LiveSession {
   readonly #budget?: EvaluationBudget;
   /** Cells that went over the budget, not evaluated while their expression stays. */
   readonly #overBudget = new Map<string, OverBudget>();
-  /** The next guarded edit is an input's new value in a quickly evaluated notebook. */
-  #quick = false;
   /** How long the last edit's evaluation took (ms); none yet counts as slow. */
   #lastEditMs = Infinity;
   /** While set, an edit only computes its new text (see {@linkcode guarded}). */
@@ -372,15 +370,13 @@ export class LiveSession {
    * r.patch.cells[0].error; // "stopped: this cell computed for more than 3 s …"
    * ```
    */
-  async guarded(edit: () => EditResult): Promise<EditResult> {
+  async guarded(edit: () => EditResult, quick = false): Promise<EditResult> {
     if (!this.#budget) return edit();
-    if (this.#quick) {
-      // A new value for an input of a notebook whose last evaluation was quick: no formula
-      // changed, and a formula's cost over the same data is bounded (no loops, ranges capped,
-      // the library's costly functions refused), so the edit runs here at typing speed.
-      this.#quick = false;
-      return this.#timed(edit);
-    }
+    // A new value for an input of a notebook whose last evaluation was quick (see
+    // isQuickEdit): no formula changed, and a formula's cost over the same data is bounded
+    // (no loops, ranges capped, the library's costly functions refused), so the edit runs here
+    // at typing speed.
+    if (quick) return this.#timed(edit);
     this.#dry = true;
     this.#candidate = undefined;
     try {
@@ -407,20 +403,19 @@ export class LiveSession {
   }
 
   /**
-   * Whether the next {@linkcode guarded} edit, setting cell `id` to `expression`, may skip
-   * the worker's trial: the cell is an input, the new text is a literal too, and the last
-   * edit evaluated in under {@linkcode QUICK_EDIT_MS} ms. Marks the next edit as quick.
+   * Whether setting cell `id` to `expression` may skip the worker's trial in
+   * {@linkcode guarded}: the cell is an input, the new text is a literal too, no cell it
+   * feeds builds a range, and the last edit evaluated in under {@linkcode QUICK_EDIT_MS} ms.
    *
    * @example
    * ```ts ignore
-   * session.markQuickEdit("vd", "13 mm"); // true after a quick edit of the same notebook
+   * session.isQuickEdit("vd", "13 mm"); // true after a quick edit of the same notebook
    * ```
    */
-  markQuickEdit(id: string, expression: string): boolean {
+  isQuickEdit(id: string, expression: string): boolean {
     const r = this.#nb.result(id);
-    this.#quick = !!r && r.kind === "cell" && r.input && !this.#overBudget.has(id) &&
+    return !!r && r.kind === "cell" && r.input && !this.#overBudget.has(id) &&
       isLiteral(expression) && this.#lastEditMs < QUICK_EDIT_MS && !this.#feedsRange(id);
-    return this.#quick;
   }
 
   /**
