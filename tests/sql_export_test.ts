@@ -16,16 +16,13 @@ import {
 } from "../notebook/sql/work.ts";
 import { sqlNumber, writeSql } from "../notebook/sql/statements.ts";
 import { startPostgres } from "./_postgres.ts";
+import { seeded } from "../lib/seeded.ts";
 
 const lang = getLanguage();
 
 /** Invented refractions by two methods, some cells empty (seeded, common practice, no source). */
 function csv(n: number): string {
-  let a = 12345;
-  const r = () => {
-    a = (a * 1103515245 + 12345) % 2147483648;
-    return a / 2147483648;
-  };
+  const r = seeded(12345);
   const q = (x: number) => Math.round(x * 4) / 4;
   const lines = [
     "code [text],age [number],sph [D],cyl [D],axis [deg],sph2 [D],cyl2 [D],axis2 [deg]",
