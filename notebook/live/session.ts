@@ -423,17 +423,29 @@ export class LiveSession {
    * of work a value decides; a formula's own counts are bounded by its declared ranges.
    */
   #feedsRange(id: string): boolean {
-    const lang = this.#nb.language;
     for (const d of this.#nb.graph.downstream([id])) {
       const expression = this.#nb.result(d)?.expression;
-      if (!expression?.includes(":")) continue;
-      try {
-        if (lang.parse(expression).filter((n) => n.type === "RangeNode").length) return true;
-      } catch {
-        return true;
-      }
+      if (expression?.includes(":") && this.#buildsRange(expression)) return true;
     }
     return false;
+  }
+
+  /** Expressions already looked at for a range (a formula is parsed once, not per keystroke). */
+  readonly #ranges = new Map<string, boolean>();
+
+  #buildsRange(expression: string): boolean {
+    let found = this.#ranges.get(expression);
+    if (found === undefined) {
+      try {
+        found = this.#nb.language.parse(expression).filter((n) =>
+          n.type === "RangeNode"
+        ).length > 0;
+      } catch {
+        found = true;
+      }
+      this.#ranges.set(expression, found);
+    }
+    return found;
   }
 
   /** Trial a state in the budget's worker until no cell goes over (marking those that do). */
