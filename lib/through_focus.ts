@@ -157,19 +157,38 @@ function shape(model: FocusModel, p: number, c: number, w: number): number {
   return model === "peak" ? Math.max(0, Math.abs(p - c) - w / 2) : Math.max(0, p - c);
 }
 
-/** Least squares of y = b + s·g for fixed g; s held at ≥ 0. */
-function linearFit(g: readonly number[], y: readonly number[]): { b: number; s: number } {
+/**
+ * Least squares of y = b + s·g with g = shape(p) for fixed break points; s held at ≥ 0.
+ * Written without arrays: the grid search calls it up to 160 000 times a fit.
+ */
+function fitAt(
+  model: FocusModel,
+  powers: readonly number[],
+  y: readonly number[],
+  c: number,
+  w: number,
+): { b: number; s: number; sse: number } {
   const n = y.length;
-  const mg = g.reduce((a, v) => a + v, 0) / n;
-  const my = y.reduce((a, v) => a + v, 0) / n;
+  let sg = 0;
+  let sy = 0;
+  for (let i = 0; i < n; i++) {
+    sg += shape(model, powers[i], c, w);
+    sy += y[i];
+  }
+  const mg = sg / n;
+  const my = sy / n;
   let sxy = 0;
   let sxx = 0;
   for (let i = 0; i < n; i++) {
-    sxy += (g[i] - mg) * (y[i] - my);
-    sxx += (g[i] - mg) ** 2;
+    const dg = shape(model, powers[i], c, w) - mg;
+    sxy += dg * (y[i] - my);
+    sxx += dg ** 2;
   }
   const s = sxx > 1e-12 ? Math.max(0, sxy / sxx) : 0;
-  return { b: my - s * mg, s };
+  const b = my - s * mg;
+  let sse = 0;
+  for (let i = 0; i < n; i++) sse += (y[i] - b - s * shape(model, powers[i], c, w)) ** 2;
+  return { b, s, sse };
 }
 
 /**
@@ -191,6 +210,26 @@ export function fitThroughFocus(
   model: FocusModel,
   tolerance = 0.02,
 ): FocusFit {
+  // The same trials are often fitted again (a live edit of a cell beside them): the fit is
+  // a pure function of its inputs, so the last few are kept.
+  const key = `${model} ${tolerance} ${points.map((p) => `${p.power},${p.logMAR}`).join(" ")}`;
+  const hit = recentFits.get(key);
+  if (hit) return hit;
+  const fit = searchFit(points, model, tolerance);
+  recentFits.set(key, fit);
+  if (recentFits.size > 32) recentFits.delete(recentFits.keys().next().value!);
+  return fit;
+}
+
+/** The last fits made, by their inputs. */
+const recentFits = new Map<string, FocusFit>();
+
+/** {@linkcode fitThroughFocus} itself: the grid search. */
+function searchFit(
+  points: readonly FocusPoint[],
+  model: FocusModel,
+  tolerance: number,
+): FocusFit {
   const powers = points.map((p) => p.power);
   const y = points.map((p) => p.logMAR);
   const distinct = new Set(powers).size;
@@ -211,10 +250,7 @@ export function fitThroughFocus(
     for (let j = 0; j <= widths; j++) {
       const w = 2 * (at(j) - lo);
       if (model === "peak" && (c - w / 2 < lo - 1e-9 && c + w / 2 > hi + 1e-9)) break;
-      const g = powers.map((p) => shape(model, p, c, w));
-      const { b, s } = linearFit(g, y);
-      let sse = 0;
-      for (let k = 0; k < y.length; k++) sse += (y[k] - b - s * g[k]) ** 2;
+      const { b, s, sse } = fitAt(model, powers, y, c, w);
       // Prefer, among equal fits, the narrowest flat part and the most plus break.
       if (sse < best.sse - 1e-12 || (Math.abs(sse - best.sse) <= 1e-12 && w < best.w)) {
         best = { sse, b, s, c, w };
