@@ -18,7 +18,15 @@ import { getSource, type SourceStatus, statusLabel } from "../shared/sources.ts"
 import { CAUTIONS } from "../shared/cautions.ts";
 import type { CellError, CellResult, Notebook } from "./engine/engine.ts";
 import type { CheckLine } from "../cells/types.ts";
-import { type PartView, present, type TableShown } from "../cells/present.ts";
+import {
+  type PartView,
+  present,
+  type Presented,
+  type PresentSettings,
+  type TableShown,
+} from "../cells/present.ts";
+import { tableInfo } from "../cells/table.ts";
+import type { DisplayOptions } from "../cells/types.ts";
 import { asTyped, MEASURE_RULES, type MeasureKind } from "../cells/display.ts";
 import type { Catalogue } from "../cells/catalogue.ts";
 
@@ -128,6 +136,24 @@ export function declaredKind(
 }
 
 /**
+ * What {@linkcode present} made of a value object, with the settings it was made with. A
+ * table is known by its metadata, which is new whenever a column is added to it in place.
+ */
+const presented = new WeakMap<object, { key: string; shown: Presented }>();
+
+/** {@linkcode present}, once per value object and settings (a live edit keeps most values). */
+function presentOnce(value: unknown, options: DisplayOptions, settings: PresentSettings) {
+  if (typeof value !== "object" || value === null) return present(value, options, settings);
+  const owner = tableInfo(value) ?? value;
+  const key = JSON.stringify([options, settings]);
+  const hit = presented.get(owner);
+  if (hit?.key === key) return hit.shown;
+  const shown = present(value, options, settings);
+  presented.set(owner, { key, shown });
+  return shown;
+}
+
+/**
  * Build the report of an evaluated notebook.
  *
  * @example
@@ -156,7 +182,7 @@ export function buildReport(nb: Notebook, settings: ReportOptions = {}): Report 
     const options = r.input ? { ...nb.display, powerStep: 0 } : nb.display;
     const d = r.error
       ? { display: `error: ${r.error.message}`, value: null, unit: "", headline: "" }
-      : present(r.value, options, {
+      : presentOnce(r.value, options, {
         kind: declaredKind(r.expression, lang.catalogue),
         maxRows: settings.maxRows,
       });

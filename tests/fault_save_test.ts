@@ -6,6 +6,7 @@ import { join } from "node:path";
 import { LiveSession } from "../notebook/live/session.ts";
 import { backupPath, changedOnDisk, fingerprint, writeAtomic } from "../notebook/live/save.ts";
 import { EXPORT_RENDERERS } from "../notebook/live/_markup.ts";
+import type { PlotBlock } from "../notebook/format/parse.ts";
 
 const F = "```";
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -49,14 +50,17 @@ async function withFailingWrites(
 Deno.test("a rejected edit is neither shown, kept for undo, nor saved", async () => {
   await inTemp(async (dir) => {
     const path = join(dir, "a.lentil.md");
-    const text = `# A\n\nSome prose.\n\n${F}lentil\nx = 1\ny = x + 1\n${F}\n`;
+    // A plot whose data x feeds: drawing the page again after an edit of x draws it again.
+    const text = `# A\n\nSome prose.\n\n${F}lentil table t\na [D]\n1\n2\n${F}\n\n` +
+      `${F}lentil\nx = 1\ny = x + 1\nt.b = a * x\n${F}\n\n` +
+      `${F}lentil plot\nfigure: scatter\ntable: t\nhorizontal: a\nvertical: b\n${F}\n`;
     await Deno.writeTextFile(path, text);
     let fail = false;
     const renderers = {
       ...EXPORT_RENDERERS,
-      prose: (t: string) => {
+      plot: (nb: Parameters<typeof EXPORT_RENDERERS.plot>[0], b: PlotBlock) => {
         if (fail) throw new Error("injected fault");
-        return EXPORT_RENDERERS.prose(t);
+        return EXPORT_RENDERERS.plot(nb, b);
       },
     };
     const s = await LiveSession.open(path, { renderers });

@@ -23,8 +23,8 @@ function plot(nb: Notebook, block: PlotBlock): string {
 export const EXPORT_RENDERERS: Renderers = { prose: renderMarkdown, plot };
 
 /**
- * Renderers that draw a plot again only when what it depends on changed (its keys, the
- * columns and cells it reads). One per session.
+ * Renderers that render a prose block once per text, and draw a plot again only when what it
+ * depends on changed (its keys, the columns and cells it reads). One per session.
  *
  * @example
  * ```ts
@@ -35,8 +35,17 @@ export const EXPORT_RENDERERS: Renderers = { prose: renderMarkdown, plot };
  */
 export function remembering(renderers: Renderers): Renderers {
   const plots = new Map<string, { deps: unknown[]; html: string }>();
+  const prose = new Map<string, string>();
   return {
-    prose: (text) => renderers.prose(text),
+    prose(text) {
+      let html = prose.get(text);
+      if (html === undefined) {
+        html = renderers.prose(text);
+        prose.set(text, html);
+        if (prose.size > 500) prose.delete(prose.keys().next().value!);
+      }
+      return html;
+    },
     plot(nb, block) {
       const key = `${block.line}:${block.name ?? ""}`;
       const deps = plotDependencies(block, nb);
