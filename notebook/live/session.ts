@@ -90,17 +90,20 @@ export interface Patch {
   readonly tables: readonly (TableView | TableUpdate)[];
   /** Plots whose view changed. */
   readonly plots: readonly PlotView[];
-  /** Numbered sources, cautions and parse problems (always sent; small). */
-  readonly sources: PageView["sources"];
-  /** Cautions. */
-  readonly cautions: PageView["cautions"];
-  /** The one cautions section's markup. */
-  readonly cautionsHtml: PageView["cautionsHtml"];
-  /** Parse problems. */
-  readonly problems: PageView["problems"];
+  /** Numbered sources, when they changed (the page keeps what it has otherwise). */
+  readonly sources?: PageView["sources"];
+  /** Cautions, when they changed. */
+  readonly cautions?: PageView["cautions"];
+  /** The one cautions section's markup, when it changed. */
+  readonly cautionsHtml?: PageView["cautionsHtml"];
+  /** Parse problems, when they changed. */
+  readonly problems?: PageView["problems"];
   /** Status after the operation. */
   readonly status: SessionStatus;
 }
+
+/** The parts below the notebook a patch carries only when they changed. */
+const FOOTER_PARTS = ["sources", "cautions", "cautionsHtml", "problems"] as const;
 
 /** A table whose data rows and shape are unchanged: its changed computed columns. */
 export interface TableUpdate {
@@ -541,26 +544,25 @@ export class LiveSession {
   /** Compare the page before and after, and describe what changed. */
   #patch(before: PageView): Patch {
     const after = this.#view = this.#buildView();
-    const common = {
-      sources: after.sources,
-      cautions: after.cautions,
-      cautionsHtml: after.cautionsHtml,
-      problems: after.problems,
-      status: this.status(),
-    };
+    const status = this.status();
     if (
       JSON.stringify(before.blocks) !== JSON.stringify(after.blocks) || before.title !== after.title
     ) {
-      return { full: after, cells: [], removed: [], tables: [], plots: [], ...common };
+      return { full: after, cells: [], removed: [], tables: [], plots: [], status };
     }
-    const differs = <T>(a: T | undefined, b: T) => JSON.stringify(a) !== JSON.stringify(b);
+    const differs = <T>(a: T | undefined, b: T) =>
+      a !== b && JSON.stringify(a) !== JSON.stringify(b);
+    const footer = Object.fromEntries(
+      FOOTER_PARTS.filter((k) => differs(before[k], after[k])).map((k) => [k, after[k]]),
+    );
     return {
       cells: Object.values(after.cells).filter((c) => differs(before.cells[c.id], c)),
       removed: Object.keys(before.cells).filter((id) => !after.cells[id]),
       tables: Object.values(after.tables).filter((t) => differs(before.tables[t.name], t))
         .map((t) => tableChange(before.tables[t.name], t)),
       plots: Object.values(after.plots).filter((p) => differs(before.plots[p.key], p)),
-      ...common,
+      ...footer,
+      status,
     };
   }
 
@@ -607,14 +609,7 @@ export class LiveSession {
 
   /** A patch that changes nothing on the page (built without rendering it again). */
   #samePage(): Patch {
-    const v = this.#view;
-    const common = {
-      sources: v.sources,
-      cautions: v.cautions,
-      cautionsHtml: v.cautionsHtml,
-      problems: v.problems,
-    };
-    return { cells: [], removed: [], tables: [], plots: [], ...common, status: this.status() };
+    return { cells: [], removed: [], tables: [], plots: [], status: this.status() };
   }
 
   /** Apply a text edit of the notebook as one undoable step, re-parse and re-evaluate. */

@@ -137,11 +137,12 @@ export function applyPatch(p) {
       const slot = document.getElementById("plot-" + pl.key);
       if (slot) slot.innerHTML = pl.html;
     }
-    view.sources = p.sources;
-    view.cautions = p.cautions;
-    view.cautionsHtml = p.cautionsHtml;
-    view.problems = p.problems;
-    renderFooter();
+    // The parts below the notebook come only when they changed.
+    if (p.sources) view.sources = p.sources;
+    if (p.cautions) view.cautions = p.cautions;
+    if (p.cautionsHtml !== undefined) view.cautionsHtml = p.cautionsHtml;
+    if (p.problems) view.problems = p.problems;
+    if (p.sources || p.cautions || p.cautionsHtml !== undefined || p.problems) renderFooter();
   }
   showStatus(p.status);
 }
