@@ -125,7 +125,7 @@ export async function measure(): Promise<{ goals: Goal[]; lines: string[] }> {
   const browser = await launchChromium();
   const goals: Goal[] = [];
   const lines: string[] = [];
-  const runs = 31;
+  const runs = 61;
   try {
     const clinical = await copyStarter(["clinical-case.lentil.md"]);
     const server = await startLiveServer(clinical.path);

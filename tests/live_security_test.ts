@@ -244,6 +244,69 @@ Deno.test({
         assert.equal(text.status, 415);
         assert.equal(await Deno.readTextFile(path), original);
       });
+      await t.step(
+        "the page's socket: own Origin and key only; calls answer as requests",
+        async () => {
+          const wsUrl = (p: string) => `ws://127.0.0.1:${port}${p}`;
+          // Deno's WebSocket takes headers (a browser sends its page's Origin by itself).
+          const open = (p: string, headers: Record<string, string>) =>
+            new Promise<WebSocket | string>((resolve) => {
+              const ws = new WebSocket(wsUrl(p), { headers } as never);
+              ws.onopen = () => resolve(ws);
+              ws.onerror = () => resolve("refused");
+            });
+          for (
+            const [p, h] of [
+              [at("/api/socket"), { origin: "http://evil.example" }],
+              [at("/api/socket"), {}],
+              ["/api/socket", { origin }],
+              [`/${key.slice(0, -1)}x/api/socket`, { origin }],
+            ] as const
+          ) {
+            assert.equal(await open(p, h), "refused", `${p} ${JSON.stringify(h)}`);
+          }
+          const ws = await open(at("/api/socket"), { origin });
+          assert.ok(ws instanceof WebSocket);
+          type Answer = { n: number; status: number; body: Record<string, unknown> };
+          const next: ((a: Answer) => void)[] = [];
+          ws.onmessage = (e) => next.shift()?.(JSON.parse(e.data));
+          const ask = (m: unknown) =>
+            new Promise<Answer>((resolve) => {
+              next.push(resolve);
+              ws.send(typeof m === "string" ? m : JSON.stringify(m));
+            });
+          const state = await ask({ n: 1, path: "/api/state" });
+          assert.equal(state.n, 1);
+          assert.equal(state.status, 200);
+          assert.ok((state.body.view as { cells: object }).cells);
+          const bad = await ask({ n: 2, path: "/api/cell", body: { id: "vd" } });
+          assert.equal(bad.status, 400, "the request's own validation");
+          const edit = await ask({
+            n: 3,
+            path: "/api/cell",
+            body: { id: "vd", expression: "14 mm" },
+          });
+          assert.equal(edit.status, 200);
+          assert.equal(edit.body.ok, true);
+          assert.ok((edit.body.recomputed as string[]).includes("cornea"));
+          for (
+            const m of [{ n: 4, path: "/api/socket" }, { n: 4, path: "/../secret" }, "not json"]
+          ) {
+            const refused = await ask(m);
+            assert.deepEqual(
+              [refused.n, refused.status],
+              [-1, 400],
+              "not a call: " + JSON.stringify(m),
+            );
+          }
+          const undone = await ask({ n: 5, path: "/api/undo", body: {} });
+          assert.equal(undone.status, 200);
+          assert.equal(server.session.text, original, "undone over the socket");
+          const closed = new Promise((resolve) => ws.onclose = resolve);
+          ws.close();
+          await closed;
+        },
+      );
     } finally {
       await server.shutdown();
       await Deno.remove(dir, { recursive: true });

@@ -23,6 +23,7 @@
  * | POST | `/api/reload` | `{}` | `{ok, patch}` (the page's edits stay on the undo stack) |
  * | POST | `/api/keep-both` | `{name?}` | `{file, written, patch}` |
  * | POST | `/api/end` | `{}` | `{ok: true, unsaved}`, then the server stops |
+ * | GET | `/api/socket` | | a WebSocket carrying the calls above as messages (`_socket.ts`) |
  *
  * @example
  * ```ts ignore
@@ -39,6 +40,7 @@ import { z } from "zod";
 import { checkRequest, newKey, ownOrigins } from "./_guard.ts";
 import { UnsafePathError } from "./_paths.ts";
 import { clientFiles } from "./_assets.ts";
+import { SOCKET_PATH, Sockets } from "./_socket.ts";
 import { pageHtml, STYLE_CSS } from "./_page.ts";
 import { EditRefused, type EditResult, LiveSession } from "./session.ts";
 import { SaveError } from "./save.ts";
@@ -323,6 +325,8 @@ export async function startLiveServer(
   let endedFromPage = false;
   let stop = () => {};
   let port = 0;
+  let origin = "";
+  const sockets = new Sockets();
   const serial = oneAtATime();
   // Saving has its own queue: it writes the state the page shows, even while an edit's
   // cell is still being computed in the budget's worker.
@@ -345,9 +349,17 @@ export async function startLiveServer(
         headers: { ...SECURITY_HEADERS, location: `/${sessionKey}/` },
       });
     }
+    const path = checked.path;
+    if (path === SOCKET_PATH && req.method === "GET") {
+      return sockets.accept(req, {
+        origin,
+        key: sessionKey,
+        maxMessage: MAX_BODY,
+        handle: handler,
+      });
+    }
     // Reading the page's state never waits for an edit being computed; saving waits only
     // for another save; edits and everything else run one at a time.
-    const path = checked.path;
     const queue = req.method === "GET" && path !== "/api/source"
       ? (fn: () => Promise<Response>) => fn()
       : path === "/api/save"
@@ -368,8 +380,11 @@ export async function startLiveServer(
     onListen: () => {},
   }, handler);
   port = server.addr.port;
-  stop = () => void server.shutdown();
-  const origin = ownOrigins(port)[0];
+  origin = ownOrigins(port)[0];
+  stop = () => {
+    sockets.closeAll();
+    void server.shutdown();
+  };
   return {
     url: `${origin}/${sessionKey}/`,
     origin,
@@ -381,6 +396,7 @@ export async function startLiveServer(
     session,
     shutdown: async () => {
       session.close();
+      sockets.closeAll();
       await server.shutdown();
     },
     finished: server.finished,

@@ -10,7 +10,7 @@
  */
 
 import { button, byId, el } from "./dom.js";
-import { api, live, queue, say } from "./state.js";
+import { api, live, openSocket, queue, say } from "./state.js";
 import { applyPatch, applyResult, renderAll, showStatus } from "./page.js";
 
 live.apply = applyResult;
@@ -153,6 +153,7 @@ document.addEventListener("keydown", (e) => {
   }
 });
 
+queue(openSocket);
 queue(() =>
   api("api/state").then((r) => {
     live.view = r.view;

@@ -48,14 +48,92 @@ export function say(text, bad) {
   status.classList.toggle("dirty", !!bad);
 }
 
+/** @type {WebSocket | undefined} */
+let socket;
+let calls = 0;
+/** @type {Map<number, { done: (status: number, body: any) => void, fail: (e: Error) => void }>} */
+const waiting = new Map();
+
 /**
- * Call the server. Addresses are relative to the page's own, which holds the session's key.
+ * Open the quick line to the server (a WebSocket under the page's address); settles either
+ * way: while it is closed, calls go as plain requests.
+ *
+ * @returns {Promise<void>}
+ */
+export function openSocket() {
+  return new Promise((resolve) => {
+    /** @type {WebSocket} */
+    let ws;
+    try {
+      ws = new WebSocket(new URL("api/socket", location.href).href.replace(/^http/, "ws"));
+    } catch {
+      resolve();
+      return;
+    }
+    ws.onopen = () => {
+      socket = ws;
+      resolve();
+    };
+    ws.onclose = () => {
+      if (socket === ws) socket = undefined;
+      // A call in flight may or may not have been applied: say so rather than send it again.
+      for (const w of waiting.values()) w.fail(new Error("the connection to the server closed"));
+      waiting.clear();
+      resolve();
+    };
+    ws.onmessage = (e) => {
+      const m = JSON.parse(e.data);
+      const w = waiting.get(m.n);
+      if (!w) return;
+      waiting.delete(m.n);
+      w.done(m.status, m.body);
+    };
+  });
+}
+
+/**
+ * An answer as the page reads it: its data, or an error (a conflict, 409, is data too).
+ *
+ * @param {boolean} ok
+ * @param {number} status
+ * @param {any} data
+ * @param {string} statusText
+ */
+function answered(ok, status, data, statusText) {
+  if (!ok && status !== 409) throw new Error((data && data.error) || statusText);
+  return data;
+}
+
+/**
+ * Call the server: over the socket when it is open, else as a request. Addresses are
+ * relative to the page's own, which holds the session's key.
  *
  * @param {string} path
  * @param {unknown} [body]
  * @returns {Promise<any>}
  */
 export function api(path, body) {
+  const ws = socket;
+  if (ws && ws.readyState === WebSocket.OPEN && !path.includes("?")) {
+    const n = ++calls;
+    return new Promise((resolve, reject) => {
+      waiting.set(n, {
+        done: (status, data) => {
+          try {
+            resolve(answered(status >= 200 && status < 300, status, data, "error " + status));
+          } catch (e) {
+            reject(e);
+          }
+        },
+        fail: reject,
+      });
+      ws.send(
+        JSON.stringify(
+          body === undefined ? { n, path: "/" + path } : { n, path: "/" + path, body },
+        ),
+      );
+    });
+  }
   /** @type {RequestInit & { headers: Record<string, string> }} */
   const init = {
     method: body === undefined ? "GET" : "POST",
@@ -68,10 +146,9 @@ export function api(path, body) {
     init.body = JSON.stringify(body);
   }
   return fetch(path, init).then((res) =>
-    res.json().catch(() => ({ error: res.statusText })).then((data) => {
-      if (!res.ok && res.status !== 409) throw new Error(data.error || res.statusText);
-      return data;
-    })
+    res.json().catch(() => ({ error: res.statusText })).then((data) =>
+      answered(res.ok, res.status, data, res.statusText)
+    )
   );
 }
 
