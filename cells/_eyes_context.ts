@@ -16,6 +16,7 @@
  * @module
  */
 
+import { countText } from "../lib/number_text.ts";
 import { type Column, tableInfo, tableOfColumn, type TableValue } from "./table.ts";
 import { type EyePairing, eyePairing, oneEyeRows, personMeans, sideOf } from "../lib/eyes.ts";
 import { LentilInputError } from "../lib/errors.ts";
@@ -189,7 +190,7 @@ export interface EyesApplied {
   readonly subjectOfRow?: string[];
 }
 
-const count = (n: number, word: string) => `${n.toLocaleString("en")} ${word}${n === 1 ? "" : "s"}`;
+const count = (n: number, word: string) => `${countText(n)} ${word}${n === 1 ? "" : "s"}`;
 
 /** What is said when no persons are found behind the rows. */
 export const INDEPENDENT_NOTE = "rows taken as independent (no subject key and eye column found)";

@@ -6,6 +6,7 @@
  * @module
  */
 
+import { countText } from "../lib/number_text.ts";
 import type { ConfigOptions, FactoryFunctionMap, MathJsInstance } from "mathjs";
 import { MATHJS_FACTORIES } from "./_mathjs_files.ts";
 import { MAX_RANGE_LENGTH, NOTEBOOK_CONSTANTS, NOTEBOOK_FUNCTION_NAMES } from "./functions.ts";
@@ -75,8 +76,8 @@ export class RangeLengthError extends RangeError {
   constructor(readonly count: number) {
     super(
       `a range of ${
-        Number.isFinite(count) ? count.toLocaleString("en") : "endless"
-      } values is more than a notebook takes (at most ${MAX_RANGE_LENGTH.toLocaleString("en")})`,
+        Number.isFinite(count) ? countText(count) : "endless"
+      } values is more than a notebook takes (at most ${countText(MAX_RANGE_LENGTH)})`,
     );
     this.name = "RangeLengthError";
   }

@@ -7,6 +7,7 @@
  * @module
  */
 
+import { countText } from "../lib/number_text.ts";
 import { markExact, quantity, quantityParts } from "./quantity.ts";
 import { defineValueType, type DisplayOptions, typeOfValue, type ValuePart } from "./types.ts";
 import { formatMeasure, formatNumber, formatQuantity, signed } from "./display.ts";
@@ -163,7 +164,7 @@ const COVARIANCE_KEYS = new Set(["covMJ0", "covMJ45", "covJ0J45"]);
  */
 function defaultHeadline(r: Record<string, unknown>, options: DisplayOptions): string {
   const show = (k: string) => showStat(k, r[k], options);
-  const n = typeof r.n === "number" ? ` (n ${r.n.toLocaleString("en")})` : "";
+  const n = typeof r.n === "number" ? ` (n ${countText(r.n)})` : "";
   if (r.rx !== undefined) return `${show("rx")}${n}`;
   if (r.bias !== undefined && r.lower !== undefined && r.upper !== undefined) {
     return `bias ${show("bias")}, limits ${joinShared(show("lower"), " to ", show("upper"))}${n}`;

@@ -26,6 +26,7 @@
  * @module
  */
 
+import { countText } from "../lib/number_text.ts";
 import { Column, type TableInfo, tableInfo } from "./table.ts";
 import { formulaMath, isExact, isUnsigned, quantityParts, roundingNote } from "./quantity.ts";
 import {
@@ -153,7 +154,7 @@ export function describeValue(
   }
   if (x instanceof Column) {
     return {
-      display: `column ${x.name} (${x.length.toLocaleString("en")} rows${
+      display: `column ${x.name} (${countText(x.length)} rows${
         x.unit ? `, ${unitText(x.unit)}` : ""
       })`,
       value: columnJson(x, options),
@@ -370,7 +371,7 @@ export function tableCounts(info: TableInfo): string {
   const n = info.rowCount;
   const c = info.columns.length;
   const computed = info.columns.filter((col) => isComputed(info, col)).length;
-  const rows = `${n.toLocaleString("en")} row${n === 1 ? "" : "s"}`;
+  const rows = `${countText(n)} row${n === 1 ? "" : "s"}`;
   const cols = `${c} column${c === 1 ? "" : "s"}`;
   const from = info.file ? ` from ${info.file}` : " entered";
   const split = computed
@@ -382,7 +383,7 @@ export function tableCounts(info: TableInfo): string {
 }
 
 function leftOut(n: number): string {
-  return `${n.toLocaleString("en")} unreadable row${n === 1 ? "" : "s"} left out`;
+  return `${countText(n)} unreadable row${n === 1 ? "" : "s"} left out`;
 }
 
 function isComputed(info: TableInfo, c: Column): boolean {
@@ -464,7 +465,7 @@ export function showTable(
   if (info.excluded) {
     facts.push(leftOut(info.excluded));
   }
-  if (cut) facts.push(`rows 1–${shown.toLocaleString("en")} shown`);
+  if (cut) facts.push(`rows 1–${countText(shown)} shown`);
   return {
     name: info.name,
     columns: info.columns.map((c) => ({

@@ -21,6 +21,7 @@
  * @module
  */
 
+import { countText } from "../lib/number_text.ts";
 import { defineFormula, type FormulaSpec, type OptionSpec } from "./catalogue.ts";
 import type { Column } from "./table.ts";
 import {
@@ -356,8 +357,7 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
         designEffect: 1 + r,
         eyes: ctx.found,
       }, {
-        headline: () =>
-          `r ${r.toFixed(2)} over ${pairs.toLocaleString("en")} persons with both eyes`,
+        headline: () => `r ${r.toFixed(2)} over ${countText(pairs)} persons with both eyes`,
       });
     },
   }),
@@ -493,7 +493,7 @@ export const STUDY_FORMULAS: readonly FormulaSpec[] = [
       const r = proportionalBias(applied.arrays[0], applied.arrays[1]);
       const warning = ctx && !oneEye && ctx.pairing.bothEyes
         ? `${
-          ctx.pairing.bothEyes.toLocaleString("en")
+          countText(ctx.pairing.bothEyes)
         } persons give both eyes: the test takes eyes as independent, so p is too small; write {eyes: "right"} (one eye per person)`
         : undefined;
       const headline = () =>

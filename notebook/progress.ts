@@ -7,6 +7,8 @@
  * @module
  */
 
+import { countText } from "../lib/number_text.ts";
+
 /** How far a table read has come. */
 export interface ProgressEvent {
   /** The table. */
@@ -28,8 +30,8 @@ export type ProgressListener = (e: ProgressEvent) => void;
 export function progressLine(e: ProgressEvent, seconds: number): string {
   const rate = seconds > 0 ? e.rows / seconds : 0;
   const parts = [
-    `reading ${e.file} (table ${e.table}): ${Math.round(e.rows).toLocaleString("en")} rows`,
-    `${Math.round(rate).toLocaleString("en")} rows/s`,
+    `reading ${e.file} (table ${e.table}): ${countText(e.rows)} rows`,
+    `${countText(rate)} rows/s`,
   ];
   if (e.fraction !== undefined && e.fraction >= 0) {
     parts.push(`${Math.floor(e.fraction * 100)}%`);

@@ -6,6 +6,7 @@
  * @module
  */
 
+import { countText } from "../../lib/number_text.ts";
 import type { MathNode } from "mathjs";
 import {
   DISABLED_FUNCTIONS,
@@ -145,10 +146,8 @@ function readFormula(
   const refuse = (message: string, offset = 0) => ({ message, offset });
   if (expression.length > MAX_FORMULA_LENGTH) {
     return refuse(
-      `the formula is ${
-        expression.length.toLocaleString("en")
-      } characters long; a cell holds at most ${
-        MAX_FORMULA_LENGTH.toLocaleString("en")
+      `the formula is ${countText(expression.length)} characters long; a cell holds at most ${
+        countText(MAX_FORMULA_LENGTH)
       } (keep long data in a table or a CSV file)`,
     );
   }

@@ -20,6 +20,7 @@
  * @module
  */
 
+import { countText } from "../../lib/number_text.ts";
 import { parse as parseCsv } from "csv-parse/sync";
 import { Column, makeTable, type TableValue } from "../../cells/table.ts";
 import { getValueType, listValueTypes } from "../../cells/types.ts";
@@ -585,7 +586,7 @@ export function csvColumns(
 /** A value from a file, shortened for a message when it is long. */
 function shortValue(text: string): string {
   const t = text.length > 60
-    ? `${text.slice(0, 40)}…" (${text.length.toLocaleString("en")} characters)`
+    ? `${text.slice(0, 40)}…" (${countText(text.length)} characters)`
     : `${text}"`;
   return `"${t}`;
 }

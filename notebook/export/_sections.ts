@@ -5,6 +5,7 @@
  * @module
  */
 
+import { countText } from "../../lib/number_text.ts";
 import { stringify } from "csv-stringify/sync";
 import type { Notebook } from "../engine/engine.ts";
 import type { CalcBlock, TableBlock } from "../format/parse.ts";
@@ -133,7 +134,7 @@ export function tableSection(
     const file = `${block.name || "table"}.csv`;
     data =
       `<details class="lx-data"><summary>Full data as CSV (${
-        info.rowCount.toLocaleString("en")
+        countText(info.rowCount)
       } rows)</summary>` +
       `<p><a download="${escapeHtml(file)}" href="data:text/csv;charset=utf-8,${
         escapeHtml(encodeURIComponent(csv))

@@ -46,6 +46,7 @@
  * @module
  */
 
+import { countText } from "../../lib/number_text.ts";
 import type { Notebook } from "../engine/engine.ts";
 import type { OptionDef, PlotBlock } from "../format/parse.ts";
 import type { Diagnostic } from "../format/diagnostic.ts";
@@ -516,7 +517,7 @@ function captionOf(
 ): string | undefined {
   let caption = opt(ctx, "caption");
   if (step > 1 && figure.name !== "distribution") {
-    const note = `One row in ${step} drawn, of ${rowCount.toLocaleString("en")}.`;
+    const note = `One row in ${step} drawn, of ${countText(rowCount)}.`;
     caption = caption ? `${caption} ${note}` : note;
   }
   if (drawing.note) caption = caption ? `${caption} ${drawing.note}` : drawing.note;

@@ -6,6 +6,7 @@
  * @module
  */
 
+import { countText } from "../../lib/number_text.ts";
 import { tableInfo } from "../../cells/table.ts";
 import type { CheckLine } from "../../cells/types.ts";
 import { type PartView, tableCellText, tableCounts } from "../../cells/present.ts";
@@ -306,7 +307,7 @@ function tableView(
     columns,
     rows: rows.slice(0, GRID_ROW_LIMIT).map((row) => row.cells),
     computed,
-    footer: info ? tableCounts(info) : `${rows.length.toLocaleString("en")} rows`,
+    footer: info ? tableCounts(info) : `${countText(rows.length)} rows`,
     ...(r?.error ? { error: errorView(r.error) } : {}),
     problems,
   };

@@ -7,6 +7,7 @@
  * @module
  */
 
+import { countText } from "../../../lib/number_text.ts";
 import { FIGURE } from "../_palette.ts";
 import { axisKind } from "../_axes.ts";
 import { eyePairing, fellowEyeCorrelation, fellowEyePairs } from "../../../lib/eyes.ts";
@@ -59,7 +60,7 @@ export const fellowEyes: FigureDef = {
       y: { title: `left eye: ${c.name}${unit}`, kind: axisKind(c.unit) },
       note: `Correlation between fellow eyes r = ${
         Number.isFinite(r.r) ? r.r.toFixed(2) : "undefined"
-      } over ${r.pairs.toLocaleString("en")} persons with both eyes; dashed: left equal to right.`,
+      } over ${countText(r.pairs)} persons with both eyes; dashed: left equal to right.`,
     };
   },
 };

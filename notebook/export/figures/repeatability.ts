@@ -7,6 +7,7 @@
  * @module
  */
 
+import { countText } from "../../../lib/number_text.ts";
 import { FIGURE } from "../_palette.ts";
 import { valueText } from "../_axes.ts";
 import { subjectSpreads } from "../../../lib/reliability.ts";
@@ -59,7 +60,7 @@ export const repeatability: FigureDef = {
         kind: "plain",
         include: [0],
       },
-      note: `${r.spreads.length.toLocaleString("en")} subjects with repeated measures.`,
+      note: `${countText(r.spreads.length)} subjects with repeated measures.`,
     };
   },
 };
