@@ -17,10 +17,12 @@ import {
   columnKind,
   csvColumns,
   openCsvTable,
+  readCsvHead,
   REFRACTION_COLUMNS,
   type TableProblem,
 } from "../engine/_tables.ts";
 import { quoteName } from "../sql/_names.ts";
+import { sqlNumber } from "../sql/statements.ts";
 import { momentsFromRow, planTableWork, statisticTotals, type TableWork } from "../sql/work.ts";
 import type { NotebookDoc } from "../format/parse.ts";
 import type { DuckConnection } from "./_open.ts";
@@ -79,12 +81,15 @@ async function csvHeader(
     await o.rest.return?.();
     return o;
   };
-  let opened = await open(64);
-  if (opened.start.columns.some((c) => c.spec === "")) opened = await open();
-  if (opened.start.problems.length) throw new DuckTableError(opened.start.problems[0]);
+  // The head of the file is read directly when it can answer; the stream otherwise.
+  const startOf = async (rows: number) =>
+    readCsvHead(block, notebookFile, path, lang, rows) ?? (await open(rows)).start;
+  let start = await startOf(64);
+  if (start.columns.some((c) => c.spec === "")) start = await startOf(4096);
+  if (start.problems.length) throw new DuckTableError(start.problems[0]);
   return {
-    names: opened.start.columns.map((c) => c.name),
-    kinds: [...opened.start.builder.kinds],
+    names: start.columns.map((c) => c.name),
+    kinds: [...start.builder.kinds],
   };
 }
 
@@ -208,7 +213,8 @@ function shapesOf(names: readonly string[], kinds: readonly ColumnKind[]): Colum
 
 /**
  * Work a table block's file in DuckDB: plan the notebook's table work, read and check the
- * file, run every statistic in one scan. Paths are bound as parameters; names are quoted.
+ * file, run every statistic in one scan. Paths are bound as parameters, names are quoted, and
+ * numbers are written from numbers, never copied from the notebook's text.
  *
  * @example
  * ```ts ignore
@@ -238,7 +244,10 @@ export async function workTableInDuck(
   }
   const inputs: ColumnShape[] = shapesOf(names, kinds);
   const params: (string | number)[] = [path];
+  // A finite number is written from its value, so DuckDB folds the constants of a formula
+  // (about 15% of a 10M-row scan when they were parameters); others are bound.
   const value = (x: number) => {
+    if (Number.isFinite(x)) return sqlNumber(x);
     params.push(x);
     return `CAST($${params.length} AS DOUBLE)`;
   };
@@ -319,6 +328,13 @@ async function readHeader(
   }
 }
 
+/**
+ * DuckDB's CSV read buffer, bytes. 8 MB instead of its default holds a 10M-row scan's peak
+ * memory to about half (232 → 120 MB resident, measured on the bench's generated file) and
+ * scans as fast.
+ */
+const CSV_BUFFER_BYTES = 8 * 1024 * 1024;
+
 /** What every query over one table file shares: its columns and the bound parameters. */
 interface DuckRead {
   readonly db: DuckConnection;
@@ -365,7 +381,7 @@ function rowQuery(read: DuckRead, sources: readonly string[] | undefined): RowQu
         ", ",
       )
     } FROM read_parquet($1))`
-    : `read_csv($1, header = false, skip = 1, names = [${listed}], types = {${types}}, delim = ',', quote = '"', escape = '"', ignore_errors = true, store_rejects = true, null_padding = false)`;
+    : `read_csv($1, header = false, skip = 1, names = [${listed}], types = {${types}}, delim = ',', quote = '"', escape = '"', ignore_errors = true, store_rejects = true, null_padding = false, buffer_size = ${CSV_BUFFER_BYTES})`;
   const flags: string[] = [];
   const cellText: string[] = [];
   const vals: string[] = [];

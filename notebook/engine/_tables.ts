@@ -979,6 +979,17 @@ export async function openCsvTable(
     throw e;
   }
   if (!first.length) return { problem: emptyCsv(path, lastBytes > 0 ? " " : "") };
+  return { start: startFromRecords(block, notebookFile, first, lang, path), rest: it, path };
+}
+
+/** The header, kinds and builder of a CSV table from its first records (header first). */
+function startFromRecords(
+  block: TableBlock,
+  notebookFile: string,
+  first: readonly CsvRecord[],
+  lang: Language,
+  path: string,
+): CsvTableStart {
   const header = csvColumns(first[0].cells, block, notebookFile, path);
   const rows = first.slice(1);
   const { kinds, problems } = resolveKinds(
@@ -996,7 +1007,66 @@ export async function openCsvTable(
       else builder.add(r.cells, r.line);
     }
   }
-  return { start: { columns: header.columns, builder, problems: all }, rest: it, path };
+  return { columns: header.columns, builder, problems: all };
+}
+
+/** Bytes read at most by {@linkcode readCsvHead}. */
+const HEAD_BYTES = 1024 * 1024;
+
+/**
+ * The start of a CSV table ({@linkcode openCsvTable}'s, for the same first `rows` rows) read
+ * from the head of the file alone, without the streaming parser: for a caller that needs
+ * only the header and the kinds. Undefined when the head cannot say for certain (a table
+ * that skips bad rows, a record across the cut, fewer rows than asked in a longer file, any
+ * reading problem): the caller then opens the table as a stream.
+ *
+ * @example
+ * ```ts ignore
+ * const start = readCsvHead(block, "study.lentil.md", "/data/eyes.csv", getLanguage(), 64);
+ * ```
+ */
+export function readCsvHead(
+  block: TableBlock,
+  notebookFile: string,
+  fullPath: string,
+  lang: Language,
+  rows: number,
+): CsvTableStart | undefined {
+  if (skipsBad(block)) return undefined;
+  let head: Uint8Array;
+  let whole: boolean;
+  try {
+    const file = Deno.openSync(fullPath, { read: true });
+    try {
+      const size = file.statSync().size;
+      head = new Uint8Array(Math.min(size, HEAD_BYTES));
+      let got = 0;
+      while (got < head.length) {
+        const n = file.readSync(head.subarray(got));
+        if (n === null || n === 0) break;
+        got += n;
+      }
+      head = head.subarray(0, got);
+      whole = got >= size;
+    } finally {
+      file.close();
+    }
+  } catch {
+    return undefined;
+  }
+  // Whole lines only: a record is never cut (a quoted line break across the cut fails below).
+  const end = whole ? head.length : head.lastIndexOf(0x0a) + 1;
+  if (end <= 0) return undefined;
+  let records: { record: string[]; info: { lines: number } }[];
+  try {
+    const text = new TextDecoder().decode(head.subarray(0, end));
+    records = parseCsv(text, { ...CSV_OPTIONS, to: rows + 1 }) as unknown as typeof records;
+  } catch {
+    return undefined;
+  }
+  if (!records.length || (records.length < rows + 1 && !whole)) return undefined;
+  const first = records.map((r) => ({ cells: r.record, line: r.info.lines }));
+  return startFromRecords(block, notebookFile, first, lang, block.options.file!.value);
 }
 
 /**
