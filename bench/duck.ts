@@ -121,6 +121,8 @@ async function child(kind: string, dir: string): Promise<void> {
       if (bad) throw new Error(`${bad.id}: ${bad.error!.message}`);
       out.limits = rep.cells.find((c) => c.id === "limitsM")!.display;
     });
+    // Lentil's own peak, before the hand-written query runs in the same process.
+    out.peak = Math.max(peak, Deno.memoryUsage().rss);
   }
   if (kind === "duckdb") {
     // The same job by hand through the same DuckDB in the same process.
@@ -131,8 +133,7 @@ async function child(kind: string, dir: string): Promise<void> {
     });
   }
   clearInterval(timer);
-  peak = Math.max(peak, Deno.memoryUsage().rss);
-  out.peak = peak;
+  out.peakAll = Math.max(peak, Deno.memoryUsage().rss);
   console.log(JSON.stringify(out));
 }
 
@@ -219,14 +220,20 @@ export async function measure(): Promise<{ goals: Goal[]; lines: string[] }> {
     await Deno.writeTextFile(join(dir, "in-process.lentil.md"), notebook("in-process"));
     const mb = (x: number) => `${(x / 1e6).toFixed(0)} MB`;
     let size = await writeCsv(join(dir, "eyes.csv"), 1_000_000);
-    const d1 = await run("duckdb", dir);
+    // Three processes, each timing both paths; the run with the median ratio is reported.
+    const runs: Record<string, number>[] = [];
+    for (let k = 0; k < 3; k++) runs.push(await run("duckdb", dir));
+    runs.sort((a, b) => a.seconds / a.hand - b.seconds / b.hand);
+    const d1 = runs[1];
     const today = await run("in-process", dir);
     lines.push(
-      `two-method job, 1,000,000 rows (${mb(size)} CSV): lentil run in DuckDB ${
-        d1.seconds.toFixed(2)
-      } s, the same SQL by hand ${d1.hand.toFixed(2)} s, in-process (today's run) ${
-        today.seconds.toFixed(2)
-      } s; peak RSS ${mb(d1.peak)} (in-process ${mb(today.peak)})`,
+      `two-method job, 1,000,000 rows (${mb(size)} CSV), median of 3 processes: lentil run in ` +
+        `DuckDB ${d1.seconds.toFixed(2)} s, the same SQL by hand ${d1.hand.toFixed(2)} s, ` +
+        `in-process (today's run) ${today.seconds.toFixed(2)} s; peak RSS ${
+          mb(Math.max(...runs.map((r) => r.peak)))
+        } (with the hand query after it in the same process ${mb(d1.peakAll)}; in-process ${
+          mb(today.peak)
+        })`,
     );
     // The limits' exact confidence intervals (non-central t) are finished in-process on both
     // paths; their share of the time is shown on its own.
@@ -257,11 +264,13 @@ export async function measure(): Promise<{ goals: Goal[]; lines: string[] }> {
     lines.push(
       `two-method job, 10,000,000 rows (${mb(size)} CSV): lentil run in DuckDB ${
         d10.seconds.toFixed(2)
-      } s, by hand ${d10.hand.toFixed(2)} s; peak RSS ${mb(d10.peak)}`,
+      } s, by hand ${d10.hand.toFixed(2)} s; peak RSS ${mb(d10.peak)} (with the hand query ${
+        mb(d10.peakAll)
+      })`,
     );
     goals.push({
       name: "duckdb-peak-rss",
-      value: Math.round(Math.max(d1.peak, d10.peak) / 1e6),
+      value: Math.round(Math.max(...runs.map((r) => r.peak), d10.peak) / 1e6),
       unit: "MB",
       op: "<",
       target: 200,
