@@ -11,7 +11,7 @@
  * | --- | --- | --- | --- |
  * | GET | `/` | | the page |
  * | GET | `/client/NAME.js`, `/style.css` | | the page's script modules and style |
- * | GET | `/api/state` | | `{view, status}` |
+ * | GET | `/api/state` | | `{view, status}`; `{opening: text}` while the notebook opens |
  * | GET | `/api/disk` | | `{changed: [file…]}`: files changed on disk since read |
  * | GET | `/api/source?file=NAME` | | text of a CSV file a table reads |
  * | POST | `/api/cell` | `{id, expression}` | `{ok, recomputed, patch}` |
@@ -41,6 +41,8 @@ import { checkRequest, newKey, ownOrigins } from "./_guard.ts";
 import { UnsafePathError } from "./_paths.ts";
 import { clientFiles } from "./_assets.ts";
 import { SOCKET_PATH, Sockets } from "./_socket.ts";
+import { progressLine, type ProgressListener } from "../progress.ts";
+import { basename } from "node:path";
 import { pageHtml, STYLE_CSS } from "./_page.ts";
 import { EditRefused, type EditResult, LiveSession } from "./session.ts";
 import { SaveError } from "./save.ts";
@@ -78,6 +80,13 @@ export interface LiveServerOptions {
    * worker and shown as an error. `false` evaluates in the server's own thread, unguarded.
    */
   readonly budget?: BudgetLimits | false;
+  /**
+   * Called with the page's address as soon as the server listens, before the notebook has
+   * opened (the page then shows how far opening has come).
+   */
+  readonly onListening?: (url: string) => void;
+  /** Told how far the reading of the notebook's table files has come while it opens. */
+  readonly onProgress?: ProgressListener;
 }
 
 const MAX_BODY = 8 * 1024 * 1024;
@@ -204,14 +213,43 @@ function route(served: Served, req: Request, path: string): Promise<Response> {
   return req.method === "GET" ? readRoute(served, req, key) : editRoute(served, req, key);
 }
 
+/** The page's shell, style and script files, the same while opening and after. */
+function shellRoute(
+  client: ReadonlyMap<string, string>,
+  title: string,
+  key: string,
+): Response | undefined {
+  if (key === "GET /") return respond(pageHtml(title), "text/html; charset=utf-8");
+  if (key === "GET /style.css") return respond(STYLE_CSS, "text/css; charset=utf-8");
+  const m = /^GET \/client\/([a-z]+\.js)$/.exec(key);
+  const file = m ? client.get(m[1]) : undefined;
+  return file === undefined ? undefined : respond(file, "text/javascript; charset=utf-8");
+}
+
+/**
+ * While the notebook opens: the shell, and a state that says how far the reading of its
+ * table files has come (the page asks again until it is ready); nothing else yet.
+ */
+function openingRoute(
+  client: ReadonlyMap<string, string>,
+  title: string,
+  req: Request,
+  path: string,
+  line: string,
+): Response {
+  const key = `${req.method} ${path}`;
+  const shell = shellRoute(client, title, key);
+  if (shell) return shell;
+  if (key === "GET /api/state") return json({ opening: line });
+  return json({ error: `the notebook is still opening (${line})` }, 503);
+}
+
 /** The page, its style and script, and what it reads: state, disk changes, table files. */
 async function readRoute(served: Served, req: Request, key: string): Promise<Response> {
   const { session, client } = served;
+  const shell = shellRoute(client, session.view.title, key);
+  if (shell) return shell;
   switch (key) {
-    case "GET /":
-      return respond(pageHtml(session.view.title), "text/html; charset=utf-8");
-    case "GET /style.css":
-      return respond(STYLE_CSS, "text/css; charset=utf-8");
     case "GET /api/state":
       return json({ view: session.view, status: session.status() });
     case "GET /api/disk":
@@ -220,12 +258,8 @@ async function readRoute(served: Served, req: Request, key: string): Promise<Res
       const file = new URL(req.url).searchParams.get("file") ?? "";
       return respond(session.tableFile(file), "text/plain; charset=utf-8");
     }
-    default: {
-      const m = /^GET \/client\/([a-z]+\.js)$/.exec(key);
-      const file = m ? client.get(m[1]) : undefined;
-      if (file !== undefined) return respond(file, "text/javascript; charset=utf-8");
+    default:
       return json({ error: "not found" }, 404);
-    }
   }
 }
 
@@ -315,11 +349,6 @@ export async function startLiveServer(
   path: string,
   options: LiveServerOptions = {},
 ): Promise<LiveServer> {
-  // Every new state is evaluated in a worker first, under a time and memory budget per cell.
-  const session = await LiveSession.open(path, {
-    renderers: options.renderers,
-    budget: options.budget === false ? undefined : options.budget ?? {},
-  });
   const sessionKey = newKey();
   const client = await clientFiles();
   let endedFromPage = false;
@@ -331,14 +360,10 @@ export async function startLiveServer(
   // Saving has its own queue: it writes the state the page shows, even while an edit's
   // cell is still being computed in the budget's worker.
   const oneSave = oneAtATime();
-  const served: Served = {
-    session,
-    client,
-    endFromPage: () => {
-      endedFromPage = true;
-    },
-    stopSoon: () => void setTimeout(stop, 20),
-  };
+  // Set once the notebook is open; until then the page is told how far opening has come.
+  let served: Served | undefined;
+  const file = basename(path);
+  let opening = `opening ${file}`;
 
   const handler = (req: Request): Promise<Response> | Response => {
     const checked = checkRequest(req, { port, key: sessionKey });
@@ -350,6 +375,8 @@ export async function startLiveServer(
       });
     }
     const path = checked.path;
+    const open = served;
+    if (!open) return openingRoute(client, file, req, path, opening);
     if (path === SOCKET_PATH && req.method === "GET") {
       return sockets.accept(req, {
         origin,
@@ -367,13 +394,12 @@ export async function startLiveServer(
       : serial;
     return queue(async () => {
       try {
-        return await route(served, req, path);
+        return await route(open, req, path);
       } catch (e) {
         return failure(req, e);
       }
     });
   };
-
   const server = Deno.serve({
     hostname: "127.0.0.1",
     port: options.port ?? 0,
@@ -384,6 +410,32 @@ export async function startLiveServer(
   stop = () => {
     sockets.closeAll();
     void server.shutdown();
+  };
+  options.onListening?.(`${origin}/${sessionKey}/`);
+  // Every new state is evaluated in a worker first, under a time and memory budget per cell.
+  let session: LiveSession;
+  try {
+    const started = performance.now();
+    session = await LiveSession.open(path, {
+      renderers: options.renderers,
+      budget: options.budget === false ? undefined : options.budget ?? {},
+      onProgress: (e) => {
+        opening = progressLine(e, (performance.now() - started) / 1000);
+        if (e.done) opening = `computing ${file}`;
+        options.onProgress?.(e);
+      },
+    });
+  } catch (e) {
+    await server.shutdown();
+    throw e;
+  }
+  served = {
+    session,
+    client,
+    endFromPage: () => {
+      endedFromPage = true;
+    },
+    stopSoon: () => void setTimeout(stop, 20),
   };
   return {
     url: `${origin}/${sessionKey}/`,

@@ -50,6 +50,7 @@ import {
 import { bareName, insideFolder } from "./_paths.ts";
 import { EXPORT_RENDERERS, remembering } from "./_markup.ts";
 import { readRawTable } from "../engine/_tables.ts";
+import { countingStream, type ProgressListener } from "../progress.ts";
 import { type BudgetLimits, EvaluationBudget, type OverBudget } from "../engine/budget.ts";
 import {
   buildPageView,
@@ -262,7 +263,11 @@ export class LiveSession {
    */
   static async open(
     path: string,
-    options: { renderers?: Renderers; budget?: EvaluationBudget | BudgetLimits } = {},
+    options: {
+      renderers?: Renderers;
+      budget?: EvaluationBudget | BudgetLimits;
+      onProgress?: ProgressListener;
+    } = {},
   ): Promise<LiveSession> {
     const budget = options.budget instanceof EvaluationBudget
       ? options.budget
@@ -270,6 +275,7 @@ export class LiveSession {
       ? new EvaluationBudget(options.budget)
       : undefined;
     const s = new LiveSession(path, options.renderers ?? EXPORT_RENDERERS, budget);
+    s.#onProgress = options.onProgress;
     await s.#readFromDisk();
     return s;
   }
@@ -284,6 +290,7 @@ export class LiveSession {
     this.#saved = decoded.text;
     this.#base = await fingerprintOf(bytes, stat);
     this.#csv.clear();
+    await this.#readTablesAhead();
     await this.#trial({ text: this.#text, csv: [] });
     const start = performance.now();
     this.#rebuild();
@@ -345,13 +352,63 @@ export class LiveSession {
       throw new Error("it is not a regular file (a device, pipe or folder?)");
     }
     const bytes = Deno.readFileSync(full);
-    const mtime = Deno.statSync(full).mtime?.getTime() ?? 0;
+    return this.#keepCsv(rel, bytes, Deno.statSync(full).mtime?.getTime() ?? 0);
+  }
+
+  #keepCsv(rel: string, bytes: Uint8Array, mtime: number): string {
     const bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
     const text = new TextDecoder("utf-8", { ignoreBOM: true }).decode(
       bom ? bytes.subarray(3) : bytes,
     );
     this.#csv.set(rel, { disk: text, text, bom, bytes, mtime });
     return text;
+  }
+
+  /** Told how far the reading of table files has come while the notebook opens. */
+  #onProgress?: ProgressListener;
+
+  /**
+   * Read the notebook's table files before it is evaluated, in chunks, telling
+   * {@linkcode #onProgress} as they come (the server answers the page meanwhile). A file
+   * that cannot be read here is left to the evaluation, which says why at its table.
+   */
+  async #readTablesAhead(): Promise<void> {
+    const listen = this.#onProgress;
+    const doc = parseNotebook(this.#text, this.#path);
+    for (const block of doc.tables) {
+      const rel = block.options.file?.value;
+      if (!rel || this.#csv.has(rel)) continue;
+      let full: string;
+      let stat: Deno.FileInfo;
+      try {
+        full = insideFolder(this.#dir, rel);
+        stat = await Deno.stat(full);
+        if (!stat.isFile) continue;
+      } catch {
+        continue;
+      }
+      const parts: Uint8Array[] = [];
+      let size = 0;
+      try {
+        // The stream closes the file when it ends or fails.
+        const file = await Deno.open(full, { read: true });
+        const report = (rows: number, fraction: number, done: boolean) =>
+          listen?.({ table: block.name, file: rel, rows, fraction, done });
+        for await (const chunk of countingStream(file.readable, stat.size, report)) {
+          parts.push(chunk);
+          size += chunk.length;
+        }
+      } catch {
+        continue;
+      }
+      const bytes = new Uint8Array(size);
+      let at = 0;
+      for (const p of parts) {
+        bytes.set(p, at);
+        at += p.length;
+      }
+      this.#keepCsv(rel, bytes, stat.mtime?.getTime() ?? 0);
+    }
   }
 
   #engineOptions() {

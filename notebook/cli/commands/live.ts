@@ -55,17 +55,27 @@ export const liveCommand: Command = {
     let server;
     try {
       const { startLiveServer } = await import("../../live/server.ts");
-      server = await startLiveServer(file, { port });
+      const { progressPrinter } = await import("../../progress.ts");
+      // The address is printed as soon as the server listens: the page shows how far
+      // opening has come, as this terminal does for a large table.
+      server = await startLiveServer(file, {
+        port,
+        onListening: (url) => {
+          io.out(`Lentil is serving ${basename(file)} for editing in your browser:`);
+          io.out(`  ${url}`);
+          io.out("The address holds this session's key: keep it to yourself.");
+          io.out(
+            "End the session with the page's End session button, or interrupt here (Ctrl+C).",
+          );
+        },
+        onProgress: progressPrinter(),
+      });
     } catch (e) {
       io.err(`lentil live: ${(e as Error).message}`);
       return 1;
     }
     // Nothing below spawns, loads native code, reads the environment or the system.
     for (const name of ["run", "ffi", "env", "sys"] as const) Deno.permissions.revokeSync({ name });
-    io.out(`Lentil is serving ${basename(file)} for editing in your browser:`);
-    io.out(`  ${server.url}`);
-    io.out("The address holds this session's key: keep it to yourself.");
-    io.out("End the session with the page's End session button, or interrupt here (Ctrl+C).");
     const stop = () => void server.shutdown();
     Deno.addSignalListener("SIGINT", stop);
     try {

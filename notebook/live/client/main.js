@@ -153,13 +153,25 @@ document.addEventListener("keydown", (e) => {
   }
 });
 
-queue(openSocket);
-queue(() =>
-  api("api/state").then((r) => {
+/**
+ * Draw the page once the notebook is open; until then, say how far opening has come (the
+ * reading of a large table file) and ask again.
+ *
+ * @returns {Promise<void>}
+ */
+function whenOpen() {
+  return api("api/state").then((r) => {
+    if (r.opening) {
+      say(r.opening);
+      return new Promise((again) => setTimeout(again, 250)).then(whenOpen);
+    }
     live.view = r.view;
     renderAll();
     showStatus(r.status);
     document.body.dataset.ready = "1";
     polling = setInterval(pollDisk, 1500);
-  })
-);
+  });
+}
+
+queue(whenOpen);
+queue(openSocket);
