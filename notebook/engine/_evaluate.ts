@@ -18,6 +18,7 @@ import {
 } from "../../cells/table.ts";
 import { isStackOverflow } from "./_analyse.ts";
 import { planColumn } from "./_columns.ts";
+import { sameValue } from "./_same.ts";
 import { argumentNode, argumentOffset, explainFailure } from "./_explain.ts";
 import { type EngineState, type NodeDef, type NodeState, ownsName, sortSources } from "./_state.ts";
 import type { CellError, ErrorKind } from "./engine.ts";
@@ -52,7 +53,14 @@ export function evaluateNode(s: EngineState, id: string): void {
   }
   const { cited, ...outcome } = blocked(s, n, id, where) ?? compute(s, n, id, where);
   if (n.narrowingSources) sources = sources.concat(cited ? [...cited] : n.narrowingSources);
-  const state = { ...outcome, sources: sortSources(sources), caution };
+  // A cell whose text is unchanged and whose value came out the same keeps the value it had.
+  const before = s.state.get(id);
+  const from = n.kind === "cell" ? n.cell?.expression : undefined;
+  if (
+    from !== undefined && before && before.from === from && !before.error && !outcome.error &&
+    sameValue(before.value, outcome.value)
+  ) outcome.value = before.value;
+  const state = { ...outcome, sources: sortSources(sources), caution, from };
   s.state.set(id, state);
   if (n.kind !== "column" && ownsName(n)) {
     if (state.error) s.scope.delete(n.name);

@@ -51,6 +51,8 @@ export interface NodeState {
   error?: CellError;
   sources: readonly string[];
   caution: boolean;
+  /** The cell's expression the value was computed from (cells only). */
+  from?: string;
 }
 
 /** Everything the engine's parts read and change. */
