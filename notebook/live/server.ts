@@ -361,7 +361,7 @@ export async function startLiveServer(
   // cell is still being computed in the budget's worker.
   const oneSave = oneAtATime();
   // Set once the notebook is open; until then the page is told how far opening has come.
-  let served: Served | undefined;
+  let served: Served | undefined = undefined;
   const file = basename(path);
   let opening = `opening ${file}`;
 
