@@ -168,7 +168,8 @@ export function buildReport(nb: Notebook, settings: ReportOptions = {}): Report 
   const sources: ReportSource[] = [];
   const lang = nb.language;
   const cells = nb.results().map((r): ReportCell => {
-    const notes = r.sources.map((id) => {
+    // A cell with an error used no source: only results put sources in the list.
+    const notes = (r.error ? [] : r.sources).map((id) => {
       let n = numbers.get(id);
       if (n === undefined) {
         n = numbers.size + 1;
