@@ -290,10 +290,11 @@ export class LiveSession {
     this.#saved = decoded.text;
     this.#base = await fingerprintOf(bytes, stat);
     this.#csv.clear();
-    await this.#readTablesAhead();
+    const doc = parseNotebook(this.#text, this.#path);
+    await this.#readTablesAhead(doc);
     await this.#trial({ text: this.#text, csv: [] });
     const start = performance.now();
-    this.#rebuild();
+    this.#rebuild(doc);
     this.#lastEditMs = performance.now() - start;
     this.#view = this.#buildView();
     await this.#settleCsv();
@@ -372,9 +373,8 @@ export class LiveSession {
    * {@linkcode #onProgress} as they come (the server answers the page meanwhile). A file
    * that cannot be read here is left to the evaluation, which says why at its table.
    */
-  async #readTablesAhead(): Promise<void> {
+  async #readTablesAhead(doc: NotebookDoc): Promise<void> {
     const listen = this.#onProgress;
-    const doc = parseNotebook(this.#text, this.#path);
     for (const block of doc.tables) {
       const rel = block.options.file?.value;
       if (!rel || this.#csv.has(rel)) continue;
@@ -536,8 +536,9 @@ export class LiveSession {
     this.#budget?.close();
   }
 
-  #rebuild(): string[] {
-    this.#doc = parseNotebook(this.#text, this.#path);
+  /** Evaluate the current text again (`doc` when the caller has parsed it already). */
+  #rebuild(doc: NotebookDoc = parseNotebook(this.#text, this.#path)): string[] {
+    this.#doc = doc;
     const options = this.#engineOptions();
     if (!this.#nb) {
       this.#nb = new Notebook(this.#doc, options);
@@ -686,7 +687,7 @@ export class LiveSession {
         this.#doc = doc;
         recomputed = this.#nb.update(fast.id, fast.expression);
       } else {
-        recomputed = this.#rebuild();
+        recomputed = this.#rebuild(doc);
       }
       return { ok: true, recomputed, patch: this.#patch(before) };
     });
